@@ -1,0 +1,9 @@
+import { NextResponse } from 'next/server';
+import { route } from '@/lib/api/handler';
+import { requireRole } from '@/lib/auth/session';
+import { listMembers } from '@/lib/services/studies';
+
+export const GET = route<{ id: string }>(async (request, { params }) => {
+  const { study } = await requireRole(request, (await params).id, 'viewer');
+  return NextResponse.json({ members: await listMembers(study.id) });
+});

@@ -1,0 +1,26 @@
+import { NextResponse } from 'next/server';
+import { route } from '@/lib/api/handler';
+import { readJson } from '@/lib/api/read-json';
+import { requireRole } from '@/lib/auth/session';
+import { updateStudySchema } from '@/lib/validations/study';
+import { deleteStudy, studyJson, updateStudy } from '@/lib/services/studies';
+
+type Params = { id: string };
+
+export const GET = route<Params>(async (request, { params }) => {
+  const { study, role } = await requireRole(request, (await params).id, 'viewer');
+  return NextResponse.json({ study: studyJson(study), role });
+});
+
+export const PATCH = route<Params>(async (request, { params }) => {
+  const { user, study } = await requireRole(request, (await params).id, 'owner');
+  const input = await readJson(request, updateStudySchema);
+  const updated = await updateStudy(user.id, study.id, input);
+  return NextResponse.json({ study: studyJson(updated) });
+});
+
+export const DELETE = route<Params>(async (request, { params }) => {
+  const { user, study } = await requireRole(request, (await params).id, 'owner');
+  await deleteStudy(user.id, study);
+  return new NextResponse(null, { status: 204 });
+});

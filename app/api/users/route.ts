@@ -1,0 +1,12 @@
+import { NextResponse } from 'next/server';
+import { route } from '@/lib/api/handler';
+import { readJson } from '@/lib/api/read-json';
+import { signUpSchema } from '@/lib/validations/user';
+import { createUser } from '@/lib/services/users';
+
+/** Sign-up: creates an account (the client then signs in with it). */
+export const POST = route(async (request) => {
+  const input = await readJson(request, signUpSchema);
+  const user = await createUser(input);
+  return NextResponse.json({ user }, { status: 201 });
+});

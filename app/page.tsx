@@ -1,0 +1,6 @@
+import { redirect } from 'next/navigation';
+import { getPageUser } from '@/lib/auth/session';
+
+export default async function Home() {
+  redirect((await getPageUser()) ? '/studies' : '/sign-in');
+}

@@ -1,0 +1,36 @@
+'use client';
+
+import Link from 'next/link';
+import { usePathname } from 'next/navigation';
+import type { Role } from '@/lib/auth/roles';
+import { roleAtLeast } from '@/lib/auth/roles';
+
+/** The study's sections. A new feature page adds its entry here, with the least role that sees it. */
+export const studySections: Array<{ segment: string; label: string; minRole: Role }> = [
+  { segment: '', label: 'Overview', minRole: 'viewer' },
+];
+
+export function StudyNav({ studyId, role }: { studyId: number; role: Role }) {
+  const pathname = usePathname();
+  const base = `/studies/${studyId}`;
+  return (
+    <nav aria-label="Study sections" className="flex flex-wrap gap-1 border-b border-ink/10">
+      {studySections
+        .filter((s) => roleAtLeast(role, s.minRole))
+        .map((s) => {
+          const href = s.segment ? `${base}/${s.segment}` : base;
+          const active = s.segment ? pathname === href || pathname.startsWith(`${href}/`) : pathname === base;
+          return (
+            <Link
+              key={s.segment || 'overview'}
+              href={href}
+              aria-current={active ? 'page' : undefined}
+              className={`-mb-px border-b-2 px-3 py-2 text-sm font-medium ${active ? 'border-teal-600 text-teal-700' : 'border-transparent text-ink-soft hover:text-ink'}`}
+            >
+              {s.label}
+            </Link>
+          );
+        })}
+    </nav>
+  );
+}

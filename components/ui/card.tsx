@@ -1,0 +1,15 @@
+import type { ReactNode } from 'react';
+
+export function Card({ title, actions, children, className = '' }: { title?: ReactNode; actions?: ReactNode; children: ReactNode; className?: string }) {
+  return (
+    <section className={`rounded-lg border border-ink/10 bg-paper-raised p-5 shadow-sm ${className}`}>
+      {title || actions ? (
+        <header className="mb-4 flex items-center justify-between gap-4">
+          {title ? <h2>{title}</h2> : <span />}
+          {actions}
+        </header>
+      ) : null}
+      {children}
+    </section>
+  );
+}

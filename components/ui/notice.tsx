@@ -1,0 +1,17 @@
+import type { ReactNode } from 'react';
+
+const tones = {
+  info: 'border-teal-300 bg-teal-50 text-teal-700',
+  warning: 'border-amber-400 bg-amber-50 text-amber-700',
+  error: 'border-danger-500 bg-danger-50 text-danger-700',
+} as const;
+
+/** A boxed message; errors are announced to screen readers. */
+export function Notice({ tone = 'info', title, children }: { tone?: keyof typeof tones; title?: string; children?: ReactNode }) {
+  return (
+    <div role={tone === 'error' ? 'alert' : 'status'} className={`rounded-md border px-4 py-3 text-sm ${tones[tone]}`}>
+      {title ? <p className="font-semibold">{title}</p> : null}
+      {children ? <div className={title ? 'mt-1' : ''}>{children}</div> : null}
+    </div>
+  );
+}

@@ -1,0 +1,20 @@
+import type { ReactNode, TdHTMLAttributes, ThHTMLAttributes } from 'react';
+
+export function Table({ children, caption }: { children: ReactNode; caption?: string }) {
+  return (
+    <div className="overflow-x-auto rounded-lg border border-ink/10 bg-paper-raised">
+      <table className="min-w-full divide-y divide-ink/10 text-sm">
+        {caption ? <caption className="sr-only">{caption}</caption> : null}
+        {children}
+      </table>
+    </div>
+  );
+}
+
+export function Th({ className = '', ...props }: ThHTMLAttributes<HTMLTableCellElement>) {
+  return <th scope="col" className={`px-4 py-2 text-left text-xs font-semibold uppercase tracking-wide text-ink-soft ${className}`} {...props} />;
+}
+
+export function Td({ className = '', ...props }: TdHTMLAttributes<HTMLTableCellElement>) {
+  return <td className={`px-4 py-2 align-top ${className}`} {...props} />;
+}

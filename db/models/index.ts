@@ -1,0 +1,24 @@
+import type { Sequelize } from 'sequelize';
+import { User } from './user';
+import { Study } from './study';
+import { Membership } from './membership';
+import { AuditEvent } from './audit-event';
+
+export { User, Study, Membership, AuditEvent };
+
+/**
+ * Registers every model and association on one Sequelize instance. A new model is added here
+ * (and gets a migration in db/migrations): this is the one place the app learns about tables.
+ */
+export function registerModels(sequelize: Sequelize): void {
+  User.register(sequelize);
+  Study.register(sequelize);
+  Membership.register(sequelize);
+  AuditEvent.register(sequelize);
+
+  Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
+  Membership.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });
+  Study.hasMany(Membership, { foreignKey: 'studyId', as: 'memberships' });
+  User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' });
+  AuditEvent.belongsTo(User, { foreignKey: 'actorId', as: 'actor' });
+}

@@ -1,0 +1,35 @@
+import type { NextAuthOptions } from 'next-auth';
+import CredentialsProvider from 'next-auth/providers/credentials';
+import { verifyCredentials } from './credentials';
+
+function clientAddress(headers: Record<string, unknown> | undefined): string {
+  const forwarded = headers?.['x-forwarded-for'];
+  const first = typeof forwarded === 'string' ? forwarded.split(',')[0]?.trim() : undefined;
+  const real = headers?.['x-real-ip'];
+  return first || (typeof real === 'string' ? real : '') || 'local';
+}
+
+export const authOptions: NextAuthOptions = {
+  session: { strategy: 'jwt', maxAge: 7 * 24 * 60 * 60 },
+  pages: { signIn: '/sign-in' },
+  providers: [
+    CredentialsProvider({
+      name: 'E-mail and password',
+      credentials: { email: { label: 'E-mail', type: 'email' }, password: { label: 'Password', type: 'password' } },
+      async authorize(credentials, req) {
+        if (!credentials?.email || !credentials.password) return null;
+        return verifyCredentials(credentials.email, credentials.password, clientAddress(req?.headers));
+      },
+    }),
+  ],
+  callbacks: {
+    async jwt({ token, user }) {
+      if (user) token.sub = user.id;
+      return token;
+    },
+    async session({ session, token }) {
+      if (session.user && token.sub) session.user.id = token.sub;
+      return session;
+    },
+  },
+};

@@ -1,0 +1,21 @@
+import { z } from 'zod';
+
+export const emailSchema = z.string().trim().toLowerCase().pipe(z.email('Enter a valid e-mail address.')).pipe(z.string().max(254));
+
+export const passwordSchema = z
+  .string()
+  .min(10, 'Use at least 10 characters.')
+  .max(200, 'Use at most 200 characters.');
+
+export const signInSchema = z.strictObject({
+  email: emailSchema,
+  password: z.string().min(1, 'Enter your password.'),
+});
+export type SignInInput = z.infer<typeof signInSchema>;
+
+export const signUpSchema = z.strictObject({
+  name: z.string().trim().min(2, 'Enter your name.').max(120),
+  email: emailSchema,
+  password: passwordSchema,
+});
+export type SignUpInput = z.infer<typeof signUpSchema>;

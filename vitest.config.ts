@@ -1,0 +1,27 @@
+import { defineConfig } from 'vitest/config';
+import path from 'node:path';
+
+// Two projects: `unit` (pure code, no services) and `integration` (real MariaDB on the test port,
+// started by scripts/test.mjs). Browser tests run under Playwright, not here.
+export default defineConfig({
+  resolve: { alias: { '@': path.resolve(__dirname) } },
+  test: {
+    projects: [
+      {
+        extends: true,
+        test: { name: 'unit', include: ['tests/unit/**/*.test.ts', 'tests/property/**/*.test.ts'], environment: 'node' },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'integration',
+          include: ['tests/integration/**/*.test.ts'],
+          environment: 'node',
+          fileParallelism: false,
+          testTimeout: 60_000,
+          hookTimeout: 120_000,
+        },
+      },
+    ],
+  },
+});
