@@ -1,0 +1,66 @@
+import type { ModelId } from './types';
+
+/**
+ * Closed-form zone bounds shared by reversalZone, optimiseLateDelay and reversibleShare.
+ *
+ * Every model's bounds take the form
+ *   D_lower = d + (a / K)^p   (near gap B = 0: f_K(D − d) = x)
+ *   D_upper = (b / K)^p       (far gap A = 0:  f_K(D) = x·f_k(d))
+ * obtained by inverting f_K. With r = 1/x:
+ *   exponential        a = ln r,                b = k·d + ln r,            p = 1
+ *   hyperbolic         a = (1 − x)/x,           b = (1 − x + k·d)/x,       p = 1
+ *   hyperboloid        a = r^(1/s) − 1,         b = r^(1/s)·(1 + k·d) − 1, p = 1
+ *   power-delay        a = (1 − x)/x,           b = (1 − x + k·d^s)/x,     p = 1/s
+ *   exponential-power  a = ln r,                b = k·d^s + ln r,          p = 1/s
+ *   quasi-hyperbolic   a = max(0, ln(β/x)),     b = k·d + ln r,            p = 1   (d > 0)
+ * The hyperbolic and exponential rows are the forms quoted in DESIGN.md.
+ */
+export type ZoneConstants = { a: number; b: number; p: number };
+
+/** Fills `out` with a, b, p for the model (inputs already validated). Returns out. */
+export function zoneConstants(
+  id: ModelId,
+  x: number,
+  d: number,
+  k: number,
+  s: number,
+  beta: number,
+  out: ZoneConstants,
+): ZoneConstants {
+  const lnR = -Math.log(x);
+  switch (id) {
+    case 'exponential':
+      out.a = lnR;
+      out.b = k * d + lnR;
+      out.p = 1;
+      break;
+    case 'hyperbolic':
+      out.a = (1 - x) / x;
+      out.b = (1 - x + k * d) / x;
+      out.p = 1;
+      break;
+    case 'hyperboloid': {
+      // expm1 keeps r^(1/s) − 1 accurate when x is close to 1
+      out.a = Math.expm1(lnR / s);
+      out.b = out.a + (out.a + 1) * k * d;
+      out.p = 1;
+      break;
+    }
+    case 'power-delay':
+      out.a = (1 - x) / x;
+      out.b = (1 - x + k * Math.pow(d, s)) / x;
+      out.p = 1 / s;
+      break;
+    case 'exponential-power':
+      out.a = lnR;
+      out.b = k * Math.pow(d, s) + lnR;
+      out.p = 1 / s;
+      break;
+    case 'quasi-hyperbolic':
+      out.a = Math.max(0, Math.log(beta) + lnR);
+      out.b = k * d + lnR;
+      out.p = 1;
+      break;
+  }
+  return out;
+}
