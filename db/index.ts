@@ -16,7 +16,8 @@ function createSequelize(): Sequelize {
     dialectModule: mariadb,
     logging: false,
     // Fail fast when the server is down, so requests answer 503 quickly instead of hanging.
-    dialectOptions: { connectTimeout: 3000, timezone: 'Etc/GMT0' },
+    dialectOptions: { connectTimeout: 3000 },
+    timezone: '+00:00',
     pool: { max: 20, min: 0, acquire: 5000, idle: 10000 },
     define: { underscored: true },
   });

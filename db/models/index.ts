@@ -3,8 +3,9 @@ import { User } from './user';
 import { Study } from './study';
 import { Membership } from './membership';
 import { AuditEvent } from './audit-event';
+import { Design, DesignComment, DesignVersion, PriorSet } from './planner';
 
-export { User, Study, Membership, AuditEvent };
+export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
 
 /**
  * Registers every model and association on one Sequelize instance. A new model is added here
@@ -15,10 +16,18 @@ export function registerModels(sequelize: Sequelize): void {
   Study.register(sequelize);
   Membership.register(sequelize);
   AuditEvent.register(sequelize);
+  PriorSet.register(sequelize);
+  Design.register(sequelize);
+  DesignVersion.register(sequelize);
+  DesignComment.register(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });
   Study.hasMany(Membership, { foreignKey: 'studyId', as: 'memberships' });
   User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' });
   AuditEvent.belongsTo(User, { foreignKey: 'actorId', as: 'actor' });
+  Design.hasMany(DesignVersion, { foreignKey: 'designId', as: 'versions' });
+  DesignVersion.belongsTo(Design, { foreignKey: 'designId', as: 'design' });
+  Design.hasMany(DesignComment, { foreignKey: 'designId', as: 'comments' });
+  DesignComment.belongsTo(User, { foreignKey: 'authorId', as: 'author' });
 }

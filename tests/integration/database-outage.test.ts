@@ -1,0 +1,38 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { GET as health } from '@/app/api/health/route';
+import { GET as listStudies } from '@/app/api/studies/route';
+import { startDatabase, stopDatabase } from '@/db/server.mjs';
+import { ctx, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
+
+let user: TestUser;
+
+beforeAll(async () => {
+  await migrateUp();
+  user = await makeUser('outage');
+});
+
+afterAll(async () => {
+  // Whatever happened above, leave the test database running for the next file.
+  await startDatabase({ instance: 'test', log: () => {} });
+});
+
+describe('when the database goes away', () => {
+  it('answers 503 "database unavailable", then recovers by itself when it is back', async () => {
+    const before = await listStudies(await requestAs(user, 'GET', '/api/studies'), ctx({}));
+    expect(before.status).toBe(200);
+
+    await stopDatabase({ instance: 'test' });
+    const during = await listStudies(await requestAs(user, 'GET', '/api/studies'), ctx({}));
+    expect(during.status).toBe(503);
+    expect(await during.json()).toEqual({ error: 'database unavailable' });
+    expect((await health()).status).toBe(503);
+
+    await startDatabase({ instance: 'test', log: () => {} });
+    let after = 0;
+    for (let attempt = 0; attempt < 20 && after !== 200; attempt++) {
+      after = (await listStudies(await requestAs(user, 'GET', '/api/studies'), ctx({}))).status;
+      if (after !== 200) await new Promise((r) => setTimeout(r, 500));
+    }
+    expect(after).toBe(200);
+  }, 120_000);
+});
