@@ -2,6 +2,8 @@
 const nextConfig = {
   // The database driver and ORM load optional native pieces at run time; bundling them breaks that.
   serverExternalPackages: ['sequelize', 'mariadb', '@resvg/resvg-js', 'smtp-server', 'mailparser', 'nodemailer'],
+  // Separate build folders let several servers of one checkout run side by side (e.g. NEXT_DIST_DIR=.next-dev).
+  distDir: process.env.NEXT_DIST_DIR || '.next',
   poweredByHeader: false,
   reactStrictMode: true,
 };
