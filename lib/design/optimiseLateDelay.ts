@@ -7,7 +7,7 @@ import type { ModelId, PairInput } from './types';
 export type LateDelayOptimum = { lower: number; upper: number; lateDelay: number; gapProduct: number };
 
 const LOG_MAX = Math.log(Number.MAX_VALUE);
-const scratch: ZoneConstants = { a: 0, b: 0, p: 1 };
+const scratch: ZoneConstants = { a: 0, b: 0, p: 1, span: 0 };
 
 /**
  * The late delay D* that maximises the gap product C(D) = A(D)·B(D) inside the reversal zone.
@@ -59,10 +59,11 @@ export function optimiseLateDelay(input: PairInput): LateDelayOptimum | null {
 }
 
 function hyperbolicOptimum(x: number, d: number, k: number, K: number): LateDelayOptimum | null {
+  // non-empty iff k > xK; tested as k·d/x > K·d, the same expression reversalZone uses
+  if (!((k * d) / x > K * d)) return null;
   const xK = x * K;
   const lower = d + (1 - x) / xK;
   const upper = (1 - x + k * d) / xK;
-  if (!(upper > lower)) return null;
   const c = K * d;
   const a = x / (1 + k * d);
   const xc1 = 1 + x * c;
@@ -74,19 +75,29 @@ function hyperbolicOptimum(x: number, d: number, k: number, K: number): LateDela
 function presentBiasOptimum(x: number, d: number, k: number, K: number, beta: number): LateDelayOptimum | null {
   const lnR = -Math.log(x);
   const lnBeta = Math.log(beta);
-  const lower = d + Math.max(0, lnBeta + lnR) / K;
+  const a = Math.max(0, lnBeta + lnR);
+  // zone width is (k·d + ln r − a − K·d)/K; its sign is tested on the rates (as in reversalZone), not on rounded bounds
+  const span = a > 0 ? k * d - lnBeta : k * d + lnR;
+  if (!(span > K * d)) return null;
+  const lower = d + a / K;
   const upper = (k * d + lnR) / K;
-  if (!(upper > lower)) return null;
-  // ln(1 + β·e^z) without overflow, z = (K − k)d
+  // y = ln β + (K − k)d; the vertex is D* = d + [ln 2 + ln β + ln r − ln(1 + e^y)]/K
   const y = lnBeta + (K - k) * d;
-  const log1pBetaEz = y > 0 ? y + Math.log1p(Math.exp(-y)) : Math.log1p(Math.exp(y));
-  let lateDelay = d + (Math.LN2 + lnBeta + lnR - log1pBetaEz) / K;
-  let nearFactor: number; // f_K(D − d) on the right of d
-  if (lateDelay > lower) {
+  let lateDelay: number;
+  let nearFactor: number; // f_K(D − d) just right of d
+  if (a > 0) {
+    // β > x, so non-emptiness forces y < 0; D* − D_lower = −ln(1 + expm1(y)/2)/K has no cancellation
+    lateDelay = lower - Math.log1p(0.5 * Math.expm1(y)) / K;
     nearFactor = beta * Math.exp(-K * (lateDelay - d));
   } else {
-    lateDelay = lower;
-    nearFactor = lower === d ? beta : x;
+    const log1pEy = y > 0 ? y + Math.log1p(Math.exp(-y)) : Math.log1p(Math.exp(y));
+    lateDelay = d + (Math.LN2 + lnBeta + lnR - log1pEy) / K;
+    if (lateDelay > d) {
+      nearFactor = beta * Math.exp(-K * (lateDelay - d));
+    } else {
+      lateDelay = d; // the zone starts at d and C is largest as D → d⁺
+      nearFactor = beta;
+    }
   }
   const far = beta * (Math.exp(-K * lateDelay) - x * Math.exp(-k * d));
   return { lower, upper, lateDelay, gapProduct: far * (x - nearFactor) };
@@ -95,6 +106,7 @@ function presentBiasOptimum(x: number, d: number, k: number, K: number, beta: nu
 function numericalOptimum(id: ModelId, s: number, x: number, d: number, k: number, K: number): LateDelayOptimum | null {
   const cst = zoneConstants(id, x, d, k, s, 1, scratch);
   const p = cst.p;
+  if (p === 1 && !(cst.span > K * d)) return null;
   const tLow = p * Math.log(cst.a / K);
   const lower = d + Math.exp(tLow);
   const upper = p === 1 ? cst.b / K : Math.pow(cst.b / K, p);

@@ -5,7 +5,7 @@ import type { PairInput } from './types';
 /** The open interval of late delays (days) that give the pattern LS. */
 export type ReversalZone = { lower: number; upper: number };
 
-const scratch: ZoneConstants = { a: 0, b: 0, p: 1 };
+const scratch: ZoneConstants = { a: 0, b: 0, p: 1, span: 0 };
 
 /**
  * The reversal zone (D_lower, D_upper): late delays D for which the far view prefers LL
@@ -27,6 +27,7 @@ export function reversalZone(input: PairInput): ReversalZone | null {
   checkPairInput(model, ratio, soonDelay, kSmall, kLarge);
   if (soonDelay === 0) return null;
   const c = zoneConstants(model.id, ratio, soonDelay, kSmall, model.sensitivity ?? 1, model.presentBias ?? 1, scratch);
+  if (c.p === 1 && !(c.span > kLarge * soonDelay)) return null;
   const lower = soonDelay + (c.p === 1 ? c.a / kLarge : Math.pow(c.a / kLarge, c.p));
   const upper = c.p === 1 ? c.b / kLarge : Math.pow(c.b / kLarge, c.p);
   if (!(upper > lower)) return null;

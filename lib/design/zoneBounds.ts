@@ -14,8 +14,10 @@ import type { ModelId } from './types';
  *   exponential-power  a = ln r,                b = k·d^s + ln r,          p = 1/s
  *   quasi-hyperbolic   a = max(0, ln(β/x)),     b = k·d + ln r,            p = 1   (d > 0)
  * The hyperbolic and exponential rows are the forms quoted in DESIGN.md.
+ * `span` is b − a computed without cancellation; for p = 1 the zone is non-empty iff
+ * span > K·d (e.g. k > K for the exponential model, k > xK for the hyperbolic one).
  */
-export type ZoneConstants = { a: number; b: number; p: number };
+export type ZoneConstants = { a: number; b: number; p: number; span: number };
 
 /** Fills `out` with a, b, p for the model (inputs already validated). Returns out. */
 export function zoneConstants(
@@ -33,16 +35,19 @@ export function zoneConstants(
       out.a = lnR;
       out.b = k * d + lnR;
       out.p = 1;
+      out.span = k * d;
       break;
     case 'hyperbolic':
       out.a = (1 - x) / x;
       out.b = (1 - x + k * d) / x;
       out.p = 1;
+      out.span = (k * d) / x;
       break;
     case 'hyperboloid': {
       // expm1 keeps r^(1/s) − 1 accurate when x is close to 1
       out.a = Math.expm1(lnR / s);
-      out.b = out.a + (out.a + 1) * k * d;
+      out.span = (out.a + 1) * k * d;
+      out.b = out.a + out.span;
       out.p = 1;
       break;
     }
@@ -50,16 +55,19 @@ export function zoneConstants(
       out.a = (1 - x) / x;
       out.b = (1 - x + k * Math.pow(d, s)) / x;
       out.p = 1 / s;
+      out.span = out.b - out.a;
       break;
     case 'exponential-power':
       out.a = lnR;
       out.b = k * Math.pow(d, s) + lnR;
       out.p = 1 / s;
+      out.span = out.b - out.a;
       break;
     case 'quasi-hyperbolic':
       out.a = Math.max(0, Math.log(beta) + lnR);
       out.b = k * d + lnR;
       out.p = 1;
+      out.span = out.a > 0 ? k * d - Math.log(beta) : out.b;
       break;
   }
   return out;
