@@ -1,0 +1,126 @@
+// `npm start` (production build) and `npm run dev` (`--dev`, hot reload): one command brings up
+// the private MariaDB, migrates and seeds it, starts local services, builds when sources changed,
+// and runs Next on 127.0.0.1:$PORT (3000). Ctrl-C or the app exiting stops everything again.
+import { existsSync, readdirSync, statSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { readEnvFile, startDatabase, stopDatabase } from '../db/server.mjs';
+import { demoAccounts, demoGroup } from '../db/seeders/demo-accounts.mjs';
+import { spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
+
+const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
+const dev = process.argv.includes('--dev');
+const port = process.env.PORT || '3000';
+const BUILD_MARK = path.join(ROOT, '.next', 'SWITCHBACK_BUILD_FOR');
+const log = (message) => console.log(`[switchback] ${message}`);
+
+let child = null;
+let services = null;
+let shuttingDown = null;
+
+/** Stops the current child, the local services and the database, once; then exits. */
+function shutdown(code) {
+  shuttingDown ??= (async () => {
+    if (child) await stopChild(child);
+    if (services) await services.stop().catch((error) => log(`stopping services failed: ${error.message}`));
+    log('Stopping the database ...');
+    await stopDatabase({ instance: 'app' }).catch((error) => log(`stopping MariaDB failed: ${error.message}`));
+    process.exit(code);
+  })();
+  return shuttingDown;
+}
+
+process.on('SIGINT', () => shutdown(130));
+process.on('SIGTERM', () => shutdown(143));
+process.on('SIGHUP', () => shutdown(129));
+
+/** Runs `npx <args>` to completion; a non-zero exit stops the whole start. */
+async function step(title, args, env) {
+  log(title);
+  child = spawnNpx(args, { env });
+  const code = await waitForExit(child);
+  child = null;
+  if (shuttingDown) await shuttingDown;
+  if (code !== 0) throw new Error(`${title} failed (npx ${args.join(' ')} exited with ${code})`);
+}
+
+function newestSourceTime() {
+  const skip = new Set(['node_modules', '.next', '.data', '.git']);
+  let newest = 0;
+  const visit = (entry) => {
+    if (!existsSync(entry)) return;
+    const stat = statSync(entry);
+    newest = Math.max(newest, stat.mtimeMs);
+    if (!stat.isDirectory()) return;
+    for (const name of readdirSync(entry)) if (!skip.has(name)) visit(path.join(entry, name));
+  };
+  for (const dir of ['app', 'components', 'lib', 'db', 'public', 'fonts', 'types']) visit(path.join(ROOT, dir));
+  const configs = readdirSync(ROOT).filter((name) =>
+    /^(next|postcss|tailwind)\.config\.|^(package\.json|package-lock\.json|tsconfig\.json|middleware\.ts|proxy\.ts)$/.test(name),
+  );
+  for (const name of configs) visit(path.join(ROOT, name));
+  return newest;
+}
+
+// `npm test` builds into the same .next with the test settings, so a build also has to be
+// redone when the last one was made for the tests rather than for `npm start`.
+function needsBuild() {
+  const buildId = path.join(ROOT, '.next', 'BUILD_ID');
+  if (!existsSync(buildId) || !existsSync(BUILD_MARK)) return true;
+  if (readEnvFile(BUILD_MARK).FOR !== 'app') return true;
+  return statSync(buildId).mtimeMs < newestSourceTime();
+}
+
+function banner(url) {
+  const width = Math.max(...demoAccounts.map((a) => a.email.length));
+  const lines = [
+    '',
+    `  Switchback is running at ${url}${dev ? '  (development mode)' : ''}`,
+    '',
+    `  Demo accounts (${demoGroup}, fictional):`,
+    ...demoAccounts.map((a) => `    ${a.role.padEnd(9)} ${a.email.padEnd(width)}  ${a.password}`),
+    '',
+    '  Press Ctrl-C to stop the app and its database.',
+    '',
+  ];
+  console.log(lines.join('\n'));
+}
+
+async function main() {
+  log(dev ? 'Starting in development mode.' : 'Starting.');
+  const dbEnv = await startDatabase({ instance: 'app', log });
+  // Precedence: the running database > the real environment > .env.local.
+  const fileEnv = readEnvFile(path.join(ROOT, '.env.local'));
+  const url = `http://127.0.0.1:${port}`;
+  let env = { ...fileEnv, ...process.env, ...dbEnv, NEXT_TELEMETRY_DISABLED: '1', PORT: port };
+  if (!process.env.NEXTAUTH_URL && (!fileEnv.NEXTAUTH_URL || fileEnv.NEXTAUTH_URL === 'http://127.0.0.1:3000')) {
+    env.NEXTAUTH_URL = url; // follow PORT unless someone chose a different address on purpose
+  }
+
+  await step('Migrating the database ...', ['tsx', 'db/migrate.ts', 'up'], env);
+  await step('Seeding demo data ...', ['tsx', 'db/seed.ts'], env);
+
+  services = await startLocalServices(ROOT, env);
+  env = { ...env, ...services.env };
+
+  if (!dev && needsBuild()) {
+    await step('Building the app (sources changed since the last build) ...', ['next', 'build'], env);
+    writeFileSync(BUILD_MARK, 'FOR=app\n');
+  }
+
+  const args = dev ? ['next', 'dev', '-H', '127.0.0.1', '-p', port] : ['next', 'start', '-H', '127.0.0.1', '-p', port];
+  log(`$ npx ${args.join(' ')}`);
+  child = spawnNpx(args, { env });
+  const exited = waitForExit(child);
+  exited.then((code) => {
+    if (!shuttingDown) log(`The app exited (${code}).`);
+    shutdown(code === 0 ? 0 : 1);
+  });
+  await waitForHttp(`${url}/api/health`, { timeoutMs: 180_000, child });
+  banner(url);
+}
+
+main().catch((error) => {
+  console.error(`[switchback] ${error.message}`);
+  shutdown(1);
+});
