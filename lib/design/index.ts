@@ -11,3 +11,14 @@ export { anchorDelays, type AnchorOptions, type AnchorPair, type Anchors } from 
 export { findRoot, type RootOptions, type RootResult } from './findRoot';
 export { maximiseBrent, type MaximiseOptions, type MaximiseResult } from './maximiseBrent';
 export { createRandom, type SeededRandom } from './random';
+export { erfc, normalCdf } from './normalCdf';
+export { gaussHermite, type QuadratureRule } from './gaussHermite';
+export { priorPoints, checkPrior, type RatePrior, type RatePoints, type PriorPointsOptions } from './ratePrior';
+export { fitPrior } from './fitPrior';
+export { reversibleShare } from './reversibleShare';
+export { choiceProbability, checkChoiceModel, type ChoiceModel } from './choiceProbability';
+export { indifferenceRate, type ChoiceItem } from './indifferenceRate';
+export { calibrationItems, type CalibrationItem, type CalibrationOptions, type Magnitude } from './calibrationItems';
+export { extrapolationWarning, type ExtrapolationWarning } from './extrapolationWarning';
+export { estimateRates, type Choice, type EstimateFlag, type EstimateOptions, type RateEstimate, type RateEstimates } from './estimateRates';
+export * from './power';

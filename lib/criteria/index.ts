@@ -1,0 +1,7 @@
+// Public face of the design criteria and the population design optimiser.
+export { gapProduct } from './gapProduct';
+export { expectedReversalRate } from './expectedReversalRate';
+export { maximinGap } from './maximinGap';
+export { priorScenarios } from './priorScenarios';
+export { optimisePopulationDesign, type PopulationCriterion, type PopulationDesign, type PopulationDesignOptions } from './optimisePopulationDesign';
+export type { PairSetting } from './pairSetting';

@@ -1,0 +1,57 @@
+import { anchorDelays } from '../anchorDelays';
+import { reversalZone } from '../reversalZone';
+import type { BankDesign, DesignPoint, RatePair } from './types';
+
+/** Late delays (days, unrounded) of the probe and anchor pairs for one set of rates. */
+export type PairDelays = {
+  soonDelay: number;
+  zone: { lower: number; upper: number };
+  probes: number[];
+  lateAnchors: number[];
+  soonAnchors: number[];
+  /** anchors the design asked for that did not fit (no room below the zone, or beyond the late-delay limit) */
+  omitted: { lateAnchors: number; soonAnchors: number };
+};
+
+/**
+ * Probe and anchor late delays around the main probe delay for given rates. Rule of ours:
+ * - one probe sits at the point's late delay; n > 1 probes spread evenly in ln(D − d) over the
+ *   central half of the room between the main delay and the nearer zone edge, so each stays
+ *   well inside the zone;
+ * - the first late and soon anchors come from anchorDelays (as clear-cut as the probe); each
+ *   further anchor steps the same distance in ln(D − d) again away from the zone;
+ * - every delay stays at or below the design's late-delay limit (anchors that cannot are omitted).
+ *
+ * @returns null when the rates have no reversal zone at the point's soon delay, or the zone starts beyond the limit
+ */
+export function pairDelays(design: BankDesign, point: DesignPoint, rates: RatePair): PairDelays | null {
+  const { spec } = design;
+  const d = point.soonDelay;
+  const input = { model: spec.model, ratio: spec.ratio, soonDelay: d, kSmall: rates.kSmall, kLarge: rates.kLarge };
+  const zone = reversalZone(input);
+  const limit = spec.lateDelayLimit;
+  if (!zone || zone.lower >= limit) return null;
+  const tMain = Math.log(Math.min(Math.max(point.lateDelay, zone.lower), limit) - d);
+  const tLow = zone.lower > d ? Math.log(zone.lower - d) : tMain - 1;
+  const tUp = Number.isFinite(zone.upper) ? Math.log(Math.min(zone.upper, limit) - d) : tMain + 1;
+  const half = 0.5 * Math.max(0, Math.min(tMain - tLow, tUp - tMain));
+  const n = spec.probePairs;
+  const probes = Array.from({ length: n }, (_, i) => d + Math.exp(n === 1 ? tMain : tMain + half * ((2 * i) / (n - 1) - 1)));
+
+  const anchors = anchorDelays(input);
+  const steps = (first: number | undefined, edge: number, count: number, direction: -1 | 1) => {
+    if (first === undefined || count === 0) return [];
+    const step = Math.abs(Math.log(first - d) - Math.log(edge - d));
+    return Array.from({ length: count }, (_, j) => d + Math.exp(Math.log(first - d) + direction * j * step)).filter((D) => D <= limit);
+  };
+  const lateAnchors = zone.lower > d ? steps(anchors?.late?.lateDelay, zone.lower, spec.lateAnchors, -1) : [];
+  const soonAnchors = Number.isFinite(zone.upper) ? steps(anchors?.soon?.lateDelay, zone.upper, spec.soonAnchors, 1) : [];
+  return {
+    soonDelay: d,
+    zone,
+    probes,
+    lateAnchors,
+    soonAnchors,
+    omitted: { lateAnchors: spec.lateAnchors - lateAnchors.length, soonAnchors: spec.soonAnchors - soonAnchors.length },
+  };
+}

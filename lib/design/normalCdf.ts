@@ -1,0 +1,36 @@
+const INV_SQRT_PI = 0.5641895835477563; // 1/√π
+
+/**
+ * Complementary error function erfc(x) to near double precision, for all real x.
+ * |x| < 2.5: erf from the all-positive series erf x = (2/√π)·e^(−x²)·Σ 2^n x^(2n+1)/(1·3·…·(2n+1))
+ * (Abramowitz & Stegun 1964, Handbook of Mathematical Functions, 7.1.6), so there is no
+ * cancellation; |x| ≥ 2.5: the continued fraction erfc x = (e^(−x²)/√π)·1/(x + (1/2)/(x + 1/(x + (3/2)/(x + …))))
+ * (A&S 7.1.14) evaluated backwards, which keeps relative accuracy far into the tail.
+ */
+export function erfc(x: number): number {
+  if (Number.isNaN(x)) return NaN;
+  const ax = Math.abs(x);
+  let value: number;
+  if (ax < 2.5) {
+    let term = ax;
+    let sum = ax;
+    const x2 = 2 * ax * ax;
+    for (let n = 1; n < 200 && term > 1e-17 * sum; n++) {
+      term *= x2 / (2 * n + 1);
+      sum += term;
+    }
+    value = 1 - 2 * INV_SQRT_PI * Math.exp(-ax * ax) * sum;
+  } else {
+    let t = ax;
+    for (let n = 60; n >= 1; n--) t = ax + n / 2 / t;
+    value = (INV_SQRT_PI * Math.exp(-ax * ax)) / t;
+  }
+  return x >= 0 ? value : 2 - value;
+}
+
+/** Standard normal distribution function Φ(z) = erfc(−z/√2)/2. */
+export function normalCdf(z: number): number {
+  if (z === Infinity) return 1;
+  if (z === -Infinity) return 0;
+  return 0.5 * erfc(-z * Math.SQRT1_2);
+}

@@ -1,0 +1,53 @@
+import { checkChoiceModel } from '../choiceProbability';
+import { DesignInputError } from '../DesignInputError';
+import { checkPrior } from '../ratePrior';
+import { checkInteger, checkModel, checkPositive, checkRatio } from '../validate';
+import type { PowerScenario } from './types';
+
+/** Largest number of simulated participants per study and of replicates (keeps runs finite). */
+export const POWER_LIMITS = { maxSampleSize: 5000, maxReplications: 100000, maxSampleSizes: 40 } as const;
+
+/**
+ * Throws DesignInputError naming the first field of the scenario that is out of range.
+ */
+export function checkScenario(scenario: PowerScenario): void {
+  if (scenario === null || typeof scenario !== 'object') throw new DesignInputError('scenario', 'an object', scenario);
+  const { design, truth, test } = scenario;
+  checkModel(design.model);
+  checkRatio(design.ratio);
+  checkPositive('design.largeAmount', design.largeAmount);
+  checkPositive('design.soonDelay', design.soonDelay);
+  if (!(design.lateDelayLimit > design.soonDelay && design.lateDelayLimit < Infinity)) {
+    throw new DesignInputError('design.lateDelayLimit', `a finite number of days above the soon delay (${design.soonDelay})`, design.lateDelayLimit);
+  }
+  if (design.mode !== 'personalised' && design.mode !== 'population') throw new DesignInputError('design.mode', "'personalised' or 'population'", design.mode);
+  checkInteger('design.probePairs', design.probePairs, 1, 100);
+  checkInteger('design.lateAnchors', design.lateAnchors, 0, 100);
+  checkInteger('design.soonAnchors', design.soonAnchors, 0, 100);
+  checkInteger('design.calibration.itemsPerMagnitude', design.calibration.itemsPerMagnitude, 2, 40);
+  checkPositive('design.calibration.minDelay', design.calibration.minDelay);
+  if (!(design.calibration.maxDelay >= design.calibration.minDelay && design.calibration.maxDelay < Infinity)) {
+    throw new DesignInputError('design.calibration.maxDelay', `a finite number of days, at least the shortest (${design.calibration.minDelay})`, design.calibration.maxDelay);
+  }
+  checkPrior(design.prior, 'design.prior');
+  checkModel(truth.model);
+  checkPrior(truth.prior, 'truth.prior');
+  checkChoiceModel({ sensitivity: truth.gamma, lapse: truth.lapse }, 'truth');
+  if (scenario.calibration !== 'simulated' && scenario.calibration !== 'known') throw new DesignInputError('calibration', "'simulated' or 'known'", scenario.calibration);
+  if (!['mcnemar', 'sign', 'probes-vs-anchors'].includes(test?.kind)) throw new DesignInputError('test.kind', "'mcnemar', 'sign' or 'probes-vs-anchors'", test?.kind);
+  if (!(test.alpha > 0 && test.alpha < 1)) throw new DesignInputError('test.alpha', 'a number strictly between 0 and 1', test.alpha);
+  if (test.alternative !== 'greater' && test.alternative !== 'two-sided') throw new DesignInputError('test.alternative', "'greater' or 'two-sided'", test.alternative);
+  if (test.kind === 'probes-vs-anchors' && design.lateAnchors + design.soonAnchors === 0) {
+    throw new DesignInputError('test.kind', 'a test the design can run: probes-vs-anchors needs anchor pairs', test.kind);
+  }
+  const sizes = scenario.sampleSizes;
+  if (!Array.isArray(sizes) || sizes.length === 0 || sizes.length > POWER_LIMITS.maxSampleSizes) {
+    throw new DesignInputError('sampleSizes', `a list of 1 to ${POWER_LIMITS.maxSampleSizes} sample sizes`, sizes);
+  }
+  sizes.forEach((n, i) => {
+    checkInteger(`sampleSizes[${i}]`, n, 1, POWER_LIMITS.maxSampleSize);
+    if (i > 0 && !(n > sizes[i - 1])) throw new DesignInputError(`sampleSizes[${i}]`, `a size above the one before (${sizes[i - 1]})`, n);
+  });
+  checkInteger('replications', scenario.replications, 1, POWER_LIMITS.maxReplications);
+  if (!Number.isSafeInteger(scenario.seed) || scenario.seed < 0) throw new DesignInputError('seed', 'a whole number, 0 or more', scenario.seed);
+}

@@ -1,0 +1,17 @@
+// Public face of the power simulation (pure: no I/O; randomness from seeded generators).
+export { mcnemarExactTest, signTest, binomialTestHalf, type Alternative } from './binomialTest';
+export { wilsonInterval } from './wilsonInterval';
+export { normalQuantile } from './normalQuantile';
+export { replicateSeed } from './replicateSeed';
+export { sampleSizeFor, type SampleSizeAnswer } from './sampleSizeFor';
+export { createPowerSimulator, type PowerSimulator } from './simulatePower';
+export { checkScenario, POWER_LIMITS } from './checkScenario';
+export { emptyTally, mergeTallies } from './tally';
+export { summarisePower, describeModel, type PowerPoint, type PowerSummary, type PowerWarning, type PatternShares } from './summarisePower';
+export { methodText, type MethodTextContext } from './methodText';
+export { calibrationRateRange } from './calibrationModel';
+export { probeSet, type ProbeSet } from './probeSet';
+export { PAIR_ROLES, type PairRole, type PowerDesign, type PowerScenario, type PowerTally, type PowerTestKind, type PowerTruth } from './types';
+
+/** Version of the simulation engine; runs store it so a changed engine is visible in their method text. */
+export const POWER_ENGINE_VERSION = '1';

@@ -1,0 +1,81 @@
+import { calibrationRateRange } from './calibrationModel';
+import { describeModel, type PowerSummary } from './summarisePower';
+import type { SampleSizeAnswer } from './sampleSizeFor';
+import type { PowerScenario } from './types';
+
+export type MethodTextContext = {
+  /** e.g. "Switchback 0.1.0 (power engine 1)" */
+  software: string;
+  /** e.g. "Savings pilot, frozen version 2" */
+  designLabel: string;
+  /** SHA-256 of the frozen design */
+  designHash: string;
+};
+
+const TESTS = {
+  mcnemar: 'an exact McNemar test on the reversal probes (LS patterns against SL patterns among discordant probe pairs, pooled over participants)',
+  sign: 'an exact sign test at the participant level (participants with more LS than SL probe patterns against those with fewer; ties dropped)',
+  'probes-vs-anchors':
+    'an exact sign test at the participant level on the difference between the LS rate among reversal probes and the LS rate among anchor pairs (ties and participants without anchors dropped)',
+} as const;
+
+function prior(p: PowerScenario['truth']['prior']): string {
+  return (
+    `ln k for the small reward ~ N(ln ${num(p.medianSmall)}, ${num(p.sdLogSmall)}²), ln K for the large reward ~ N(ln ${num(p.medianLarge)}, ${num(p.sdLogLarge)}²), ` +
+    `correlation ${num(p.correlation)}`
+  );
+}
+
+function num(v: number): string {
+  return String(Number(v.toPrecision(4)));
+}
+
+function answer(a: SampleSizeAnswer, label: string): string {
+  if (a.kind === 'interpolated') return `${label} power needs about N = ${a.n} (linear interpolation between the simulated N = ${a.between[0]} and ${a.between[1]})`;
+  if (a.kind === 'at-most') return `${label} power is reached at the smallest simulated N = ${a.n} already`;
+  return `${label} power is not reached up to N = ${a.largest}`;
+}
+
+/**
+ * The method paragraph of a power run, stating every simulation setting, the test, the
+ * results at 80 % and 90 % power and the software version, for a grant or a preregistration.
+ */
+export function methodText(scenario: PowerScenario, summary: PowerSummary, context: MethodTextContext): string {
+  const { design, truth, test } = scenario;
+  const sizes = scenario.sampleSizes;
+  const calibration =
+    design.mode === 'population'
+      ? 'The design is a population design: every participant meets the same pairs, built at the late delay with the largest gap product for the prior median rates; no calibration block is simulated.'
+      : scenario.calibration === 'simulated'
+        ? `Each simulated participant first answers a calibration block of ${design.calibration.itemsPerMagnitude} items per magnitude ` +
+          `(later delays ${design.calibration.minDelay} to ${design.calibration.maxDelay} days, indifference rates ${num(calibrationRateRange(design.prior).min)} to ` +
+          `${num(calibrationRateRange(design.prior).max)} per day); the two rates are re-estimated by maximum likelihood under the design's model, ` +
+          `and the participant's probe block is built from these estimates.`
+        : 'Calibration is not simulated: each participant’s probe block is built from their true rates (the rates are treated as known).'
+  const probeBlock =
+    `The probe block holds ${design.probePairs} reversal probe pair(s) at the late delay that maximises the gap product, ${design.lateAnchors} late anchor pair(s) ` +
+    `and ${design.soonAnchors} soon anchor pair(s) placed as clearly outside the reversal zone as the probes are inside it (late delays limited to ${design.lateDelayLimit} days); ` +
+    'participants with no reversal zone at their estimates receive the pairs built for the prior medians.'
+  const first = summary.points[0];
+  const last = summary.points[summary.points.length - 1];
+  return [
+    `Power was estimated by simulation (${context.software}) for the frozen design "${context.designLabel}" (SHA-256 ${context.designHash}), which assumes the ` +
+      `${describeModel(design.model)} discount function, magnitude ratio ${num(design.ratio)} (larger amount ${num(design.largeAmount)}), soon delay ${num(design.soonDelay)} days ` +
+      `and a ${design.mode} design.`,
+    `Simulated participants discount by the ${describeModel(truth.model)} function with true rates drawn from a bivariate log-normal prior (${prior(truth.prior)}) ` +
+      `and choose by a logistic rule on the value difference with sensitivity γ = ${num(truth.gamma)} per unit of the larger amount and a lapse rate ε = ${num(truth.lapse)}.`,
+    calibration,
+    probeBlock,
+    `Each simulated study was analysed with ${TESTS[test.kind]}, ${test.alternative === 'greater' ? 'one-sided (more reversals than reverse reversals)' : 'two-sided'}, at α = ${num(test.alpha)}.`,
+    `Power is the share of ${scenario.replications} replicates with p < α, reported with Wilson 95 % intervals, for N = ${sizes.join(', ')}; ` +
+      `within each replicate the largest study was simulated once and each smaller N is its first N participants, which is valid because participants are independent ` +
+      `and identically distributed. Replicate r used its own generator seeded from the run seed ${scenario.seed}, so the results do not depend on how replicates were split between threads.`,
+    `Power was ${pct(first.power)} (${pct(first.lower)}–${pct(first.upper)}) at N = ${first.n} and ${pct(last.power)} (${pct(last.lower)}–${pct(last.upper)}) at N = ${last.n}; ` +
+      `${answer(summary.sampleSizeFor80, '80 %')}, and ${answer(summary.sampleSizeFor90, '90 %')}.`,
+    'These are estimates from simulated hypothetical choices under the stated assumptions, not a clinical assessment of any person.',
+  ].join(' ');
+}
+
+function pct(v: number): string {
+  return `${(Math.round(v * 1000) / 10).toFixed(1)} %`;
+}

@@ -1,0 +1,78 @@
+import type { RatePrior } from '../ratePrior';
+import type { ModelSpec } from '../types';
+import type { Alternative } from './binomialTest';
+
+/** The participant-level or pair-level test a replicate runs on its simulated choices. */
+export type PowerTestKind = 'mcnemar' | 'sign' | 'probes-vs-anchors';
+
+/** Pair roles in the probe block. */
+export type PairRole = 'probe' | 'lateAnchor' | 'soonAnchor';
+export const PAIR_ROLES: readonly PairRole[] = ['probe', 'lateAnchor', 'soonAnchor'];
+
+/** The frozen design as the simulation sees it: what the probe block is built from. */
+export type PowerDesign = {
+  /** the model the design assumes (probes and estimation use it) */
+  model: ModelSpec;
+  /** magnitude ratio x = S/L */
+  ratio: number;
+  /** large amount L (currency units); only reported */
+  largeAmount: number;
+  /** soon delay d, days (> 0) */
+  soonDelay: number;
+  /** longest late delay a pair may use, days */
+  lateDelayLimit: number;
+  mode: 'personalised' | 'population';
+  probePairs: number;
+  lateAnchors: number;
+  soonAnchors: number;
+  calibration: { itemsPerMagnitude: number; minDelay: number; maxDelay: number };
+  /** the design's prior over the two rates */
+  prior: RatePrior;
+};
+
+/** The simulated truth: how the simulated participants really choose. */
+export type PowerTruth = {
+  model: ModelSpec;
+  prior: RatePrior;
+  /** logistic choice sensitivity γ per unit of the large amount */
+  gamma: number;
+  /** lapse rate ε */
+  lapse: number;
+};
+
+/** Everything one power simulation needs (pure data; the app stores it with the run). */
+export type PowerScenario = {
+  design: PowerDesign;
+  truth: PowerTruth;
+  /** 'simulated': calibration choices are simulated and rates re-estimated; 'known': probes use the true rates */
+  calibration: 'simulated' | 'known';
+  test: { kind: PowerTestKind; alpha: number; alternative: Extract<Alternative, 'two-sided' | 'greater'> };
+  /** participants per simulated study, ascending, distinct */
+  sampleSizes: number[];
+  replications: number;
+  seed: number;
+};
+
+/**
+ * Integer counts per sample size, summed over replicates. Counts add up exactly, so tallies of
+ * chunks merge to the same totals in any order: the result does not depend on how the
+ * replicates were split between worker threads.
+ */
+export type PowerTally = {
+  sampleSizes: number[];
+  replicates: number;
+  /** per sample size: replicates with p < α */
+  rejections: number[];
+  /** per sample size: LS patterns among probe pairs, summed over participants and replicates */
+  probeReversals: number[];
+  /** per sample size and role: counts of LL, LS, SL, SS (index 0–3) */
+  patterns: Record<PairRole, number[][]>;
+  /** per sample size: participants whose rate estimates carried a flag */
+  flagged: number[];
+  /** per sample size: participants without a reversal zone at their estimates (probes from the prior medians instead) */
+  noZone: number[];
+  /** per sample size: probe pairs whose late delay lies inside the participant's true reversal zone */
+  probesInTrueZone: number[];
+  /** longest probe late delay in any replicate, days */
+  longestProbeDelay: number;
+};
