@@ -10,6 +10,8 @@ export default defineConfig({
   retries: process.env.CI ? 1 : 0,
   forbidOnly: Boolean(process.env.CI),
   reporter: 'list',
+  timeout: 60_000,
+  expect: { timeout: 15_000 },
   use: {
     baseURL: process.env.BASE_URL || 'http://127.0.0.1:3100',
     browserName: 'chromium',

@@ -1,0 +1,30 @@
+import { expect, type Page } from '@playwright/test';
+import { demoAccounts } from '../../db/seeders/demo-accounts.mjs';
+
+export type DemoRole = 'owner' | 'editor' | 'operator' | 'viewer';
+
+export function demoAccount(role: DemoRole) {
+  const account = demoAccounts.find((a) => a.role === role);
+  if (!account) throw new Error(`no demo account for ${role}`);
+  return account;
+}
+
+/** Signs in through the sign-in page as the demo user with `role`, and waits for the study list. */
+export async function signInAs(page: Page, role: DemoRole) {
+  const account = demoAccount(role);
+  await page.goto('/sign-in');
+  await page.getByLabel('E-mail').fill(account.email);
+  await page.getByLabel('Password').fill(account.password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await expect(page.getByRole('heading', { name: 'Your studies' })).toBeVisible();
+  return account;
+}
+
+/** Opens the seeded demo study from the study list. */
+export async function openDemoStudy(page: Page) {
+  await page.goto('/studies');
+  await page.getByRole('link', { name: /Rainy-day savings/ }).click();
+  await expect(page.getByTestId('study-title')).toContainText('Rainy-day savings');
+}
+
+export const shot = (name: string) => ({ path: `tests/artifacts/screens/${name}.png`, fullPage: true });
