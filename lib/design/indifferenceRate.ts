@@ -20,8 +20,9 @@ export type ChoiceItem = {
  *   exponential ln r / D; hyperbolic (r − 1)/D (Kirby, Petry & Bickel 1999, J Exp Psychol Gen
  *   128:78–87: k = (L/S − 1)/D); hyperboloid (r^(1/s) − 1)/D; power-delay (r − 1)/D^s;
  *   exponential-power ln r / D^s; quasi-hyperbolic ln(βr)/D (exists only when S < βL).
- * With d > 0 the rate is the root of L·f(D) − S·f(d) in ln k (Brent–Dekker, bracket
- * ln k ∈ [−40, 20]).
+ * With d > 0: exponential and quasi-hyperbolic ln r/(D − d); exponential-power
+ * ln r/(D^s − d^s); hyperbolic (L − S)/(S·D − L·d); hyperboloid and power-delay: the root of
+ * L·f(D) − S·f(d) in ln k (Brent–Dekker, bracket ln k ∈ [−40, 20]).
  *
  * @throws DesignInputError for non-positive amounts, S ≥ L, negative delays, D ≤ d, or when
  *   no rate makes the two options equal (field 'soonerAmount')
@@ -56,6 +57,20 @@ export function indifferenceRate(model: ModelSpec, item: ChoiceItem): number {
         if (!(Math.log(beta) + lnR > 0)) throw new DesignInputError('soonerAmount', `a number below presentBias × laterAmount (${beta * L}) for a quasi-hyperbolic indifference rate`, S);
         return (Math.log(beta) + lnR) / D;
     }
+  }
+  const lnR = Math.log(L / S);
+  switch (model.id) {
+    case 'exponential':
+    case 'quasi-hyperbolic': // β multiplies both options when d > 0
+      return lnR / (D - d);
+    case 'exponential-power':
+      return lnR / (Math.pow(D, s) - Math.pow(d, s));
+    case 'hyperbolic':
+      // L(1 + kd) = S(1 + kD) gives k = (L − S)/(S·D − L·d), a tie only when S·D > L·d
+      if (!(S * D > L * d)) throw new DesignInputError('soonerAmount', `an amount with soonerAmount × laterDelay above laterAmount × soonerDelay (${L * d})`, S);
+      return (L - S) / (S * D - L * d);
+    default:
+      break;
   }
   const gap = (lnK: number) => {
     const k = Math.exp(lnK);
