@@ -59,6 +59,9 @@ export function optimisePopulationDesign(options: PopulationDesignOptions): Popu
   checkInteger('refinementRounds', rounds, 0, 50);
   const evaluate = criterionFunction(model, ratio, criterion);
   let evaluations = 0;
+  // expm1(log1p(d)) and d + exp(ln(D − d)) can round a hair past a bound: clamp them back
+  const soonAt = (u: number) => Math.min(soon.max, Math.max(soon.min, Math.expm1(u)));
+  const lateAt = (d: number, v: number) => Math.min(lateMax, Math.max(d + minSep, d + Math.exp(v)));
   const value = (d: number, D: number) => {
     evaluations++;
     return evaluate(d, D);
@@ -70,13 +73,13 @@ export function optimisePopulationDesign(options: PopulationDesignOptions): Popu
   let best = { d: soon.min, D: soon.min + minSep, value: -Infinity };
   let dv = 0;
   for (let i = 0; i < grid.soon; i++) {
-    const d = Math.expm1(uLo + i * du);
+    const d = soonAt(uLo + i * du);
     const vLo = Math.log(minSep);
     const vHi = Math.log(lateMax - d);
     const step = (vHi - vLo) / (grid.late - 1);
     dv = Math.max(dv, step);
     for (let j = 0; j < grid.late; j++) {
-      const D = d + Math.exp(vLo + j * step);
+      const D = lateAt(d, vLo + j * step);
       const c = value(d, D);
       if (c > best.value) best = { d, D, value: c };
     }
@@ -90,8 +93,8 @@ export function optimisePopulationDesign(options: PopulationDesignOptions): Popu
     const vLo = Math.max(Math.log(minSep), v0 - wv);
     const vHi = Math.min(Math.log(lateMax - best.d), v0 + wv);
     if (vHi > vLo) {
-      const m = maximiseBrent((v) => value(best.d, best.d + Math.exp(v)), { lower: vLo, upper: vHi, tolerance: 1e-9 });
-      if (m.value > best.value) best = { d: best.d, D: best.d + Math.exp(m.argmax), value: m.value };
+      const m = maximiseBrent((v) => value(best.d, lateAt(best.d, v)), { lower: vLo, upper: vHi, tolerance: 1e-9 });
+      if (m.value > best.value) best = { d: best.d, D: lateAt(best.d, m.argmax), value: m.value };
     }
     // soon delay with the late delay fixed, in u = ln(1 + d)
     const u0 = Math.log1p(best.d);
@@ -99,8 +102,8 @@ export function optimisePopulationDesign(options: PopulationDesignOptions): Popu
     const uH = Math.min(Math.log1p(Math.min(soon.max, best.D - minSep)), u0 + wu);
     if (uH > uL) {
       const D = best.D;
-      const m = maximiseBrent((u) => value(Math.expm1(u), D), { lower: uL, upper: uH, tolerance: 1e-9 });
-      if (m.value > best.value) best = { d: Math.expm1(m.argmax), D, value: m.value };
+      const m = maximiseBrent((u) => value(soonAt(u), D), { lower: uL, upper: uH, tolerance: 1e-9 });
+      if (m.value > best.value) best = { d: soonAt(m.argmax), D, value: m.value };
     }
     wu /= 2;
     wv /= 2;
