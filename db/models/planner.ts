@@ -1,9 +1,11 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 import type { DesignSpec, FrozenDesign, PriorValues } from '@/lib/validations/design';
 
-const ID = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true };
-const FK = { type: DataTypes.INTEGER.UNSIGNED, allowNull: false };
-const OPTIONAL_FK = { type: DataTypes.INTEGER.UNSIGNED, allowNull: true };
+// Sequelize writes the column name (`field`) into each attribute object it is given, so every
+// attribute needs its own object: a shared constant would map designId onto study_id.
+const ID = () => ({ type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true });
+const FK = () => ({ type: DataTypes.INTEGER.UNSIGNED, allowNull: false });
+const OPTIONAL_FK = () => ({ type: DataTypes.INTEGER.UNSIGNED, allowNull: true });
 
 /** A named prior over the two discount rates, per study. */
 export class PriorSet extends Model<InferAttributes<PriorSet>, InferCreationAttributes<PriorSet>> {
@@ -21,14 +23,14 @@ export class PriorSet extends Model<InferAttributes<PriorSet>, InferCreationAttr
   static register(sequelize: Sequelize) {
     PriorSet.init(
       {
-        id: ID,
-        studyId: FK,
+        id: ID(),
+        studyId: FK(),
         name: { type: DataTypes.STRING(120), allowNull: false },
         values: { type: DataTypes.JSON, allowNull: false },
         source: { type: DataTypes.ENUM('manual', 'pilot'), allowNull: false, defaultValue: 'manual' },
         notes: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
         version: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 1 },
-        createdBy: OPTIONAL_FK,
+        createdBy: OPTIONAL_FK(),
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
@@ -51,12 +53,12 @@ export class Design extends Model<InferAttributes<Design>, InferCreationAttribut
   static register(sequelize: Sequelize) {
     Design.init(
       {
-        id: ID,
-        studyId: FK,
+        id: ID(),
+        studyId: FK(),
         name: { type: DataTypes.STRING(120), allowNull: false },
         spec: { type: DataTypes.JSON, allowNull: false },
         version: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 1 },
-        createdBy: OPTIONAL_FK,
+        createdBy: OPTIONAL_FK(),
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
@@ -79,13 +81,13 @@ export class DesignVersion extends Model<InferAttributes<DesignVersion>, InferCr
   static register(sequelize: Sequelize) {
     DesignVersion.init(
       {
-        id: ID,
-        designId: FK,
-        studyId: FK,
+        id: ID(),
+        designId: FK(),
+        studyId: FK(),
         number: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
         hash: { type: DataTypes.CHAR(64), allowNull: false },
         content: { type: DataTypes.JSON, allowNull: false },
-        frozenBy: OPTIONAL_FK,
+        frozenBy: OPTIONAL_FK(),
         createdAt: DataTypes.DATE,
       },
       { sequelize, tableName: 'design_versions', updatedAt: false },
@@ -102,7 +104,7 @@ export class DesignComment extends Model<InferAttributes<DesignComment>, InferCr
 
   static register(sequelize: Sequelize) {
     DesignComment.init(
-      { id: ID, designId: FK, authorId: OPTIONAL_FK, text: { type: DataTypes.TEXT, allowNull: false }, createdAt: DataTypes.DATE },
+      { id: ID(), designId: FK(), authorId: OPTIONAL_FK(), text: { type: DataTypes.TEXT, allowNull: false }, createdAt: DataTypes.DATE },
       { sequelize, tableName: 'design_comments', updatedAt: false },
     );
   }

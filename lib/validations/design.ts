@@ -68,6 +68,8 @@ export const designSpecSchema = z
     soonAnchors: z.number().int().min(0).max(10),
     criterion: z.enum(['gap-product', 'expected-reversal-rate', 'maximin']),
     calibration: calibrationSchema,
+    /** logistic choice sensitivity γ per unit of the large amount, for expected rates; the planner assumes 20 when absent */
+    choiceSensitivity: z.number().positive('Choice sensitivity γ must be above 0.').max(1000, 'Choice sensitivity γ must be at most 1000.').optional(),
   })
   .superRefine((spec, ctx) => {
     if (spec.soonDelay.mode === 'optimised' && spec.soonDelay.min > spec.soonDelay.max)
@@ -95,3 +97,11 @@ export const frozenDesignSchema = z.strictObject({
 export type FrozenDesign = z.infer<typeof frozenDesignSchema>;
 
 export const commentSchema = z.strictObject({ text: z.string().trim().min(1, 'Write something first.').max(4000) });
+
+/** Editing a prior set names the version it was based on (optimistic locking, 409 when stale). */
+export const priorSetUpdateSchema = z.strictObject({ prior: priorSetSchema, version: z.number().int().positive() });
+export type PriorSetUpdate = z.input<typeof priorSetUpdateSchema>;
+
+/** Pilot-data upload limits: bigger files are refused before parsing. */
+export const PILOT_MAX_BYTES = 5 * 1024 * 1024;
+export const PILOT_MAX_ROWS = 100_000;

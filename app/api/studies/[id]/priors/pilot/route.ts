@@ -1,0 +1,18 @@
+import { NextResponse } from 'next/server';
+import { ApiError } from '@/lib/api/errors';
+import { route } from '@/lib/api/handler';
+import { requireRole } from '@/lib/auth/session';
+import { fitPilotCsv } from '@/lib/planner/pilot-csv';
+import { readPilotText } from '@/lib/services/planner-upload';
+
+/**
+ * Fits a prior from a pilot CSV sent as the request body (text/csv, at most 5 MB). Answers the
+ * fitted values for the editor to review and save; a file with problems gets 422 listing each
+ * line and column.
+ */
+export const POST = route<{ id: string }>(async (request, { params }) => {
+  await requireRole(request, (await params).id, 'editor');
+  const fit = fitPilotCsv(await readPilotText(request));
+  if (!fit.ok) throw new ApiError(422, fit.message, fit.issues.map((i) => ({ path: `line ${i.line}: ${i.field}`, message: i.message })));
+  return NextResponse.json(fit);
+});
