@@ -25,9 +25,8 @@ export function findRoot(f: (x: number) => number, options: RootOptions): RootRe
   const { lower, upper } = options;
   const tolerance = options.tolerance ?? 1e-12;
   const maxIterations = options.maxIterations ?? 200;
-  if (!(Number.isFinite(lower) && Number.isFinite(upper) && lower < upper)) {
-    throw new DesignInputError('lower', 'a finite number below a finite upper', lower);
-  }
+  if (!Number.isFinite(lower)) throw new DesignInputError('lower', 'a finite number', lower);
+  if (!(Number.isFinite(upper) && upper > lower)) throw new DesignInputError('upper', `a finite number above lower (${lower})`, upper);
   if (!(tolerance > 0)) throw new DesignInputError('tolerance', 'a number greater than 0', tolerance);
   const fl = f(lower);
   const fu = f(upper);

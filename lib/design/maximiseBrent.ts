@@ -32,9 +32,8 @@ export function maximiseBrent(f: (x: number) => number, options: MaximiseOptions
   const tol = options.tolerance ?? 1e-10;
   const zeps = options.absoluteTolerance ?? 1e-14;
   const maxIterations = options.maxIterations ?? 200;
-  if (!(Number.isFinite(lower) && Number.isFinite(upper) && lower < upper)) {
-    throw new DesignInputError('lower', 'a finite number below a finite upper', lower);
-  }
+  if (!Number.isFinite(lower)) throw new DesignInputError('lower', 'a finite number', lower);
+  if (!(Number.isFinite(upper) && upper > lower)) throw new DesignInputError('upper', `a finite number above lower (${lower})`, upper);
   if (!(tol > 0)) throw new DesignInputError('tolerance', 'a number greater than 0', tol);
   let a = lower;
   let b = upper;

@@ -74,7 +74,9 @@ export function priorPoints(prior: RatePrior, options: PriorPointsOptions): Rate
     return { kSmall, kLarge, weights: null };
   }
   if (options?.method === 'quadrature') {
-    const rule = gaussHermite({ count: options.nodes ?? 24 });
+    const nodes = options.nodes ?? 24;
+    checkInteger('nodes', nodes, 1, 200);
+    const rule = gaussHermite({ count: nodes });
     const n = rule.nodes.length;
     const kSmall = new Float64Array(n * n);
     const kLarge = new Float64Array(n * n);
