@@ -13,21 +13,23 @@ export const POWER_LIMITS = { maxSampleSize: 5000, maxReplications: 100000, maxS
 export function checkScenario(scenario: PowerScenario): void {
   if (scenario === null || typeof scenario !== 'object') throw new DesignInputError('scenario', 'an object', scenario);
   const { design, truth, test } = scenario;
-  checkModel(design.model);
-  checkRatio(design.ratio);
-  checkPositive('design.largeAmount', design.largeAmount);
+  const spec = design?.spec;
+  if (spec === null || typeof spec !== 'object') throw new DesignInputError('design.spec', 'the frozen design spec', spec);
+  checkModel(spec.model);
+  checkRatio(spec.ratio);
+  checkPositive('design.largeAmount', spec.largeAmount);
   checkPositive('design.soonDelay', design.soonDelay);
-  if (!(design.lateDelayLimit > design.soonDelay && design.lateDelayLimit < Infinity)) {
-    throw new DesignInputError('design.lateDelayLimit', `a finite number of days above the soon delay (${design.soonDelay})`, design.lateDelayLimit);
+  if (!(spec.lateDelayLimit > design.soonDelay && spec.lateDelayLimit < Infinity)) {
+    throw new DesignInputError('design.lateDelayLimit', `a finite number of days above the soon delay (${design.soonDelay})`, spec.lateDelayLimit);
   }
-  if (design.mode !== 'personalised' && design.mode !== 'population') throw new DesignInputError('design.mode', "'personalised' or 'population'", design.mode);
-  checkInteger('design.probePairs', design.probePairs, 1, 100);
-  checkInteger('design.lateAnchors', design.lateAnchors, 0, 100);
-  checkInteger('design.soonAnchors', design.soonAnchors, 0, 100);
-  checkInteger('design.calibration.itemsPerMagnitude', design.calibration.itemsPerMagnitude, 2, 40);
-  checkPositive('design.calibration.minDelay', design.calibration.minDelay);
-  if (!(design.calibration.maxDelay >= design.calibration.minDelay && design.calibration.maxDelay < Infinity)) {
-    throw new DesignInputError('design.calibration.maxDelay', `a finite number of days, at least the shortest (${design.calibration.minDelay})`, design.calibration.maxDelay);
+  if (spec.mode !== 'personalised' && spec.mode !== 'population') throw new DesignInputError('design.mode', "'personalised' or 'population'", spec.mode);
+  checkInteger('design.probePairs', spec.probePairs, 1, 100);
+  checkInteger('design.lateAnchors', spec.lateAnchors, 0, 100);
+  checkInteger('design.soonAnchors', spec.soonAnchors, 0, 100);
+  checkInteger('design.calibration.itemsPerMagnitude', spec.calibration.itemsPerMagnitude, 2, 40);
+  checkPositive('design.calibration.minDelay', spec.calibration.minDelay);
+  if (!(spec.calibration.maxDelay >= spec.calibration.minDelay && spec.calibration.maxDelay < Infinity)) {
+    throw new DesignInputError('design.calibration.maxDelay', `a finite number of days, at least the shortest (${spec.calibration.minDelay})`, spec.calibration.maxDelay);
   }
   checkPrior(design.prior, 'design.prior');
   checkModel(truth.model);
@@ -37,7 +39,7 @@ export function checkScenario(scenario: PowerScenario): void {
   if (!['mcnemar', 'sign', 'probes-vs-anchors'].includes(test?.kind)) throw new DesignInputError('test.kind', "'mcnemar', 'sign' or 'probes-vs-anchors'", test?.kind);
   if (!(test.alpha > 0 && test.alpha < 1)) throw new DesignInputError('test.alpha', 'a number strictly between 0 and 1', test.alpha);
   if (test.alternative !== 'greater' && test.alternative !== 'two-sided') throw new DesignInputError('test.alternative', "'greater' or 'two-sided'", test.alternative);
-  if (test.kind === 'probes-vs-anchors' && design.lateAnchors + design.soonAnchors === 0) {
+  if (test.kind === 'probes-vs-anchors' && spec.lateAnchors + spec.soonAnchors === 0) {
     throw new DesignInputError('test.kind', 'a test the design can run: probes-vs-anchors needs anchor pairs', test.kind);
   }
   const sizes = scenario.sampleSizes;

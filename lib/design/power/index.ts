@@ -9,7 +9,6 @@ export { checkScenario, POWER_LIMITS } from './checkScenario';
 export { emptyTally, mergeTallies } from './tally';
 export { summarisePower, describeModel, type PowerPoint, type PowerSummary, type PowerWarning, type PatternShares } from './summarisePower';
 export { methodText, type MethodTextContext } from './methodText';
-export { calibrationRateRange } from './calibrationModel';
 export { probeSet, type ProbeSet } from './probeSet';
 export { PAIR_ROLES, type PairRole, type PowerDesign, type PowerScenario, type PowerTally, type PowerTestKind, type PowerTruth } from './types';
 

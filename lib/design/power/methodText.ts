@@ -1,4 +1,3 @@
-import { calibrationRateRange } from './calibrationModel';
 import { describeModel, type PowerSummary } from './summarisePower';
 import type { SampleSizeAnswer } from './sampleSizeFor';
 import type { PowerScenario } from './types';
@@ -42,26 +41,27 @@ function answer(a: SampleSizeAnswer, label: string): string {
  */
 export function methodText(scenario: PowerScenario, summary: PowerSummary, context: MethodTextContext): string {
   const { design, truth, test } = scenario;
+  const spec = design.spec;
   const sizes = scenario.sampleSizes;
   const calibration =
-    design.mode === 'population'
+    spec.mode === 'population'
       ? 'The design is a population design: every participant meets the same pairs, built at the late delay with the largest gap product for the prior median rates; no calibration block is simulated.'
       : scenario.calibration === 'simulated'
-        ? `Each simulated participant first answers a calibration block of ${design.calibration.itemsPerMagnitude} items per magnitude ` +
-          `(later delays ${design.calibration.minDelay} to ${design.calibration.maxDelay} days, indifference rates ${num(calibrationRateRange(design.prior).min)} to ` +
-          `${num(calibrationRateRange(design.prior).max)} per day); the two rates are re-estimated by maximum likelihood under the design's model, ` +
+        ? `Each simulated participant first answers the design's calibration block (${spec.calibration.itemsPerMagnitude} items per magnitude, ` +
+          `later delays from ${spec.calibration.minDelay} days up to the longest probe delay of the design point, as the item bank exports it); choices follow the truth, ` +
+          `both rates are re-estimated by maximum likelihood under the design's model with the same γ and ε (per unit of each item's later amount), ` +
           `and the participant's probe block is built from these estimates.`
         : 'Calibration is not simulated: each participant’s probe block is built from their true rates (the rates are treated as known).'
   const probeBlock =
-    `The probe block holds ${design.probePairs} reversal probe pair(s) at the late delay that maximises the gap product, ${design.lateAnchors} late anchor pair(s) ` +
-    `and ${design.soonAnchors} soon anchor pair(s) placed as clearly outside the reversal zone as the probes are inside it (late delays limited to ${design.lateDelayLimit} days); ` +
-    'participants with no reversal zone at their estimates receive the pairs built for the prior medians.'
+    `The probe block holds ${spec.probePairs} reversal probe pair(s) around the late delay that maximises the gap product, ${spec.lateAnchors} late anchor pair(s) ` +
+    `and ${spec.soonAnchors} soon anchor pair(s) placed as clearly outside the reversal zone as the probes are inside it (late delays limited to ${spec.lateDelayLimit} days, ` +
+    'unrounded); participants whose estimates are flagged (all choices one way, or inconsistent) or have no reversal zone receive the fallback set built for the prior medians.'
   const first = summary.points[0];
   const last = summary.points[summary.points.length - 1];
   return [
     `Power was estimated by simulation (${context.software}) for the frozen design "${context.designLabel}" (SHA-256 ${context.designHash}), which assumes the ` +
-      `${describeModel(design.model)} discount function, magnitude ratio ${num(design.ratio)} (larger amount ${num(design.largeAmount)}), soon delay ${num(design.soonDelay)} days ` +
-      `and a ${design.mode} design.`,
+      `${describeModel(spec.model)} discount function, magnitude ratio ${num(spec.ratio)} (larger amount ${num(spec.largeAmount)} ${spec.currency}), soon delay ${num(design.soonDelay)} days ` +
+      `and a ${spec.mode} design.`,
     `Simulated participants discount by the ${describeModel(truth.model)} function with true rates drawn from a bivariate log-normal prior (${prior(truth.prior)}) ` +
       `and choose by a logistic rule on the value difference with sensitivity γ = ${num(truth.gamma)} per unit of the larger amount and a lapse rate ε = ${num(truth.lapse)}.`,
     calibration,

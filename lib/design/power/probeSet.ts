@@ -1,25 +1,23 @@
-import { anchorDelays } from '../anchorDelays';
+import { pairDelays } from '../item-bank/pairDelays';
 import { optimiseLateDelay } from '../optimiseLateDelay';
-import type { ModelSpec } from '../types';
+import type { PowerDesign } from './types';
 
-/** Late delays (days) of one participant's probe block; NaN where a role has no pair. */
-export type ProbeSet = { probe: number; lateAnchor: number; soonAnchor: number };
+/** Late delays (days) of one participant's probe block, per pair role. */
+export type ProbeSet = { probe: number[]; lateAnchor: number[]; soonAnchor: number[] };
 
 /**
- * The probe block a participant with rates (kSmall, kLarge) gets under the design's model:
- * reversal probes at the late delay with the largest gap product (optimiseLateDelay), the late
- * and soon anchors on either side of the zone (anchorDelays). Delays beyond the design's
- * late-delay limit are held at the limit. Returns null when the rates give no reversal zone.
+ * The probe block a participant with rates (kSmall, kLarge) is served under the design's
+ * model, as the item bank builds it: the main probe at the late delay with the largest gap
+ * product at these rates (optimiseLateDelay), further probes and the anchors placed around it
+ * by pairDelays. Null when the rates give no reversal zone within the design's limits.
  */
-export function probeSet(model: ModelSpec, ratio: number, soonDelay: number, lateDelayLimit: number, kSmall: number, kLarge: number): ProbeSet | null {
-  const input = { model, ratio, soonDelay, kSmall, kLarge };
-  const optimum = optimiseLateDelay(input);
+export function probeSet(design: PowerDesign, kSmall: number, kLarge: number): ProbeSet | null {
+  const { spec } = design;
+  const d = design.soonDelay;
+  const rates = { kSmall, kLarge };
+  const optimum = optimiseLateDelay({ model: spec.model, ratio: spec.ratio, soonDelay: d, ...rates });
   if (optimum === null) return null;
-  const anchors = anchorDelays(input);
-  const clamp = (D: number) => Math.min(D, lateDelayLimit);
-  return {
-    probe: clamp(optimum.lateDelay),
-    lateAnchor: anchors?.late ? clamp(anchors.late.lateDelay) : NaN,
-    soonAnchor: anchors?.soon ? clamp(anchors.soon.lateDelay) : NaN,
-  };
+  const delays = pairDelays(design, { soonDelay: d, lateDelay: optimum.lateDelay }, rates);
+  if (delays === null) return null;
+  return { probe: delays.probes, lateAnchor: delays.lateAnchors, soonAnchor: delays.soonAnchors };
 }

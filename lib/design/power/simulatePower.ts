@@ -9,9 +9,9 @@ import { checkScenario } from './checkScenario';
 import { probeSet, type ProbeSet } from './probeSet';
 import { replicateSeed } from './replicateSeed';
 import { emptyTally } from './tally';
-import type { PairRole, PowerScenario, PowerTally } from './types';
+import type { PowerScenario, PowerTally } from './types';
 
-/** A prepared simulation: calibration block, fallback probes and caches built once, then replicates run in ranges. */
+/** A prepared simulation: calibration block, fallback set and caches built once, then replicates run in ranges. */
 export type PowerSimulator = {
   /** Simulates replicates from (inclusive) to to (exclusive) and returns their tally. */
   run(from: number, to: number): PowerTally;
@@ -27,24 +27,27 @@ export type PowerSimulator = {
  * independent and identically distributed, so a prefix is a valid sample of size n (the
  * sample sizes of one replicate are correlated, which leaves each size's power unbiased).
  *
- * Per participant: true rates from the truth's prior; in a personalised design with a
- * simulated calibration block, calibration choices from the truth and rates re-estimated under
- * the design's model (with 'known' rates the true rates stand in for the estimates); the probe
- * block built from those rates (probeSet); a population design, or a participant with no zone
- * at the estimates, gets the probe block of the design prior's medians. Every pair's two
- * choices come from the truth: P(LL far) = choice(γ, ε, A), P(SS near) = choice(γ, ε, B).
+ * Per participant: true rates from the truth's prior (priorPoints); in a personalised design
+ * with a simulated calibration block, calibration choices from the truth and rates
+ * re-estimated under the design's model (with 'known' rates the true rates stand in for the
+ * estimates); the probe block built from those rates (probeSet). As the item bank serves
+ * them, a population design, a participant flagged all-sooner, all-later or non-monotone, or
+ * one with no zone at the estimates gets the fallback set built at the design prior's
+ * medians. Every pair's two choices come from the truth: P(LL far) = choice(γ, ε, A) and
+ * P(SS near) = choice(γ, ε, B).
  *
  * @throws DesignInputError for a scenario out of range, or a design whose prior medians have no reversal zone
  */
 export function createPowerSimulator(scenario: PowerScenario): PowerSimulator {
   checkScenario(scenario);
   const { design } = scenario;
-  const fallback = probeSet(design.model, design.ratio, design.soonDelay, design.lateDelayLimit, design.prior.medianSmall, design.prior.medianLarge);
+  const fallback = probeSet(design, design.prior.medianSmall, design.prior.medianLarge);
   if (fallback === null) {
-    throw new DesignInputError('design.prior', 'a prior whose median rates have a reversal zone under the design model', design.prior);
+    throw new DesignInputError('design.prior', 'a prior whose median rates have a reversal zone within the late-delay limit under the design model', design.prior);
   }
-  const personal = design.mode === 'personalised';
-  const calibration = personal && scenario.calibration === 'simulated' ? new CalibrationModel(scenario) : null;
+  const personal = design.spec.mode === 'personalised';
+  const cover = Math.max(...fallback.probe, ...fallback.lateAnchor, ...fallback.soonAnchor);
+  const calibration = personal && scenario.calibration === 'simulated' ? new CalibrationModel(scenario, cover) : null;
   const pValues = new Map<number, number>();
   return {
     longestCalibrationDelay: calibration ? calibration.longestDelay : null,
@@ -62,7 +65,7 @@ export function createPowerSimulator(scenario: PowerScenario): PowerSimulator {
   };
 }
 
-const ROLE_INDEX: Record<PairRole, number> = { probe: 0, lateAnchor: 1, soonAnchor: 2 };
+const ROLES = ['probe', 'lateAnchor', 'soonAnchor'] as const;
 
 function simulateReplicate(
   scenario: PowerScenario,
@@ -79,13 +82,13 @@ function simulateReplicate(
   const id = truth.model.id;
   const s = truth.model.sensitivity ?? 1;
   const beta = truth.model.presentBias ?? 1;
-  const x = design.ratio;
+  const x = design.spec.ratio;
   const d = design.soonDelay;
-  const counts = [design.probePairs, design.lateAnchors, design.soonAnchors];
+  const personal = design.spec.mode === 'personalised';
   // running totals over the participants so far: patterns [role*4 + pattern], then counters
   const patterns = new Float64Array(12);
   let flagged = 0;
-  let noZone = 0;
+  let fallbacks = 0;
   let inZone = 0;
   let positive = 0;
   let negative = 0;
@@ -94,40 +97,40 @@ function simulateReplicate(
     const kTrue = rates.kSmall[i];
     const KTrue = rates.kLarge[i];
     let probes = fallback;
-    if (design.mode === 'personalised') {
+    if (personal) {
       let kHat = kTrue;
       let KHat = KTrue;
+      let useFallback = false;
       if (calibration) {
         const small = calibration.answer(0, kTrue, random);
         const large = calibration.answer(1, KTrue, random);
         kHat = small.rate;
         KHat = large.rate;
         if (small.flagged || large.flagged) flagged++;
+        useFallback = small.fallback || large.fallback;
       }
-      const own = probeSet(design.model, x, d, design.lateDelayLimit, kHat, KHat);
+      const own = useFallback ? null : probeSet(design, kHat, KHat);
       if (own) probes = own;
-      else noZone++;
+      else fallbacks++;
     }
-    if (probes.probe > tally.longestProbeDelay) tally.longestProbeDelay = probes.probe;
     const farSoon = x * discountAt(id, kTrue, s, beta, d);
     let probeLS = 0;
     let probeSL = 0;
     let anchorLS = 0;
     let anchorPairs = 0;
     for (let role = 0; role < 3; role++) {
-      const D = role === 0 ? probes.probe : role === 1 ? probes.lateAnchor : probes.soonAnchor;
-      if (Number.isNaN(D)) continue;
-      const far = discountAt(id, KTrue, s, beta, D) - farSoon;
-      const near = x - discountAt(id, KTrue, s, beta, D - d);
-      const pFarLater = probabilityLarger(truth.gamma, truth.lapse, far);
-      const pNearSooner = probabilityLarger(truth.gamma, truth.lapse, near);
-      if (role === 0 && far > 0 && near > 0) inZone += counts[0];
-      for (let j = 0; j < counts[role]; j++) {
-        const farSooner = random.uniform() >= pFarLater;
-        const nearSooner = random.uniform() < pNearSooner;
+      const delays = probes[ROLES[role]];
+      for (let j = 0; j < delays.length; j++) {
+        const D = delays[j];
+        const far = discountAt(id, KTrue, s, beta, D) - farSoon;
+        const near = x - discountAt(id, KTrue, s, beta, D - d);
+        const farSooner = random.uniform() >= probabilityLarger(truth.gamma, truth.lapse, far);
+        const nearSooner = random.uniform() < probabilityLarger(truth.gamma, truth.lapse, near);
         const pattern = (farSooner ? 2 : 0) + (nearSooner ? 1 : 0); // LL, LS, SL, SS
         patterns[role * 4 + pattern]++;
         if (role === 0) {
+          if (D > tally.longestProbeDelay) tally.longestProbeDelay = D;
+          if (far > 0 && near > 0) inZone++;
           if (pattern === 1) probeLS++;
           else if (pattern === 2) probeSL++;
         } else {
@@ -140,7 +143,7 @@ function simulateReplicate(
       if (probeLS > probeSL) positive++;
       else if (probeLS < probeSL) negative++;
     } else if (test.kind === 'probes-vs-anchors' && anchorPairs > 0) {
-      const difference = probeLS / counts[0] - anchorLS / anchorPairs;
+      const difference = probeLS / probes.probe.length - anchorLS / anchorPairs;
       if (difference > 0) positive++;
       else if (difference < 0) negative++;
     }
@@ -150,12 +153,11 @@ function simulateReplicate(
       if (pValue(b, c, test.kind, test.alternative, pValues) < test.alpha) tally.rejections[checkpoint]++;
       tally.probeReversals[checkpoint] += patterns[1];
       tally.flagged[checkpoint] += flagged;
-      tally.noZone[checkpoint] += noZone;
+      tally.fallback[checkpoint] += fallbacks;
       tally.probesInTrueZone[checkpoint] += inZone;
-      for (const role of ['probe', 'lateAnchor', 'soonAnchor'] as const) {
-        const row = tally.patterns[role][checkpoint];
-        const at = ROLE_INDEX[role] * 4;
-        for (let p = 0; p < 4; p++) row[p] += patterns[at + p];
+      for (let role = 0; role < 3; role++) {
+        const row = tally.patterns[ROLES[role]][checkpoint];
+        for (let p = 0; p < 4; p++) row[p] += patterns[role * 4 + p];
       }
       checkpoint++;
     }

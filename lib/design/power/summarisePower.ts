@@ -17,7 +17,8 @@ export type PowerPoint = {
   meanReversals: number;
   patterns: Record<PairRole, PatternShares>;
   flaggedShare: number;
-  noZoneShare: number;
+  /** share of participants served the fallback set (flagged estimates, or no zone at them) */
+  fallbackShare: number;
   /** share of probe pairs whose late delay is inside the participant's true reversal zone */
   probesInTrueZone: number;
 };
@@ -47,7 +48,7 @@ export function summarisePower(scenario: PowerScenario, tally: PowerTally, longe
       patterns[role] = { LL: share(row[0]), LS: share(row[1]), SL: share(row[2]), SS: share(row[3]), pairs };
     }
     const people = n * R;
-    const probes = people * scenario.design.probePairs;
+    const probes = patterns.probe.pairs;
     return {
       n,
       power: R > 0 ? tally.rejections[j] / R : 0,
@@ -57,7 +58,7 @@ export function summarisePower(scenario: PowerScenario, tally: PowerTally, longe
       meanReversals: people > 0 ? tally.probeReversals[j] / people : 0,
       patterns,
       flaggedShare: people > 0 ? tally.flagged[j] / people : 0,
-      noZoneShare: people > 0 ? tally.noZone[j] / people : 0,
+      fallbackShare: people > 0 ? tally.fallback[j] / people : 0,
       probesInTrueZone: probes > 0 ? tally.probesInTrueZone[j] / probes : 0,
     };
   });
@@ -70,7 +71,7 @@ export function summarisePower(scenario: PowerScenario, tally: PowerTally, longe
   };
 }
 
-function sameModel(a: PowerScenario['design']['model'], b: PowerScenario['truth']['model']): boolean {
+function sameModel(a: PowerScenario['truth']['model'], b: PowerScenario['truth']['model']): boolean {
   return a.id === b.id && (a.sensitivity ?? 1) === (b.sensitivity ?? 1) && (a.presentBias ?? 1) === (b.presentBias ?? 1);
 }
 
@@ -82,10 +83,10 @@ function powerWarnings(scenario: PowerScenario, points: PowerPoint[], tally: Pow
   const warnings: PowerWarning[] = [];
   const last = points[points.length - 1];
   const { design, truth } = scenario;
-  if (!sameModel(design.model, truth.model)) {
+  if (!sameModel(design.spec.model, truth.model)) {
     warnings.push({
       kind: 'model-mismatch',
-      message: `The simulated truth (${describeModel(truth.model)}) differs from the model the probes are built for (${describeModel(design.model)}).`,
+      message: `The simulated truth (${describeModel(truth.model)}) differs from the model the probes are built for (${describeModel(design.spec.model)}).`,
     });
   }
   if (last.probesInTrueZone < 0.5) {
@@ -113,7 +114,7 @@ function powerWarnings(scenario: PowerScenario, points: PowerPoint[], tally: Pow
 }
 
 /** A model's published name with its shape parameters, e.g. "hyperboloid (Myerson & Green), s = 0.6". */
-export function describeModel(model: PowerScenario['design']['model']): string {
+export function describeModel(model: PowerScenario['truth']['model']): string {
   const names: Record<string, string> = {
     exponential: 'exponential (Samuelson)',
     hyperbolic: 'hyperbolic (Mazur)',

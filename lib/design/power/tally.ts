@@ -13,7 +13,7 @@ export function emptyTally(sampleSizes: readonly number[]): PowerTally {
     probeReversals: zeros(),
     patterns,
     flagged: zeros(),
-    noZone: zeros(),
+    fallback: zeros(),
     probesInTrueZone: zeros(),
     longestProbeDelay: 0,
   };
@@ -35,7 +35,7 @@ export function mergeTallies(parts: readonly PowerTally[]): PowerTally {
       total.rejections[j] += part.rejections[j];
       total.probeReversals[j] += part.probeReversals[j];
       total.flagged[j] += part.flagged[j];
-      total.noZone[j] += part.noZone[j];
+      total.fallback[j] += part.fallback[j];
       total.probesInTrueZone[j] += part.probesInTrueZone[j];
       for (const role of PAIR_ROLES) for (let p = 0; p < 4; p++) total.patterns[role][j][p] += part.patterns[role][j][p];
     }

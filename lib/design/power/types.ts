@@ -1,3 +1,4 @@
+import type { BankDesign } from '../item-bank/types';
 import type { RatePrior } from '../ratePrior';
 import type { ModelSpec } from '../types';
 import type { Alternative } from './binomialTest';
@@ -9,25 +10,13 @@ export type PowerTestKind = 'mcnemar' | 'sign' | 'probes-vs-anchors';
 export type PairRole = 'probe' | 'lateAnchor' | 'soonAnchor';
 export const PAIR_ROLES: readonly PairRole[] = ['probe', 'lateAnchor', 'soonAnchor'];
 
-/** The frozen design as the simulation sees it: what the probe block is built from. */
-export type PowerDesign = {
-  /** the model the design assumes (probes and estimation use it) */
-  model: ModelSpec;
-  /** magnitude ratio x = S/L */
-  ratio: number;
-  /** large amount L (currency units); only reported */
-  largeAmount: number;
-  /** soon delay d, days (> 0) */
+/**
+ * The frozen design as the simulation sees it: the item bank's view of a frozen design (spec
+ * and prior, structurally a FrozenDesign) and the soon delay the probe pairs use.
+ */
+export type PowerDesign = BankDesign & {
+  /** soon delay d of the probe pairs, days (> 0): the fixed one, or the one chosen for the prior medians */
   soonDelay: number;
-  /** longest late delay a pair may use, days */
-  lateDelayLimit: number;
-  mode: 'personalised' | 'population';
-  probePairs: number;
-  lateAnchors: number;
-  soonAnchors: number;
-  calibration: { itemsPerMagnitude: number; minDelay: number; maxDelay: number };
-  /** the design's prior over the two rates */
-  prior: RatePrior;
 };
 
 /** The simulated truth: how the simulated participants really choose. */
@@ -69,8 +58,8 @@ export type PowerTally = {
   patterns: Record<PairRole, number[][]>;
   /** per sample size: participants whose rate estimates carried a flag */
   flagged: number[];
-  /** per sample size: participants without a reversal zone at their estimates (probes from the prior medians instead) */
-  noZone: number[];
+  /** per sample size: participants served the fallback set (flagged estimates or no zone at them) */
+  fallback: number[];
   /** per sample size: probe pairs whose late delay lies inside the participant's true reversal zone */
   probesInTrueZone: number[];
   /** longest probe late delay in any replicate, days */
