@@ -11,7 +11,9 @@ import { spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } fro
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const dev = process.argv.includes('--dev');
 const port = process.env.PORT || '3000';
-const BUILD_MARK = path.join(ROOT, '.next', 'SWITCHBACK_BUILD_FOR');
+// next.config.mjs honours NEXT_DIST_DIR so several servers of one checkout can run side by side.
+const DIST_DIR = path.join(ROOT, process.env.NEXT_DIST_DIR || '.next');
+const BUILD_MARK = path.join(DIST_DIR, 'SWITCHBACK_BUILD_FOR');
 const log = (message) => console.log(`[switchback] ${message}`);
 
 let child = null;
@@ -45,7 +47,7 @@ async function step(title, args, env) {
 }
 
 function newestSourceTime() {
-  const skip = new Set(['node_modules', '.next', '.data', '.git']);
+  const skip = new Set(['node_modules', '.data', '.git']);
   let newest = 0;
   const visit = (entry) => {
     if (!existsSync(entry)) return;
@@ -62,10 +64,10 @@ function newestSourceTime() {
   return newest;
 }
 
-// `npm test` builds into the same .next with the test settings, so a build also has to be
+// `npm test` builds into the same folder with the test settings, so a build also has to be
 // redone when the last one was made for the tests rather than for `npm start`.
 function needsBuild() {
-  const buildId = path.join(ROOT, '.next', 'BUILD_ID');
+  const buildId = path.join(DIST_DIR, 'BUILD_ID');
   if (!existsSync(buildId) || !existsSync(BUILD_MARK)) return true;
   if (readEnvFile(BUILD_MARK).FOR !== 'app') return true;
   return statSync(buildId).mtimeMs < newestSourceTime();

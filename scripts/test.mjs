@@ -129,8 +129,8 @@ async function main({ mode, extra }) {
       await step('chromium', () => ensureChromium({ log: say }));
       await step('build', async () => {
         await npx(['next', 'build'], env);
-        // Tells scripts/start.mjs that .next holds a test build, which it must not serve.
-        writeFileSync(path.join(ROOT, '.next', 'SWITCHBACK_BUILD_FOR'), 'FOR=test\n');
+        // Tells scripts/start.mjs that the build folder holds a test build, which it must not serve.
+        writeFileSync(path.join(ROOT, process.env.NEXT_DIST_DIR || '.next', 'SWITCHBACK_BUILD_FOR'), 'FOR=test\n');
       });
       await step('seed', () => npx(['tsx', 'db/seed.ts'], env));
       await step(`server on ${baseUrl}`, async () => {
