@@ -5,7 +5,7 @@ const config = [
   ...next,
   ...nextTypescript,
   {
-    ignores: ['node_modules/**', '.next/**', '.data/**', 'tests/artifacts/**', 'next-env.d.ts', 'coverage/**'],
+    ignores: ['node_modules/**', '.next/**', '.next-*/**', '.data/**', 'tests/artifacts/**', 'next-env.d.ts', 'coverage/**'],
   },
   {
     rules: {
