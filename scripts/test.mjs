@@ -9,7 +9,7 @@
 //
 // Whatever happens, the server, the local services and the test database are stopped at the end.
 import { randomBytes } from 'node:crypto';
-import { closeSync, existsSync, mkdirSync, openSync, readFileSync, writeFileSync } from 'node:fs';
+import { closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { startDatabase, stopDatabase } from '../db/server.mjs';
@@ -19,6 +19,33 @@ const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const ARTIFACTS = path.join(ROOT, 'tests', 'artifacts');
 const SERVER_LOG = path.join(ARTIFACTS, 'next-server.log');
 const MODES = ['all', 'unit', 'integration', 'browser'];
+const VITEST_JSON = path.join(ARTIFACTS, 'vitest-report.json');
+const PLAYWRIGHT_JSON = path.join(ARTIFACTS, 'playwright-report.json');
+const VITEST_REPORT = ['--reporter=default', '--reporter=json', `--outputFile.json=${VITEST_JSON}`];
+
+/** Adds up the machine-readable reports of this run into one closing count. */
+function countTests() {
+  let passedCount = 0;
+  let failedCount = 0;
+  let skipped = 0;
+  try {
+    const v = JSON.parse(readFileSync(VITEST_JSON, 'utf8'));
+    passedCount += v.numPassedTests ?? 0;
+    failedCount += v.numFailedTests ?? 0;
+    skipped += (v.numPendingTests ?? 0) + (v.numTodoTests ?? 0);
+  } catch {
+    /* vitest did not run */
+  }
+  try {
+    const p = JSON.parse(readFileSync(PLAYWRIGHT_JSON, 'utf8'));
+    passedCount += (p.stats?.expected ?? 0) + (p.stats?.flaky ?? 0);
+    failedCount += p.stats?.unexpected ?? 0;
+    skipped += p.stats?.skipped ?? 0;
+  } catch {
+    /* playwright did not run */
+  }
+  return { passedCount, failedCount, skipped };
+}
 
 function parseArgs(argv) {
   const dashDash = argv.indexOf('--');
@@ -114,7 +141,7 @@ async function main({ mode, extra }) {
       });
       await step('migrations', () => npx(['tsx', 'db/migrate.ts', 'up'], env));
     }
-    if (mode === 'all') await step('vitest (unit + integration)', () => npx(['vitest', 'run'], env));
+    if (mode === 'all') await step('vitest (unit + integration)', () => npx(['vitest', 'run', ...VITEST_REPORT], env));
     if (mode === 'integration') {
       await step('integration tests', () => npx(['vitest', 'run', '--project', 'integration', ...extra], env));
     }
@@ -148,7 +175,7 @@ async function main({ mode, extra }) {
       });
       await step('browser tests', async () => {
         try {
-          await npx(['playwright', 'test', ...extra], env);
+          await npx(['playwright', 'test', '--reporter=list,json', ...extra], { ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: PLAYWRIGHT_JSON });
         } catch (error) {
           say(`last lines of ${path.relative(ROOT, SERVER_LOG)}:`);
           console.log(tail(SERVER_LOG, 40));
@@ -186,6 +213,7 @@ if (!existsSync(path.join(ROOT, 'node_modules'))) {
   console.error('node_modules is missing: run `npm ci` first.');
   process.exit(2);
 }
+for (const report of [VITEST_JSON, PLAYWRIGHT_JSON]) rmSync(report, { force: true });
 try {
   await main(options);
   say(`SUMMARY: PASSED ${options.mode} in ${seconds(Date.now() - started)} (${passed.join(', ')})`);
@@ -194,4 +222,9 @@ try {
   say(`SUMMARY: FAILED${where} after ${seconds(Date.now() - started)}: ${error.message}`);
   say(`passed before that: ${passed.join(', ') || 'nothing'}`);
   process.exitCode = interruptCode || 1;
+}
+if (options.mode === 'all') {
+  const { passedCount, failedCount, skipped } = countTests();
+  // The plain closing line CI reads: every vitest and Playwright test of this run.
+  console.log(`Tests: ${passedCount} passed, ${failedCount} failed${skipped ? `, ${skipped} skipped` : ''}`);
 }
