@@ -4,8 +4,10 @@ import { Study } from './study';
 import { Membership } from './membership';
 import { AuditEvent } from './audit-event';
 import { Design, DesignComment, DesignVersion, PriorSet } from './planner';
+import { Invitation, NoticeSetting, PasswordResetToken } from './team';
 
 export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
+export { Invitation, PasswordResetToken, NoticeSetting };
 
 /**
  * Registers every model and association on one Sequelize instance. A new model is added here
@@ -20,6 +22,9 @@ export function registerModels(sequelize: Sequelize): void {
   Design.register(sequelize);
   DesignVersion.register(sequelize);
   DesignComment.register(sequelize);
+  Invitation.register(sequelize);
+  PasswordResetToken.register(sequelize);
+  NoticeSetting.register(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });
@@ -30,4 +35,6 @@ export function registerModels(sequelize: Sequelize): void {
   DesignVersion.belongsTo(Design, { foreignKey: 'designId', as: 'design' });
   Design.hasMany(DesignComment, { foreignKey: 'designId', as: 'comments' });
   DesignComment.belongsTo(User, { foreignKey: 'authorId', as: 'author' });
+  Invitation.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });
+  Invitation.belongsTo(User, { foreignKey: 'invitedBy', as: 'inviter' });
 }

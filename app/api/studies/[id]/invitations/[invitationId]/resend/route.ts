@@ -1,0 +1,15 @@
+import { NextResponse } from 'next/server';
+import { route } from '@/lib/api/handler';
+import { NotFoundError } from '@/lib/api/errors';
+import { requireRole } from '@/lib/auth/session';
+import { resendInvitation } from '@/lib/services/invitations';
+import { parseId } from '@/lib/services/tokens';
+
+/** Sends an open invitation again with a new link and a new 7-day expiry. */
+export const POST = route<{ id: string; invitationId: string }>(async (request, { params }) => {
+  const { id, invitationId } = await params;
+  const { user, study } = await requireRole(request, id, 'owner');
+  const invitation = parseId(invitationId);
+  if (!invitation) throw new NotFoundError('No open invitation with this id in this study.');
+  return NextResponse.json(await resendInvitation(user, study, invitation));
+});

@@ -1,0 +1,16 @@
+import { NextResponse } from 'next/server';
+import { route } from '@/lib/api/handler';
+import { NotFoundError } from '@/lib/api/errors';
+import { requireRole } from '@/lib/auth/session';
+import { revokeInvitation } from '@/lib/services/invitations';
+import { parseId } from '@/lib/services/tokens';
+
+/** Withdraws an open invitation (its link then says so). */
+export const DELETE = route<{ id: string; invitationId: string }>(async (request, { params }) => {
+  const { id, invitationId } = await params;
+  const { user, study } = await requireRole(request, id, 'owner');
+  const invitation = parseId(invitationId);
+  if (!invitation) throw new NotFoundError('No open invitation with this id in this study.');
+  await revokeInvitation(user.id, study.id, invitation);
+  return new NextResponse(null, { status: 204 });
+});

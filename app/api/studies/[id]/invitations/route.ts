@@ -1,0 +1,19 @@
+import { NextResponse } from 'next/server';
+import { route } from '@/lib/api/handler';
+import { readJson } from '@/lib/api/read-json';
+import { requireRole } from '@/lib/auth/session';
+import { createInvitation, listInvitations } from '@/lib/services/invitations';
+import { invitationSchema } from '@/lib/validations/team';
+
+type Params = { id: string };
+
+export const GET = route<Params>(async (request, { params }) => {
+  const { study } = await requireRole(request, (await params).id, 'owner');
+  return NextResponse.json({ invitations: await listInvitations(study.id) });
+});
+
+export const POST = route<Params>(async (request, { params }) => {
+  const { user, study } = await requireRole(request, (await params).id, 'owner');
+  const input = await readJson(request, invitationSchema);
+  return NextResponse.json(await createInvitation(user, study, input), { status: 201 });
+});

@@ -1,0 +1,53 @@
+import { readdir, readFile } from 'node:fs/promises';
+import path from 'node:path';
+import { simpleParser, type AddressObject } from 'mailparser';
+
+/** One message kept by the local test mail server, as the mailbox page shows it. */
+export type MailboxMessage = { id: string; receivedAt: string; from: string; to: string; subject: string; text: string };
+
+const MESSAGE_FILE = /^\d{8}T\d{9}Z-[0-9a-f]{8}\.eml$/;
+
+/**
+ * The folder the local test mail server writes to, or null when mail goes to a real server (then the
+ * mailbox page and its link are hidden). Set by scripts/services.mjs as MAILBOX_DIR.
+ */
+export function mailboxDir(): string | null {
+  if (!process.env.SMTP_URL) return null;
+  return process.env.MAILBOX_DIR?.trim() || null;
+}
+
+function addresses(value: AddressObject | AddressObject[] | undefined): string {
+  if (!value) return '';
+  return (Array.isArray(value) ? value : [value]).map((a) => a.text).join(', ');
+}
+
+/** Parses one kept message; `id` is its file name. */
+export async function readMessage(dir: string, id: string): Promise<MailboxMessage> {
+  const parsed = await simpleParser(await readFile(path.join(dir, id)));
+  const stamp = id.slice(0, 18);
+  const received = `${stamp.slice(0, 4)}-${stamp.slice(4, 6)}-${stamp.slice(6, 8)}T${stamp.slice(9, 11)}:${stamp.slice(11, 13)}:${stamp.slice(13, 15)}.${stamp.slice(15, 18)}Z`;
+  return {
+    id,
+    receivedAt: new Date(received).toISOString(),
+    from: addresses(parsed.from),
+    to: addresses(parsed.to),
+    subject: parsed.subject ?? '(no subject)',
+    text: (parsed.text ?? '').trim(),
+  };
+}
+
+/**
+ * The newest kept messages first (at most `limit`). Only complete files count: the server writes
+ * under a temporary name and renames, so a message never appears half-written.
+ */
+export async function listMailbox(dir: string, limit = 100): Promise<MailboxMessage[]> {
+  let names: string[];
+  try {
+    names = await readdir(dir);
+  } catch (error) {
+    if ((error as NodeJS.ErrnoException).code === 'ENOENT') return [];
+    throw error;
+  }
+  const newest = names.filter((n) => MESSAGE_FILE.test(n)).sort().reverse().slice(0, limit);
+  return Promise.all(newest.map((id) => readMessage(dir, id)));
+}

@@ -1,0 +1,55 @@
+// The local fake SMTP server, started in-process on a free port for a test file: real SMTP through
+// nodemailer, real .eml files, read back the way the mailbox page reads them. No mocks.
+import { mkdtemp, rm } from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
+import { startFakeSmtp } from '@/scripts/fake-smtp.mjs';
+import { listMailbox, type MailboxMessage } from '@/lib/mail/mailbox';
+
+export type TestMailbox = {
+  url: string;
+  dir: string;
+  /** Waits until a kept message matches (polling the folder), or fails after `timeoutMs`. */
+  waitFor: (match: (m: MailboxMessage) => boolean, timeoutMs?: number) => Promise<MailboxMessage>;
+  all: () => Promise<MailboxMessage[]>;
+  stop: () => Promise<void>;
+};
+
+/** Starts the fake server and points SMTP_URL / MAILBOX_DIR at it for the app code under test. */
+export async function startTestMailbox(): Promise<TestMailbox> {
+  const dir = await mkdtemp(path.join(os.tmpdir(), 'switchback-mailbox-'));
+  const smtp = await startFakeSmtp({ port: 0, mailboxDir: dir });
+  process.env.SMTP_URL = smtp.url;
+  process.env.MAILBOX_DIR = dir;
+  const all = () => listMailbox(dir, 10_000);
+  return {
+    url: smtp.url,
+    dir,
+    all,
+    async waitFor(match, timeoutMs = 10_000) {
+      const deadline = Date.now() + timeoutMs;
+      for (;;) {
+        const found = (await all()).find(match);
+        if (found) return found;
+        if (Date.now() > deadline) throw new Error(`no matching message arrived within ${timeoutMs} ms`);
+        await new Promise((resolve) => setTimeout(resolve, 50));
+      }
+    },
+    async stop() {
+      await smtp.stop();
+      await rm(dir, { recursive: true, force: true });
+    },
+  };
+}
+
+/** The first link in a message's text whose path starts with `prefix` (e.g. '/invitations/'). */
+export function linkIn(message: MailboxMessage, prefix: string): URL {
+  const found = message.text.match(/https?:\/\/\S+/g)?.map((raw) => new URL(raw)).find((u) => u.pathname.startsWith(prefix));
+  if (!found) throw new Error(`no ${prefix} link in "${message.subject}"`);
+  return found;
+}
+
+/** The token at the end of a link such as /invitations/<token>. */
+export function tokenOf(url: URL): string {
+  return url.pathname.split('/').filter(Boolean).pop()!;
+}
