@@ -8,6 +8,11 @@ import { roleAtLeast } from '@/lib/auth/roles';
 /** The study's sections. A new feature page adds its entry here, with the least role that sees it. */
 export const studySections: Array<{ segment: string; label: string; minRole: Role }> = [
   { segment: '', label: 'Overview', minRole: 'viewer' },
+  { segment: 'priors', label: 'Priors', minRole: 'viewer' },
+  { segment: 'designs', label: 'Designs', minRole: 'viewer' },
+  { segment: 'compare', label: 'Compare', minRole: 'viewer' },
+  { segment: 'team', label: 'Team', minRole: 'viewer' },
+  { segment: 'audit', label: 'Audit trail', minRole: 'editor' },
 ];
 
 export function StudyNav({ studyId, role }: { studyId: number; role: Role }) {

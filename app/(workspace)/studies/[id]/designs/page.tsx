@@ -1,0 +1,5 @@
+import { DesignList } from '@/components/planner/design-list';
+
+export default function StudyDesignsPage() {
+  return <DesignList />;
+}

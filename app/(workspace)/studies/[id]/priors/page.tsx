@@ -1,0 +1,5 @@
+import { PriorsPage } from '@/components/planner/priors-page';
+
+export default function StudyPriorsPage() {
+  return <PriorsPage />;
+}

@@ -1,0 +1,108 @@
+'use client';
+
+import { useMemo } from 'react';
+import { CHART_COLOURS, drawLineChart, type LineChartSpec } from '@/components/charts/draw-line-chart';
+import { D3Chart } from '@/components/charts/d3-chart';
+import { Table, Td, Th } from '@/components/ui/table';
+import type { DesignDto, PriorSetDto } from '@/lib/client/planner';
+import { compareRows, type CompareRow } from '@/lib/planner/compare';
+import { fmtDays, fmtShare, fmtSmall } from '@/lib/planner/format';
+import { computeDesignSummary } from '@/lib/planner/summary';
+import type { DesignSummary, PlannerInput } from '@/lib/planner/types';
+import { CRITERION_LABELS, MODEL_LABELS } from './labels';
+
+function fmt(row: CompareRow, v: number | null): string {
+  if (row.unit === 'days') return fmtDays(v);
+  if (row.unit.startsWith('share')) return fmtShare(v);
+  return fmtSmall(v);
+}
+
+/** Side-by-side table (best value per row highlighted) and overlaid gap-product curves for 2–4 designs. */
+export function CompareView({ designs, priors }: { designs: DesignDto[]; priors: PriorSetDto[] }) {
+  const computed = useMemo(() => {
+    const inputs: PlannerInput[] = [];
+    const summaries: DesignSummary[] = [];
+    const problems: string[] = [];
+    for (const d of designs) {
+      const prior = priors.find((p) => p.id === d.spec.priorSetId);
+      if (!prior) {
+        problems.push(`${d.name}: its prior set no longer exists.`);
+        continue;
+      }
+      try {
+        const input = { spec: d.spec, prior: prior.values };
+        summaries.push(computeDesignSummary(input));
+        inputs.push(input);
+      } catch (error) {
+        problems.push(`${d.name}: ${(error as Error).message}`);
+      }
+    }
+    return { inputs, summaries, problems, rows: inputs.length ? compareRows(inputs, summaries) : [] };
+  }, [designs, priors]);
+  const shown = designs.filter((d) => priors.some((p) => p.id === d.spec.priorSetId));
+
+  const overlay = useMemo<LineChartSpec>(
+    () => ({
+      title: 'Gap product against the late delay, typical participant of each design',
+      series: computed.summaries.flatMap((s, i) => (s.gapCurve ? [{ label: shown[i]?.name ?? `design ${i + 1}`, x: s.gapCurve.lateDelays, y: s.gapCurve.values, colour: CHART_COLOURS[i % CHART_COLOURS.length], dashed: i % 2 === 1 }] : [])),
+      xScale: 'log',
+      xLabel: 'late delay D (days, log scale)',
+      yLabel: 'gap product (× L²)',
+      yFormat: (v) => v.toExponential(1),
+    }),
+    [computed.summaries, shown],
+  );
+
+  return (
+    <div className="space-y-6">
+      {computed.problems.map((p) => (
+        <p key={p} className="text-sm text-danger-700">
+          {p}
+        </p>
+      ))}
+      <Table caption="Designs side by side">
+        <thead className="bg-paper-sunk">
+          <tr>
+            <Th>Row</Th>
+            {shown.map((d) => (
+              <Th key={d.id} className="normal-case">
+                {d.name}
+                <span className="block font-normal text-ink-faint">
+                  {MODEL_LABELS[d.spec.model.id]} · {d.spec.mode} · {CRITERION_LABELS[d.spec.criterion]}
+                </span>
+              </Th>
+            ))}
+          </tr>
+        </thead>
+        <tbody className="divide-y divide-ink/10" data-testid="compare-table">
+          {computed.rows.map((row) => (
+            <tr key={row.key}>
+              <Td>
+                {row.label}
+                {row.unit ? <span className="block text-xs text-ink-faint">{row.unit}</span> : null}
+              </Td>
+              {row.values.map((v, i) => (
+                <Td key={i} className={row.best.includes(i) ? 'bg-teal-50 font-semibold text-teal-700' : ''} data-best={row.best.includes(i) ? 'true' : undefined}>
+                  {fmt(row, v)}
+                </Td>
+              ))}
+            </tr>
+          ))}
+          <tr>
+            <Td>Warnings</Td>
+            {computed.summaries.map((s, i) => (
+              <Td key={i} className="text-xs">
+                {s.warnings.length ? s.warnings.map((w) => <p key={w.message}>{w.message}</p>) : 'none'}
+              </Td>
+            ))}
+          </tr>
+        </tbody>
+      </Table>
+      <p className="text-xs text-ink-soft">
+        Highlighted: the best value in each row where a direction makes sense. Robustness rows keep each design’s delays and let choices follow another model
+        (s = 0.8 and β = 0.9 unless the design sets them). Zone bounds and gap products are for the typical participant (the prior’s median rates).
+      </p>
+      <D3Chart draw={drawLineChart} spec={overlay} testId="compare-chart" />
+    </div>
+  );
+}

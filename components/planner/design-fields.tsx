@@ -1,0 +1,86 @@
+'use client';
+
+import type { FieldErrors, UseFormRegister } from 'react-hook-form';
+import { SelectField, TextField } from '@/components/ui/field';
+import type { PriorSetDto } from '@/lib/client/planner';
+import type { DesignFormValues } from '@/lib/planner/design-form-values';
+import { MODEL_CHOICES } from '@/lib/validations/design';
+import { CRITERION_LABELS, MODEL_LABELS } from './labels';
+
+type Props = { register: UseFormRegister<DesignFormValues>; errors: FieldErrors<DesignFormValues>; values: DesignFormValues; priors: PriorSetDto[] };
+
+/** The controls of a candidate design, grouped as a methodologist reads them; units in every label. */
+export function DesignFields({ register, errors: e, values, priors }: Props) {
+  const num = { valueAsNumber: true } as const;
+  const usesS = ['hyperboloid', 'power-delay', 'exponential-power'].includes(values.model?.id);
+  return (
+    <div className="space-y-5">
+      <TextField label="Design name" {...register('name')} error={e.name?.message} />
+      <fieldset className="grid gap-3 sm:grid-cols-2">
+        <legend className="mb-1 text-sm font-semibold">Prior and model</legend>
+        <SelectField label="Prior set" {...register('priorSetId', num)} error={e.priorSetId?.message}>
+          {priors.map((p) => (
+            <option key={p.id} value={p.id}>
+              {p.name}
+            </option>
+          ))}
+        </SelectField>
+        <SelectField label="Assumed discount model" {...register('model.id')} error={e.model?.id?.message}>
+          {MODEL_CHOICES.map((m) => (
+            <option key={m} value={m}>
+              {MODEL_LABELS[m]}
+            </option>
+          ))}
+        </SelectField>
+        {usesS ? <TextField label="Delay sensitivity s" type="number" step="any" {...register('model.sensitivity', num)} error={e.model?.sensitivity?.message} hint="1 gives the model’s usual form" /> : null}
+        {values.model?.id === 'quasi-hyperbolic' ? <TextField label="Present bias β" type="number" step="any" {...register('model.presentBias', num)} error={e.model?.presentBias?.message} hint="0 < β ≤ 1" /> : null}
+        <TextField label="Choice sensitivity γ (per unit of L)" type="number" step="any" {...register('choiceSensitivity', num)} error={e.choiceSensitivity?.message} hint="logistic choice noise; larger is less noisy" />
+      </fieldset>
+      <fieldset className="grid gap-3 sm:grid-cols-3">
+        <legend className="mb-1 text-sm font-semibold">Rewards</legend>
+        <TextField label="Magnitude ratio S/L" type="number" step="any" {...register('ratio', num)} error={e.ratio?.message} hint="between 0 and 1" />
+        <TextField label="Large amount L" type="number" step="any" {...register('largeAmount', num)} error={e.largeAmount?.message} />
+        <TextField label="Currency" {...register('currency')} error={e.currency?.message} hint="three letters, e.g. EUR" />
+      </fieldset>
+      <fieldset className="grid gap-3 sm:grid-cols-3">
+        <legend className="mb-1 text-sm font-semibold">Delays</legend>
+        <SelectField label="Design type" {...register('mode')} error={e.mode?.message}>
+          <option value="personalised">Personalised (calibration block, then probe block)</option>
+          <option value="population">Population (one set of pairs for everyone)</option>
+        </SelectField>
+        <SelectField label="Soon delay" {...register('soonDelay.mode')}>
+          <option value="fixed">Fixed</option>
+          <option value="optimised">Optimised within bounds</option>
+        </SelectField>
+        {values.soonDelay?.mode === 'fixed' ? (
+          <TextField label="Soon delay d (days)" type="number" step="1" {...register('soonDelay.days', num)} error={e.soonDelay?.days?.message} />
+        ) : (
+          <div className="grid grid-cols-2 gap-2">
+            <TextField label="Shortest d (days)" type="number" step="1" {...register('soonDelay.min', num)} error={e.soonDelay?.min?.message} />
+            <TextField label="Longest d (days)" type="number" step="1" {...register('soonDelay.max', num)} error={e.soonDelay?.max?.message} />
+          </div>
+        )}
+        <TextField label="Late-delay limit (days)" type="number" step="1" {...register('lateDelayLimit', num)} error={e.lateDelayLimit?.message} hint="at most 9131 (25 years)" />
+      </fieldset>
+      <fieldset className="grid gap-3 sm:grid-cols-4">
+        <legend className="mb-1 text-sm font-semibold">Pairs and criterion</legend>
+        <TextField label="Reversal probes" type="number" step="1" {...register('probePairs', num)} error={e.probePairs?.message} />
+        <TextField label="Late anchors" type="number" step="1" {...register('lateAnchors', num)} error={e.lateAnchors?.message} />
+        <TextField label="Soon anchors" type="number" step="1" {...register('soonAnchors', num)} error={e.soonAnchors?.message} />
+        <SelectField label="Criterion" {...register('criterion')} error={e.criterion?.message}>
+          {Object.entries(CRITERION_LABELS).map(([value, label]) => (
+            <option key={value} value={value}>
+              {label}
+            </option>
+          ))}
+        </SelectField>
+      </fieldset>
+      <fieldset className="grid gap-3 sm:grid-cols-3">
+        <legend className="mb-1 text-sm font-semibold">Calibration block</legend>
+        <TextField label="Items per magnitude" type="number" step="1" {...register('calibration.itemsPerMagnitude', num)} error={e.calibration?.itemsPerMagnitude?.message} />
+        <TextField label="Shortest calibration delay (days)" type="number" step="1" {...register('calibration.minDelay', num)} error={e.calibration?.minDelay?.message} />
+        <TextField label="Longest calibration delay (days)" type="number" step="1" {...register('calibration.maxDelay', num)} error={e.calibration?.maxDelay?.message} />
+      </fieldset>
+    </div>
+  );
+}

@@ -1,0 +1,18 @@
+import type { DesignSpec } from '@/lib/validations/design';
+
+export const MODEL_LABELS: Record<DesignSpec['model']['id'], string> = {
+  exponential: 'Exponential',
+  hyperbolic: 'Hyperbolic (Mazur)',
+  hyperboloid: 'Hyperboloid (Myerson & Green)',
+  'power-delay': 'Power-delay hyperbola (Rachlin)',
+  'exponential-power': 'Exponential with delay sensitivity',
+  'quasi-hyperbolic': 'Quasi-hyperbolic (β–δ)',
+};
+
+export const CRITERION_LABELS: Record<DesignSpec['criterion'], string> = {
+  'gap-product': 'Gap product',
+  'expected-reversal-rate': 'Expected reversal rate',
+  maximin: 'Maximin gap',
+};
+
+export const ROLE_LABELS = { 'late-anchor': 'Late anchor', probe: 'Reversal probe', 'soon-anchor': 'Soon anchor' } as const;

@@ -1,0 +1,81 @@
+import { MODEL_IDS, type ModelId, type ModelSpec } from '@/lib/design';
+import { expectedReversalRate } from '@/lib/criteria';
+import { personalDelays, sharesAt } from './personal';
+import { priorNodes } from './points';
+import { modelOf } from './summary';
+import type { DesignSummary, PlannerInput } from './types';
+
+/** Delay sensitivity and present bias assumed for the other models in the robustness rows, unless the design sets them. */
+export const ROBUSTNESS_DEFAULTS = { sensitivity: 0.8, presentBias: 0.9 };
+
+/** The model `id` with the design's own s or β where it has one, else the robustness defaults. */
+export function alternativeModel(id: ModelId, own: ModelSpec): ModelSpec {
+  if (id === 'hyperboloid' || id === 'power-delay' || id === 'exponential-power') return { id, sensitivity: own.sensitivity ?? ROBUSTNESS_DEFAULTS.sensitivity };
+  if (id === 'quasi-hyperbolic') return { id, presentBias: own.presentBias ?? ROBUSTNESS_DEFAULTS.presentBias };
+  return { id };
+}
+
+/**
+ * Robustness: the expected reversal rate of the design's probe pairs when people's choices
+ * follow each model (the design's own first), with the delays the design chose under its
+ * assumed model. Population designs keep their one late delay; personalised designs keep each
+ * participant's delay, set from their rates under the assumed model.
+ */
+export function robustness(input: PlannerInput, summary: DesignSummary): Array<{ model: ModelSpec; own: boolean; rate: number }> {
+  const own = modelOf(input.spec);
+  const nodes = priorNodes(input.prior);
+  const d = summary.soonDelay;
+  const gamma = summary.choiceSensitivity;
+  const probe = summary.roles.find((r) => r.role === 'probe')?.lateDelay ?? null;
+  const ids = [own.id, ...MODEL_IDS.filter((id) => id !== own.id)];
+  const delays =
+    input.spec.mode === 'personalised' && probe !== null && d > 0
+      ? personalDelays(own, input.spec.ratio, d, input.spec.lateDelayLimit, nodes, { probe, late: NaN, soon: NaN }).probe
+      : null;
+  return ids.map((id) => {
+    const model = id === own.id ? own : alternativeModel(id, own);
+    let rate = 0;
+    if (probe !== null && probe > d) {
+      rate = delays
+        ? (sharesAt(model, input.spec.ratio, d, nodes, delays, gamma)?.LS ?? 0)
+        : expectedReversalRate({ model, ratio: input.spec.ratio, soonDelay: d, lateDelay: probe, choice: { sensitivity: gamma }, points: nodes });
+    }
+    return { model, own: id === own.id, rate };
+  });
+}
+
+export type CompareRow = { key: string; label: string; unit: string; values: Array<number | null>; better: 'higher' | 'lower' | 'none'; best: number[] };
+
+/** Indices of the best value in a row (ties all win); none when fewer than two values exist. */
+export function bestOf(values: Array<number | null>, better: CompareRow['better']): number[] {
+  if (better === 'none') return [];
+  const present = values.map((v, i) => [v, i] as const).filter((p): p is readonly [number, number] => p[0] !== null && Number.isFinite(p[0]));
+  if (present.length < 2) return [];
+  const target = better === 'higher' ? Math.max(...present.map((p) => p[0])) : Math.min(...present.map((p) => p[0]));
+  return present.filter((p) => Math.abs(p[0] - target) <= 1e-12 * Math.max(1, Math.abs(target))).map((p) => p[1]);
+}
+
+/** The comparison table's numeric rows for summaries side by side (one column per design). */
+export function compareRows(inputs: PlannerInput[], summaries: DesignSummary[]): CompareRow[] {
+  const robust = inputs.map((input, i) => robustness(input, summaries[i]));
+  const row = (key: string, label: string, unit: string, values: Array<number | null>, better: CompareRow['better']): CompareRow => ({ key, label, unit, values, better, best: bestOf(values, better) });
+  const zoneWidth = summaries.map((s) => (s.typical.zone && Number.isFinite(s.typical.zone.upper) ? s.typical.zone.upper - s.typical.zone.lower : null));
+  const rows: CompareRow[] = [
+    row('zone-width', 'Zone width, typical participant', 'days', zoneWidth, 'higher'),
+    row('soon-delay', 'Soon delay d', 'days', summaries.map((s) => s.soonDelay), 'none'),
+    row('probe-delay', 'Probe late delay D', 'days', summaries.map((s) => s.roles[1].lateDelay), 'none'),
+    row('late-anchor', 'Late-anchor delay', 'days', summaries.map((s) => s.roles[0].lateDelay), 'none'),
+    row('soon-anchor', 'Soon-anchor delay', 'days', summaries.map((s) => s.roles[2].lateDelay), 'none'),
+    row('gap-product', 'Gap product at the optimum, typical participant', '× L²', summaries.map((s) => s.typical.optimum?.gapProduct ?? null), 'higher'),
+    row('criterion', 'Criterion value (comparable only between designs with the same criterion)', '', summaries.map((s) => s.criterionValue), new Set(summaries.map((s) => s.criterion)).size === 1 ? 'higher' : 'none'),
+    row('reversal-own', 'Expected reversal rate, own model', 'share of probes', summaries.map((s) => s.expectedReversalRate), 'higher'),
+  ];
+  for (const id of MODEL_IDS) {
+    rows.push(row(`reversal-${id}`, `Expected reversal rate if choices follow ${id}`, 'share of probes', robust.map((r) => r.find((x) => x.model.id === id)?.rate ?? null), 'higher'));
+  }
+  rows.push(row('worst-model', 'Worst expected reversal rate over the models', 'share of probes', robust.map((r) => Math.min(...r.map((x) => x.rate))), 'higher'));
+  rows.push(row('late-clarity', 'Late-anchor clarity (far gap × near gap)', '× L²', summaries.map((s) => s.typical.lateAnchor?.clarity ?? null), 'higher'));
+  rows.push(row('soon-clarity', 'Soon-anchor clarity', '× L²', summaries.map((s) => s.typical.soonAnchor?.clarity ?? null), 'higher'));
+  rows.push(row('reversible', 'Share of the prior that can reverse', 'share', summaries.map((s) => s.reversibleShare), 'higher'));
+  return rows;
+}
