@@ -1,5 +1,6 @@
 import { MODEL_IDS, type ModelId, type ModelSpec } from '@/lib/design';
 import { expectedReversalRate } from '@/lib/criteria';
+import { fallbackProbe } from './choose-delays';
 import { personalDelays, sharesAt } from './personal';
 import { priorNodes } from './points';
 import { modelOf } from './summary';
@@ -30,7 +31,11 @@ export function robustness(input: PlannerInput, summary: DesignSummary): Array<{
   const ids = [own.id, ...MODEL_IDS.filter((id) => id !== own.id)];
   const delays =
     input.spec.mode === 'personalised' && probe !== null && d > 0
-      ? personalDelays(own, input.spec.ratio, d, input.spec.lateDelayLimit, nodes, { probe, late: NaN, soon: NaN }).probe
+      ? personalDelays(own, input.spec.ratio, d, input.spec.lateDelayLimit, nodes, {
+          probe: fallbackProbe({ model: own, ratio: input.spec.ratio, limit: input.spec.lateDelayLimit, gamma, prior: input.prior, nodes }, d),
+          late: NaN,
+          soon: NaN,
+        }).probe
       : null;
   return ids.map((id) => {
     const model = id === own.id ? own : alternativeModel(id, own);
