@@ -57,7 +57,7 @@ export function drawLineChart(svgEl: SVGSVGElement, spec: LineChartSpec): void {
     const to = Math.min(Number.isFinite(band.to) ? band.to : dHi, dHi);
     if (!(to > from)) continue;
     g.append('rect').attr('x', x(from)).attr('width', x(to) - x(from)).attr('y', 0).attr('height', innerH).attr('fill', band.colour ?? '#fae6bf').attr('opacity', 0.6);
-    g.append('text').attr('x', x(from) + 4).attr('y', 12).attr('font-size', 10).attr('fill', '#8a5a0e').text(band.label);
+    g.append('text').attr('x', x(from) + 4).attr('y', innerH - 6).attr('font-size', 10).attr('fill', '#8a5a0e').text(band.label);
   }
   const xAxis = spec.xScale === 'log' ? d3.axisBottom(x).ticks(6, '~g') : d3.axisBottom(x).ticks(6);
   g.append('g').attr('transform', `translate(0,${innerH})`).call(xAxis as unknown as (s: d3.Selection<SVGGElement, unknown, null, undefined>) => void);

@@ -102,7 +102,7 @@ export function CompareView({ designs, priors }: { designs: DesignDto[]; priors:
         Highlighted: the best value in each row where a direction makes sense. Robustness rows keep each design’s delays and let choices follow another model
         (s = 0.8 and β = 0.9 unless the design sets them). Zone bounds and gap products are for the typical participant (the prior’s median rates).
       </p>
-      <D3Chart draw={drawLineChart} spec={overlay} testId="compare-chart" />
+      <D3Chart draw={drawLineChart} spec={overlay} testId="compare-chart" className="max-w-3xl" />
     </div>
   );
 }

@@ -62,18 +62,20 @@ export function DesignFields({ register, errors: e, values, priors }: Props) {
         )}
         <TextField label="Late-delay limit (days)" type="number" step="1" {...register('lateDelayLimit', num)} error={e.lateDelayLimit?.message} hint="at most 9131 (25 years)" />
       </fieldset>
-      <fieldset className="grid gap-3 sm:grid-cols-4">
+      <fieldset className="grid gap-3 sm:grid-cols-3">
         <legend className="mb-1 text-sm font-semibold">Pairs and criterion</legend>
         <TextField label="Reversal probes" type="number" step="1" {...register('probePairs', num)} error={e.probePairs?.message} />
         <TextField label="Late anchors" type="number" step="1" {...register('lateAnchors', num)} error={e.lateAnchors?.message} />
         <TextField label="Soon anchors" type="number" step="1" {...register('soonAnchors', num)} error={e.soonAnchors?.message} />
-        <SelectField label="Criterion" {...register('criterion')} error={e.criterion?.message}>
-          {Object.entries(CRITERION_LABELS).map(([value, label]) => (
-            <option key={value} value={value}>
-              {label}
-            </option>
-          ))}
-        </SelectField>
+        <div className="sm:col-span-3">
+          <SelectField label="Criterion" {...register('criterion')} error={e.criterion?.message} hint="what the delays are chosen to maximise">
+            {Object.entries(CRITERION_LABELS).map(([value, label]) => (
+              <option key={value} value={value}>
+                {label}
+              </option>
+            ))}
+          </SelectField>
+        </div>
       </fieldset>
       <fieldset className="grid gap-3 sm:grid-cols-3">
         <legend className="mb-1 text-sm font-semibold">Calibration block</legend>

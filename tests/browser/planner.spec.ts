@@ -121,3 +121,29 @@ test('the demo viewer sees the planner without edit controls, and the API refuse
   expect((await page.request.put(`/api/studies/${studyId}/designs/${designId}`, { data: { spec: designs.designs[0].spec, version: designs.designs[0].version } })).status()).toBe(403);
   expect((await page.request.delete(`/api/studies/${studyId}/designs/${designId}`)).status()).toBe(403);
 });
+
+test('a stale design save is refused with an offer to reload, and the typed values are kept', async ({ page }) => {
+  test.setTimeout(120_000);
+  await signInAs(page, 'editor');
+  const base = await studyUrl(page);
+  const name = `Stale save ${Date.now()}`;
+  await createDesign(page, base, name, 'Harbourlight pilot');
+  const studyId = base.split('/').pop();
+  const designId = page.url().split('/').pop();
+  // someone else saves first
+  const current = (await (await page.request.get(`/api/studies/${studyId}/designs/${designId}`)).json()).design;
+  const other = await page.request.put(`/api/studies/${studyId}/designs/${designId}`, { data: { spec: { ...current.spec, probePairs: 7 }, version: current.version } });
+  expect(other.status()).toBe(200);
+
+  await page.getByLabel('Large amount L').fill('250');
+  await page.getByRole('button', { name: 'Save design' }).click();
+  await expect(page.getByText('Someone else saved this design first')).toBeVisible();
+  await expect(page.getByLabel('Large amount L')).toHaveValue('250');
+  await page.getByRole('button', { name: 'Load the current version' }).click();
+  await expect(page.getByLabel('Reversal probes')).toHaveValue('7');
+  await expect(page.getByLabel('Large amount L')).toHaveValue('250');
+  await page.getByRole('button', { name: 'Save design' }).click();
+  await expect(page.getByText('Saved.')).toBeVisible();
+  const saved = (await (await page.request.get(`/api/studies/${studyId}/designs/${designId}`)).json()).design;
+  expect(saved.spec).toMatchObject({ largeAmount: 250, probePairs: 7 });
+});
