@@ -4,6 +4,7 @@ import type { ReactNode } from 'react';
 import { Wordmark } from '@/components/layout/logo';
 import { SignOutButton } from '@/components/auth/sign-out-button';
 import { CautionFooter } from '@/components/layout/caution-footer';
+import { WorkspaceLinks } from '@/components/mail/workspace-links';
 import { getPageUser } from '@/lib/auth/session';
 
 export default async function WorkspaceLayout({ children }: { children: ReactNode }) {
@@ -17,6 +18,7 @@ export default async function WorkspaceLayout({ children }: { children: ReactNod
             <Wordmark />
           </Link>
           <div className="flex items-center gap-4 text-sm">
+            <WorkspaceLinks />
             <span className="text-ink-soft" data-testid="current-user">
               {user.name || user.email}
             </span>

@@ -35,6 +35,11 @@ export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
       {failure ? <Notice tone="error">{failure}</Notice> : null}
       <TextField label="E-mail" type="email" autoComplete="email" {...register('email')} error={formState.errors.email?.message} />
       <TextField label="Password" type="password" autoComplete="current-password" {...register('password')} error={formState.errors.password?.message} />
+      <p className="-mt-2 text-right text-xs">
+        <Link href="/forgot-password" className="text-teal-700 underline">
+          Forgot your password?
+        </Link>
+      </p>
       <Button type="submit" className="w-full" disabled={formState.isSubmitting}>
         {formState.isSubmitting ? 'Signing in…' : 'Sign in'}
       </Button>

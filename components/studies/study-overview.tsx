@@ -1,5 +1,6 @@
 'use client';
 
+import Link from 'next/link';
 import { Card } from '@/components/ui/card';
 import { QueryState } from '@/components/ui/query-state';
 import { Table, Td, Th } from '@/components/ui/table';
@@ -22,7 +23,14 @@ export function StudyOverview() {
             Created {formatDateTime(study.createdAt)} · last changed {formatDateTime(study.updatedAt)} · version {study.version}
           </p>
         </Card>
-        <Card title="Members">
+        <Card
+          title="Members"
+          actions={
+            <Link href={`/studies/${study.id}/team`} className="text-sm text-teal-700 underline">
+              {can('owner') ? 'Manage the team' : 'Team'}
+            </Link>
+          }
+        >
           <QueryState query={members} label="Loading members…">
             <Table caption="Study members">
               <thead className="bg-paper-sunk">

@@ -24,8 +24,10 @@ export const apiPermissions: Record<string, Partial<Record<Method, Access>>> = {
   '/api/studies/[id]/audit': { GET: 'editor' },
   '/api/studies/[id]/audit/csv': { GET: 'editor' },
   '/api/invitations/accept': { POST: 'signed-in' },
+  '/api/invitations/[token]': { GET: 'public' },
   '/api/password-reset': { POST: 'public' },
   '/api/password-reset/complete': { POST: 'public' },
+  '/api/password-reset/[token]': { GET: 'public' },
   '/api/account/notices': { GET: 'signed-in', PUT: 'signed-in' },
   '/api/mailbox': { GET: 'signed-in' },
   // planner: viewers read; editors write; any member may comment

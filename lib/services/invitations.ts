@@ -149,9 +149,16 @@ export async function inspectInvitation(token: string): Promise<InvitationView> 
   return { state, studyId: study.id, studyName: study.name, email: invitation.email, role: invitation.role, expiresAt: invitation.expiresAt.toISOString() };
 }
 
-/** The message people see for a link state other than pending. */
-export function invitationStateMessage(state: Exclude<InvitationState, 'pending'>): string {
-  return STATE_MESSAGES[state];
+/** What an invitation link shows, for the invitation page: details when pending, else why not. */
+export type InvitationLinkView =
+  | { state: 'pending'; studyName: string; email: string; role: Role; expiresAt: string }
+  | { state: Exclude<InvitationState, 'pending'>; message: string };
+
+/** Describes a link's token for the invitation page (no side effects). */
+export async function describeInvitationLink(token: string): Promise<InvitationLinkView> {
+  const view = await inspectInvitation(token);
+  if (view.state === 'pending') return { state: 'pending', studyName: view.studyName!, email: view.email!, role: view.role!, expiresAt: view.expiresAt! };
+  return { state: view.state, message: STATE_MESSAGES[view.state] };
 }
 
 /**

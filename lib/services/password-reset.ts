@@ -61,9 +61,10 @@ export async function inspectResetToken(token: string): Promise<ResetTokenState>
   return stateOf(await PasswordResetToken.findOne({ where: { tokenHash: hashToken(token) } }));
 }
 
-/** The message people see for a reset link that cannot be used. */
-export function resetStateMessage(state: Exclude<ResetTokenState, 'valid'>): string {
-  return STATE_MESSAGES[state];
+/** Whether a reset link can be used, with the reason when not (for the reset page). */
+export async function describeResetLink(token: string): Promise<{ state: ResetTokenState; message: string | null }> {
+  const state = await inspectResetToken(token);
+  return { state, message: state === 'valid' ? null : STATE_MESSAGES[state] };
 }
 
 /**

@@ -1,0 +1,22 @@
+import type { Metadata } from 'next';
+import { redirect } from 'next/navigation';
+import { NoticeSettingsForm } from '@/components/team/notice-settings-form';
+import { getPageUser } from '@/lib/auth/session';
+
+export const metadata: Metadata = { title: 'Account' };
+
+export default async function AccountPage() {
+  const user = await getPageUser();
+  if (!user) redirect('/sign-in');
+  return (
+    <div className="max-w-2xl space-y-6">
+      <div>
+        <h1>Your account</h1>
+        <p className="mt-1 text-sm text-ink-soft">
+          Signed in as {user.name} ({user.email}). To change your password, sign out and use &ldquo;Forgot your password?&rdquo; on the sign-in page.
+        </p>
+      </div>
+      <NoticeSettingsForm email={user.email} />
+    </div>
+  );
+}

@@ -1,0 +1,12 @@
+import type { Metadata } from 'next';
+import { notFound } from 'next/navigation';
+import { MailboxView } from '@/components/mail/mailbox-view';
+import { mailboxDir } from '@/lib/mail/mailbox';
+
+export const metadata: Metadata = { title: 'Mailbox' };
+
+/** Only while the local test mail server is in use; with a real SMTP server the page does not exist. */
+export default function MailboxPage() {
+  if (!mailboxDir()) notFound();
+  return <MailboxView />;
+}

@@ -1,0 +1,13 @@
+import type { Metadata } from 'next';
+import { redirect } from 'next/navigation';
+import { TeamPage } from '@/components/team/team-page';
+import { getPageUser } from '@/lib/auth/session';
+import { mailboxDir } from '@/lib/mail/mailbox';
+
+export const metadata: Metadata = { title: 'Team' };
+
+export default async function StudyTeamPage() {
+  const user = await getPageUser();
+  if (!user) redirect('/sign-in');
+  return <TeamPage currentUserId={user.id} mailboxEnabled={mailboxDir() !== null} />;
+}

@@ -1,0 +1,113 @@
+import { expect, test } from '@playwright/test';
+import { openDemoStudy, shot, signInAs } from './helpers';
+
+test('the demo owner invites an address, and the invitee joins through the mailed link with the invited role', async ({ page, browser }) => {
+  test.setTimeout(120_000);
+  const email = `invitee-${Date.now()}@harbourlight.example.org`;
+  await signInAs(page, 'owner');
+  await openDemoStudy(page);
+  await page.getByRole('link', { name: 'Team' }).first().click();
+  await expect(page.getByRole('heading', { name: 'Invite someone' })).toBeVisible();
+
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Role', { exact: true }).selectOption('editor');
+  await page.getByRole('button', { name: 'Send invitation' }).click();
+  await expect(page.getByText('Invitation sent')).toBeVisible();
+  await expect(page.getByTestId('invitation-row').filter({ hasText: email })).toContainText('Editor');
+  await page.screenshot(shot('team-invited'));
+
+  await page.getByTestId('mailbox-link').click();
+  await expect(page.getByRole('heading', { name: 'Mailbox' })).toBeVisible();
+  await page.getByTestId('mailbox-item').filter({ hasText: email }).first().click();
+  const message = page.getByTestId('mailbox-message');
+  await expect(message.getByTestId('mailbox-message-to')).toContainText(email);
+  const link = await message.getByRole('link', { name: /\/invitations\// }).getAttribute('href');
+  expect(link).toBeTruthy();
+  await page.screenshot(shot('mailbox-invitation'));
+
+  // The invitee has never been here: a fresh browser context, no session.
+  const invitee = await browser.newContext();
+  const guest = await invitee.newPage();
+  await guest.goto(link!);
+  await expect(guest.getByText(/You are invited to join/)).toContainText('as editor');
+  await guest.screenshot(shot('invitation-landing'));
+  await guest.getByRole('link', { name: 'Create an account' }).click();
+  await expect(guest.getByLabel('E-mail')).toHaveValue(email);
+  await guest.getByLabel('Name').fill('Marlowe Quist');
+  await guest.getByLabel('Password').fill('harbour-invitee-2026');
+  await guest.getByRole('button', { name: 'Create account' }).click();
+
+  await expect(guest.getByRole('button', { name: 'Accept and open the study' })).toBeVisible();
+  await guest.getByRole('button', { name: 'Accept and open the study' }).click();
+  await expect(guest.getByTestId('study-title')).toContainText('Rainy-day savings');
+  await expect(guest.getByText('Your role: Editor')).toBeVisible();
+  await guest.screenshot(shot('invitee-joined'));
+
+  // The link worked once: opening it again says so instead of failing.
+  await guest.goto(link!);
+  await expect(guest.getByRole('heading', { name: 'Invitation already used' })).toBeVisible();
+
+  // The owner sees the new member and the trail of what happened; then removes them again, so the
+  // demo study keeps its seeded team for other specs.
+  await page.goto(new URL(link!).origin + '/studies');
+  await openDemoStudy(page);
+  await page.getByRole('link', { name: 'Audit trail' }).click();
+  await expect(page.getByRole('heading', { name: 'Audit trail' })).toBeVisible({ timeout: 30_000 });
+  await page.getByLabel('What').selectOption('invitation.accept');
+  await expect(page.getByTestId('audit-row').filter({ hasText: email }).first()).toContainText('Invitation accepted');
+  await page.screenshot(shot('audit-trail'));
+  await page.getByRole('link', { name: 'Team' }).first().click();
+  const row = page.getByTestId('team-member-row').filter({ hasText: email });
+  await expect(row).toContainText('Marlowe Quist');
+  await row.getByRole('button', { name: 'Remove' }).click();
+  await row.getByRole('button', { name: 'Remove now' }).click();
+  await expect(page.getByTestId('team-member-row').filter({ hasText: email })).toHaveCount(0);
+  await invitee.close();
+});
+
+test('a forgotten password is reset through the mailed link, and the request page answers the same for any address', async ({ page, browser }) => {
+  test.setTimeout(120_000);
+  const email = `resetter-${Date.now()}@harbourlight.example.org`;
+  // A fresh account made through the sign-up page, so the demo passwords stay as they are.
+  await page.goto('/sign-up');
+  await page.getByLabel('Name').fill('Ren Aldous');
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill('first-password-2026');
+  await page.getByRole('button', { name: 'Create account' }).click();
+  await expect(page.getByRole('heading', { name: 'Your studies' })).toBeVisible();
+
+  const guest = await (await browser.newContext()).newPage();
+  await guest.goto('/sign-in');
+  await guest.getByRole('link', { name: 'Forgot your password?' }).click();
+  await expect(guest.getByRole('heading', { name: 'Forgot your password?' })).toBeVisible();
+  await guest.getByLabel('E-mail').fill(`nobody-${Date.now()}@harbourlight.example.org`);
+  await guest.getByRole('button', { name: 'Send the link' }).click();
+  const answer = (await guest.getByRole('status').filter({ hasText: 'Check your inbox' }).textContent()) ?? '';
+  expect(answer).toContain('If an account uses this address');
+  await guest.goto('/forgot-password');
+  await guest.getByLabel('E-mail').fill(email);
+  await guest.getByRole('button', { name: 'Send the link' }).click();
+  await expect(guest.getByRole('status').filter({ hasText: 'Check your inbox' })).toHaveText(answer);
+  await guest.screenshot(shot('reset-requested'));
+
+  await page.getByTestId('mailbox-link').click();
+  await page.getByTestId('mailbox-item').filter({ hasText: email }).first().click();
+  const link = await page.getByTestId('mailbox-message').getByRole('link', { name: /\/reset-password\// }).getAttribute('href');
+  await guest.goto(link!);
+  await expect(guest.getByRole('heading', { name: 'Choose a new password' })).toBeVisible();
+  await guest.getByLabel('New password').fill('second-password-2026');
+  await guest.getByLabel('The same again').fill('second-password-2026');
+  await guest.getByRole('button', { name: 'Save the new password' }).click();
+  await expect(guest.getByRole('heading', { name: 'Password changed' })).toBeVisible();
+
+  await guest.getByRole('link', { name: 'Sign in' }).click();
+  await expect(guest.getByRole('heading', { name: 'Sign in' })).toBeVisible();
+  await guest.getByLabel('E-mail').fill(email);
+  await guest.getByLabel('Password').fill('second-password-2026');
+  await guest.getByRole('button', { name: 'Sign in' }).click();
+  await expect(guest.getByRole('heading', { name: 'Your studies' })).toBeVisible();
+
+  await guest.goto(link!);
+  await expect(guest.getByRole('heading', { name: 'This link cannot be used' })).toBeVisible();
+  await guest.screenshot(shot('reset-link-used'));
+});
