@@ -37,7 +37,12 @@ export function FreezePanel({ studyId, design, canEdit }: { studyId: number; des
                 <p className="break-all font-mono text-xs text-ink-soft" title="SHA-256 of the canonical JSON">
                   {v.hash}
                 </p>
-                <p className="text-xs text-ink-soft">frozen {formatDateTime(v.createdAt)}</p>
+                <p className="text-xs text-ink-soft">
+                  frozen {formatDateTime(v.createdAt)} ·{' '}
+                  <a className="underline" href={`/api/studies/${studyId}/design-versions/${v.hash}`} target="_blank" rel="noreferrer">
+                    frozen content (JSON)
+                  </a>
+                </p>
               </li>
             ))}
           </ul>

@@ -146,4 +146,19 @@ test('a stale design save is refused with an offer to reload, and the typed valu
   await expect(page.getByText('Saved.')).toBeVisible();
   const saved = (await (await page.request.get(`/api/studies/${studyId}/designs/${designId}`)).json()).design;
   expect(saved.spec).toMatchObject({ largeAmount: 250, probePairs: 7 });
+
+  // leaving with unsaved changes asks first; staying keeps them
+  await page.getByLabel('Large amount L').fill('300');
+  let asked = '';
+  page.once('dialog', (dialog) => {
+    asked = dialog.message();
+    void dialog.dismiss();
+  });
+  await page.getByRole('link', { name: '← All designs' }).click();
+  await expect.poll(() => asked).toContain('unsaved changes');
+  await expect(page.getByTestId('design-title')).toHaveText(name);
+  await expect(page.getByLabel('Large amount L')).toHaveValue('300');
+  page.once('dialog', (dialog) => void dialog.accept());
+  await page.getByRole('link', { name: '← All designs' }).click();
+  await expect(page).toHaveURL(/\/designs$/);
 });
