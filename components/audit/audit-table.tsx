@@ -28,7 +28,7 @@ const columns = [
   column.accessor('at', { header: 'When', cell: (c) => <span className="whitespace-nowrap">{formatDateTime(c.getValue())}</span>, enableColumnFilter: false }),
   column.accessor('action', { header: 'What', cell: (c) => <span title={c.getValue()}>{describeAction(c.getValue())}</span>, filterFn: 'equalsString' }),
   column.accessor((e) => e.actorName ?? e.actorEmail ?? 'a removed account', { id: 'actor', header: 'Who', filterFn: 'equalsString' }),
-  column.accessor((e) => describeDetails(e.details), { id: 'details', header: 'Details', enableSorting: false, cell: (c) => <span className="break-all text-ink-soft">{c.getValue()}</span> }),
+  column.accessor((e) => describeDetails(e.details), { id: 'details', header: 'Details', enableSorting: false, cell: (c) => <span className="text-ink-soft [overflow-wrap:anywhere]">{c.getValue()}</span> }),
 ];
 
 function SortMark({ state }: { state: false | 'asc' | 'desc' }) {

@@ -10,6 +10,17 @@ const LABELS: Record<string, string> = {
   'member.remove': 'Member removed',
   'member.leave': 'Member left',
   'audit.export': 'Audit trail exported',
+  'prior.create': 'Prior set created',
+  'design.create': 'Design created',
+  'design.update': 'Design changed',
+  'design.delete': 'Design deleted',
+  'design.freeze': 'Design frozen',
+  'item-bank.export': 'Item bank exported',
+  'api-key.create': 'API key issued',
+  'api-key.revoke': 'API key revoked',
+  'power-run.start': 'Power run started',
+  'power-run.cancel': 'Power run cancelled',
+  'power-run.restart': 'Power run restarted',
 };
 
 /** A readable label for an audit action; actions of other features show as written (e.g. "design.freeze"). */

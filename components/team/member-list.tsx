@@ -64,8 +64,8 @@ function MemberRow({ member, currentUserId, onProblem }: { member: MemberDto; cu
           ROLE_LABELS[member.role]
         )}
       </Td>
-      <Td className="text-ink-soft">{formatDateTime(member.since)}</Td>
-      <Td className="text-right">
+      <Td className="whitespace-nowrap text-ink-soft">{formatDateTime(member.since)}</Td>
+      <Td className="whitespace-nowrap text-right">
         {can('owner') || self ? (
           confirming ? (
             <span className="inline-flex gap-2">

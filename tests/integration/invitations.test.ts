@@ -227,3 +227,17 @@ describe('who can invite whom', () => {
     expect((await Membership.findOne({ where: { studyId: study.id, userId: user.id } }))!.role).toBe('viewer');
   });
 });
+
+describe('the demo data', () => {
+  it('seeds one open invitation in the demo study, once', async () => {
+    const { db } = await import('@/db');
+    const { seed: seedTeam } = await import('@/db/seeders/01-demo-team');
+    const { seed: seedExtras, DEMO_PENDING_INVITEE } = await import('@/db/seeders/05-demo-team-extras');
+    await seedTeam(db());
+    await seedExtras(db());
+    await seedExtras(db());
+    const rows = await Invitation.findAll({ where: { email: DEMO_PENDING_INVITEE } });
+    expect(rows).toHaveLength(1);
+    expect(rows[0]).toMatchObject({ role: 'viewer', acceptedAt: null, revokedAt: null });
+  });
+});
