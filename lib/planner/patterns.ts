@@ -27,4 +27,5 @@ export function addShares(a: PatternShares, b: PatternShares, w: number): void {
   a.SS += w * b.SS;
 }
 
+/** Four zero shares, to accumulate into. */
 export const noShares = (): PatternShares => ({ LL: 0, LS: 0, SL: 0, SS: 0 });

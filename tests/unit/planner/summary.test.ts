@@ -9,7 +9,7 @@ import { computeDesignSummary } from '@/lib/planner/summary';
 import type { PlannerInput } from '@/lib/planner/types';
 import type { DesignSpec, PriorValues } from '@/lib/validations/design';
 
-const { jStat } = jstatModule as unknown as { jStat: { normal: { cdf: (x: number, m: number, s: number) => number } } };
+const { jStat } = jstatModule as unknown as { jStat: { normal: { cdf: (x: number, m: number, s: number) => number; sample: (m: number, s: number) => number } } };
 
 const prior: PriorValues = { medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.6 };
 const spec = (over: Partial<DesignSpec> = {}): PlannerInput['spec'] => ({ ...defaultSpec('Test', 1), ...over });
@@ -47,6 +47,27 @@ describe('the design page numbers', () => {
       expect(soon.shares!.SS).toBeGreaterThan(soon.shares!.LL);
       expect(s.expectedReversalRate).toBe(probe.shares!.LS);
     }
+  });
+
+  it('give a population design’s expected reversal rate that a plain Monte Carlo average confirms (jstat normal draws)', () => {
+    const s = computeDesignSummary({ spec: spec({ mode: 'population', criterion: 'expected-reversal-rate' }), prior });
+    const D = s.roles[1].lateDelay!;
+    const d = s.soonDelay;
+    const model = { id: 'hyperbolic' as const };
+    const n = 200_000;
+    const sigma = (z: number) => 1 / (1 + Math.exp(-z));
+    let sum = 0;
+    for (let i = 0; i < n; i++) {
+      const z1 = jStat.normal.sample(0, 1);
+      const z2 = jStat.normal.sample(0, 1);
+      const k = Math.exp(Math.log(0.02) + 0.8 * z1);
+      const K = Math.exp(Math.log(0.008) + 0.8 * (0.6 * z1 + Math.sqrt(1 - 0.36) * z2));
+      const far = discountFactor(model, K, D) - 0.6 * discountFactor(model, k, d);
+      const near = 0.6 - discountFactor(model, K, D - d);
+      sum += sigma(20 * far) * sigma(20 * near);
+    }
+    // standard error ≤ 0.5/√n ≈ 0.0011; 0.006 allows > 5 SE plus the 12×12 quadrature error
+    expect(Math.abs(s.expectedReversalRate - sum / n)).toBeLessThan(0.006);
   });
 
   it('draw the value lines crossing where the two discounted values are equal', () => {
