@@ -18,6 +18,7 @@ export type LineChartSpec = {
 
 export const CHART_COLOURS = ['#17645d', '#c9861c', '#862a2a', '#4a5a5f'];
 const MARGIN = { top: 12, right: 16, bottom: 44, left: 60 };
+const LEGEND_ROW = 14;
 
 /**
  * Draws (or redraws) a line chart into an <svg> with d3: axes with labels, shaded bands,
@@ -46,11 +47,13 @@ export function drawLineChart(svgEl: SVGSVGElement, spec: LineChartSpec): void {
   if (!xs.length) return;
   const [x0, x1] = d3.extent(xs) as [number, number];
   const [y0, y1] = d3.extent(ys) as [number, number];
+  // the legend sits above the plot, one row per series, so it never covers a line or a label
+  const top = MARGIN.top + LEGEND_ROW * spec.series.length;
   const innerW = width - MARGIN.left - MARGIN.right;
-  const innerH = height - MARGIN.top - MARGIN.bottom;
+  const innerH = height - top - MARGIN.bottom;
   const x = (spec.xScale === 'log' ? d3.scaleLog().domain([Math.max(x0, 1e-12), Math.max(x1, x0 * 1.0001)]) : d3.scaleLinear().domain([x0, x1 === x0 ? x0 + 1 : x1])).range([0, innerW]);
-  const y = d3.scaleLinear().domain([y0, y1 === y0 ? y0 + 1 : y1]).nice().range([innerH, 0]);
-  const g = svg.append('g').attr('transform', `translate(${MARGIN.left},${MARGIN.top})`);
+  const y = d3.scaleLinear().domain([y0, y1 === y0 ? y0 + 1 : y1 + 0.1 * (y1 - y0)]).nice().range([innerH, 0]); // headroom for marker labels
+  const g = svg.append('g').attr('transform', `translate(${MARGIN.left},${top})`);
   const [dLo, dHi] = x.domain();
   for (const band of spec.bands ?? []) {
     const from = Math.max(band.from, dLo);
@@ -74,10 +77,10 @@ export function drawLineChart(svgEl: SVGSVGElement, spec: LineChartSpec): void {
     g.append('circle').attr('cx', x(m.x)).attr('cy', y(m.y)).attr('r', 4.5).attr('fill', m.colour ?? '#1d2a2e');
     g.append('text').attr('x', x(m.x) + 7).attr('y', y(m.y) - 7).attr('font-size', 10).attr('fill', '#1d2a2e').text(m.label);
   }
-  const legend = g.append('g').attr('transform', `translate(${innerW - 4}, 4)`);
+  const legend = svg.append('g').attr('transform', `translate(${MARGIN.left}, 4)`);
   spec.series.forEach((s, i) => {
-    const row = legend.append('g').attr('transform', `translate(0, ${i * 14})`);
-    row.append('line').attr('x1', -150).attr('x2', -134).attr('y1', 4).attr('y2', 4).attr('stroke', s.colour).attr('stroke-width', 2).attr('stroke-dasharray', s.dashed ? '5 4' : null);
-    row.append('text').attr('x', -130).attr('y', 8).attr('font-size', 10).attr('fill', '#1d2a2e').text(s.label);
+    const row = legend.append('g').attr('transform', `translate(0, ${i * LEGEND_ROW})`);
+    row.append('line').attr('x1', 0).attr('x2', 16).attr('y1', 4).attr('y2', 4).attr('stroke', s.colour).attr('stroke-width', 2).attr('stroke-dasharray', s.dashed ? '5 4' : null);
+    row.append('text').attr('x', 20).attr('y', 8).attr('font-size', 10).attr('fill', '#1d2a2e').text(s.label);
   });
 }

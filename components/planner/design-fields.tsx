@@ -52,15 +52,15 @@ export function DesignFields({ register, errors: e, values, priors }: Props) {
           <option value="fixed">Fixed</option>
           <option value="optimised">Optimised within bounds</option>
         </SelectField>
+        <TextField label="Late-delay limit (days)" type="number" step="1" {...register('lateDelayLimit', num)} error={e.lateDelayLimit?.message} hint="at most 9131 (25 years)" />
         {values.soonDelay?.mode === 'fixed' ? (
           <TextField label="Soon delay d (days)" type="number" step="1" {...register('soonDelay.days', num)} error={e.soonDelay?.days?.message} />
         ) : (
-          <div className="grid grid-cols-2 gap-2">
-            <TextField label="Shortest d (days)" type="number" step="1" {...register('soonDelay.min', num)} error={e.soonDelay?.min?.message} />
-            <TextField label="Longest d (days)" type="number" step="1" {...register('soonDelay.max', num)} error={e.soonDelay?.max?.message} />
-          </div>
+          <>
+            <TextField label="Shortest soon delay (days)" type="number" step="1" {...register('soonDelay.min', num)} error={e.soonDelay?.min?.message} />
+            <TextField label="Longest soon delay (days)" type="number" step="1" {...register('soonDelay.max', num)} error={e.soonDelay?.max?.message} />
+          </>
         )}
-        <TextField label="Late-delay limit (days)" type="number" step="1" {...register('lateDelayLimit', num)} error={e.lateDelayLimit?.message} hint="at most 9131 (25 years)" />
       </fieldset>
       <fieldset className="grid gap-3 sm:grid-cols-3">
         <legend className="mb-1 text-sm font-semibold">Pairs and criterion</legend>
