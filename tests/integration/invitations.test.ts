@@ -15,12 +15,17 @@ import { ctx, makeStudyWithTeam, makeUser, migrateUp, requestAs, type TestUser }
 import { linkIn, startTestMailbox, tokenOf, type TestMailbox } from '../support/mail';
 
 let mailbox: TestMailbox;
+const savedBase = process.env.NEXTAUTH_URL;
 beforeAll(async () => {
   process.env.NEXTAUTH_URL = 'http://127.0.0.1:3999';
   mailbox = await startTestMailbox();
   await migrateUp();
 });
-afterAll(() => mailbox.stop());
+afterAll(async () => {
+  await mailbox.stop();
+  if (savedBase === undefined) delete process.env.NEXTAUTH_URL;
+  else process.env.NEXTAUTH_URL = savedBase;
+});
 
 const freshAddress = (label: string) => `${label}-${randomUUID().slice(0, 8)}@invitees.example.org`;
 

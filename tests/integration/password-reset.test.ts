@@ -11,12 +11,17 @@ import { ctx, makeUser, migrateUp, requestAs } from '../support/integration';
 import { linkIn, startTestMailbox, tokenOf, type TestMailbox } from '../support/mail';
 
 let mailbox: TestMailbox;
+const savedBase = process.env.NEXTAUTH_URL;
 beforeAll(async () => {
   process.env.NEXTAUTH_URL = 'http://127.0.0.1:3998';
   mailbox = await startTestMailbox();
   await migrateUp();
 });
-afterAll(() => mailbox.stop());
+afterAll(async () => {
+  await mailbox.stop();
+  if (savedBase === undefined) delete process.env.NEXTAUTH_URL;
+  else process.env.NEXTAUTH_URL = savedBase;
+});
 
 async function ask(email: string) {
   const response = await requestRoute(await requestAs(null, 'POST', '/api/password-reset', { json: { email } }), ctx({}));

@@ -19,6 +19,7 @@ export type TestMailbox = {
 export async function startTestMailbox(): Promise<TestMailbox> {
   const dir = await mkdtemp(path.join(os.tmpdir(), 'switchback-mailbox-'));
   const smtp = await startFakeSmtp({ port: 0, mailboxDir: dir });
+  const before = { SMTP_URL: process.env.SMTP_URL, MAILBOX_DIR: process.env.MAILBOX_DIR };
   process.env.SMTP_URL = smtp.url;
   process.env.MAILBOX_DIR = dir;
   const all = () => listMailbox(dir, 10_000);
@@ -36,6 +37,11 @@ export async function startTestMailbox(): Promise<TestMailbox> {
       }
     },
     async stop() {
+      // Later test files in the same worker get the environment they started with.
+      for (const [key, value] of Object.entries(before)) {
+        if (value === undefined) delete process.env[key];
+        else process.env[key] = value;
+      }
       await smtp.stop();
       await rm(dir, { recursive: true, force: true });
     },
