@@ -2,10 +2,12 @@
 
 import { useMemo } from 'react';
 import { CHART_COLOURS, drawLineChart, type LineChartSpec } from '@/components/charts/draw-line-chart';
+import { drawBarChart, type BarChartSpec } from '@/components/charts/draw-bar-chart';
 import { D3Chart } from '@/components/charts/d3-chart';
 import { Table, Td, Th } from '@/components/ui/table';
 import type { DesignDto, PriorSetDto } from '@/lib/client/planner';
 import { compareRows, type CompareRow } from '@/lib/planner/compare';
+import { MODEL_IDS } from '@/lib/design';
 import { fmtDays, fmtShare, fmtSmall } from '@/lib/planner/format';
 import { computeDesignSummary } from '@/lib/planner/summary';
 import type { DesignSummary, PlannerInput } from '@/lib/planner/types';
@@ -51,6 +53,20 @@ export function CompareView({ designs, priors }: { designs: DesignDto[]; priors:
       yFormat: (v) => v.toExponential(1),
     }),
     [computed.summaries, shown],
+  );
+
+  const robustnessBars = useMemo<BarChartSpec>(
+    () => ({
+      title: 'Expected reversal rate of each design when choices follow each model',
+      groups: MODEL_IDS.map((id) => MODEL_LABELS[id].replace(/ \(.*\)$/, '')),
+      series: computed.summaries.map((_, i) => ({
+        label: shown[i]?.name ?? `design ${i + 1}`,
+        values: MODEL_IDS.map((id) => computed.rows.find((r) => r.key === `reversal-${id}`)?.values[i] ?? null),
+      })),
+      yLabel: 'expected reversal rate',
+      yFormat: (v) => `${Math.round(v * 100)}%`,
+    }),
+    [computed, shown],
   );
 
   return (
@@ -100,9 +116,18 @@ export function CompareView({ designs, priors }: { designs: DesignDto[]; priors:
       </Table>
       <p className="text-xs text-ink-soft">
         Highlighted: the best value in each row where a direction makes sense. Robustness rows keep each design’s delays and let choices follow another model
-        (s = 0.8 and β = 0.9 unless the design sets them). Zone bounds and gap products are for the typical participant (the prior’s median rates).
+        (s = 0.8 and β = 0.9 unless the design sets them). Zone bounds and gap products are for the typical participant (the prior’s median rates). Personalised designs are scored as if the calibration block recovered each participant’s rates exactly, which flatters them next to population designs; the power simulation drops that assumption.
       </p>
-      <D3Chart draw={drawLineChart} spec={overlay} testId="compare-chart" className="max-w-3xl" />
+      <div className="grid gap-6 xl:grid-cols-2">
+        <div>
+          <h3 className="text-sm font-semibold">Gap product against late delay (typical participant)</h3>
+          <D3Chart draw={drawLineChart} spec={overlay} testId="compare-chart" />
+        </div>
+        <div>
+          <h3 className="text-sm font-semibold">Robustness: expected reversal rate if choices follow each model</h3>
+          <D3Chart draw={drawBarChart} spec={robustnessBars} testId="compare-robustness-chart" />
+        </div>
+      </div>
     </div>
   );
 }

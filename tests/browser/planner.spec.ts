@@ -75,6 +75,7 @@ test('the demo editor creates a prior and two designs, compares them and freezes
   await expect(page).toHaveURL(/compare\?designs=\d+,\d+/);
   await expect(page.getByTestId('compare-table')).toContainText('Expected reversal rate if choices follow exponential');
   await expect(page.getByTestId('compare-table').locator('[data-best="true"]').first()).toBeVisible();
+  await expect(page.getByTestId('compare-robustness-chart').locator('rect[data-series]')).toHaveCount(12); // six models × two designs
   const shared = page.url();
   await page.reload();
   await expect(page.getByRole('columnheader', { name: new RegExp(first) })).toBeVisible();
