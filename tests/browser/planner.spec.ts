@@ -43,6 +43,16 @@ test('the demo editor creates a prior and two designs, compares them and freezes
   await page.getByLabel('Fit from pilot data (CSV)').setInputFiles({ name: 'pilot.csv', mimeType: 'text/csv', buffer: Buffer.from('participant,kSmall,kLarge\np1,0.02,0.01\np2,abc,0.01\np3,0.03,0.02\n') });
   await expect(page.getByTestId('pilot-issues')).toContainText('line 3: kSmall');
 
+  // a good pilot file fills the form with the fitted prior, saved as a new prior set
+  await page.getByRole('button', { name: 'New prior set' }).click();
+  await page.getByLabel('Prior set name').fill(`Pilot fit ${stamp}`);
+  await page.getByLabel('Fit from pilot data (CSV)').setInputFiles({ name: 'pilot-good.csv', mimeType: 'text/csv', buffer: Buffer.from('participant,kSmall,kLarge\np1,0.01,0.01\np2,0.04,0.01\np3,0.02,0.02\n') });
+  await expect(page.getByText('Fitted from 3 participants in “pilot-good.csv”')).toBeVisible();
+  // geometric mean of 0.01, 0.04, 0.02 is 0.02 (by hand)
+  await expect(page.getByLabel('Median rate, small reward (per day)')).toHaveValue(/^0\.0(2|19999)/);
+  await page.getByRole('button', { name: 'Create prior set' }).click();
+  await expect(page.locator('li').filter({ hasText: `Pilot fit ${stamp}` })).toContainText('from pilot data');
+
   // two designs on that prior
   const first = `Fortnight personalised ${stamp}`;
   const second = `Population check ${stamp}`;
