@@ -56,6 +56,8 @@ test('the demo owner invites an address, and the invitee joins through the maile
   await page.getByLabel('What').selectOption('invitation.accept');
   await expect(page.getByTestId('audit-row').filter({ hasText: email }).first()).toContainText('Invitation accepted');
   await page.screenshot(shot('audit-trail'));
+  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download CSV' }).click()]);
+  expect(download.suggestedFilename()).toMatch(/^study-\d+-audit-trail\.csv$/);
   await page.getByRole('link', { name: 'Team' }).first().click();
   const row = page.getByTestId('team-member-row').filter({ hasText: email });
   await expect(row).toContainText('Marlowe Quist');
@@ -110,4 +112,30 @@ test('a forgotten password is reset through the mailed link, and the request pag
   await guest.goto(link!);
   await expect(guest.getByRole('heading', { name: 'This link cannot be used' })).toBeVisible();
   await guest.screenshot(shot('reset-link-used'));
+});
+
+test('a withdrawn invitation link says so instead of failing', async ({ page, browser }) => {
+  const email = `withdrawn-${Date.now()}@harbourlight.example.org`;
+  await signInAs(page, 'owner');
+  await openDemoStudy(page);
+  await page.getByRole('link', { name: 'Team' }).first().click();
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByRole('button', { name: 'Send invitation' }).click();
+  const row = page.getByTestId('invitation-row').filter({ hasText: email });
+  await expect(row).toBeVisible();
+
+  await page.getByTestId('mailbox-link').click();
+  await page.getByTestId('mailbox-item').filter({ hasText: email }).first().click();
+  const link = await page.getByTestId('mailbox-message').getByRole('link', { name: /\/invitations\// }).getAttribute('href');
+
+  await page.goBack();
+  await page.getByTestId('invitation-row').filter({ hasText: email }).getByRole('button', { name: 'Withdraw' }).click();
+  await expect(page.getByText(`The invitation for ${email} was withdrawn`)).toBeVisible();
+  await expect(page.getByTestId('invitation-row').filter({ hasText: email })).toHaveCount(0);
+
+  const guest = await (await browser.newContext()).newPage();
+  await guest.goto(link!);
+  await expect(guest.getByRole('heading', { name: 'Invitation withdrawn' })).toBeVisible();
+  await expect(guest.getByText('This invitation was withdrawn by the study owner.')).toBeVisible();
+  await guest.screenshot(shot('invitation-withdrawn'));
 });
