@@ -121,6 +121,11 @@ test('the demo viewer sees the planner without edit controls, and the API refuse
   await expect(page.getByRole('button', { name: 'Save design' })).toHaveCount(0);
   await expect(page.getByRole('button', { name: 'Freeze this design' })).toHaveCount(0);
   await expect(page.getByText(/not a clinical assessment/).first()).toBeVisible();
+  // viewers may take part in the discussion
+  const remark = `Could the soon delay be shorter? ${Date.now()}`;
+  await page.getByLabel('Add a comment').fill(remark);
+  await page.getByRole('button', { name: 'Post comment' }).click();
+  await expect(page.getByTestId('comment-list')).toContainText(remark);
   await page.screenshot(shot('planner-viewer'));
 
   const studyId = base.split('/').pop();
