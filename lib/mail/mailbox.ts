@@ -7,6 +7,11 @@ export type MailboxMessage = { id: string; receivedAt: string; from: string; to:
 
 const MESSAGE_FILE = /^\d{8}T\d{9}Z-[0-9a-f]{8}\.eml$/;
 
+// Kept files never change (the server writes each once, under a new name), so a parsed message can
+// be reused by the mailbox page's polling instead of parsing every file on every refresh.
+const parsedCache = new Map<string, MailboxMessage>();
+const CACHE_LIMIT = 500;
+
 /**
  * The folder the local test mail server writes to, or null when mail goes to a real server (then the
  * mailbox page and its link are hidden). Set by scripts/services.mjs as MAILBOX_DIR.
@@ -49,5 +54,15 @@ export async function listMailbox(dir: string, limit = 100): Promise<MailboxMess
     throw error;
   }
   const newest = names.filter((n) => MESSAGE_FILE.test(n)).sort().reverse().slice(0, limit);
-  return Promise.all(newest.map((id) => readMessage(dir, id)));
+  return Promise.all(
+    newest.map(async (id) => {
+      const key = path.join(dir, id);
+      const cached = parsedCache.get(key);
+      if (cached) return cached;
+      const message = await readMessage(dir, id);
+      if (parsedCache.size >= CACHE_LIMIT) parsedCache.delete(parsedCache.keys().next().value!);
+      parsedCache.set(key, message);
+      return message;
+    }),
+  );
 }
