@@ -71,6 +71,7 @@ export function DesignEditor({ studyId, design, priors, canEdit }: { studyId: nu
           ) : null}
           {update.error && !conflict && !(update.error instanceof ApiClientError && update.error.issues.length) ? <Notice tone="error">{update.error.message}</Notice> : null}
           {saved && !formState.isDirty ? <Notice>Saved.</Notice> : null}
+          {!canEdit ? <p className="text-xs text-ink-soft">You can read these settings; editors change them.</p> : null}
           <fieldset disabled={!canEdit}>
             <DesignFields register={register} errors={formState.errors} values={values} priors={priors} />
           </fieldset>

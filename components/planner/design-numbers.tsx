@@ -37,7 +37,7 @@ export function DesignNumbers({ summary: s }: { summary: DesignSummary }) {
         <Stat label={s.mode === 'population' ? 'Probe late delay D, everyone (days)' : 'Probe late delay D, typical participant (days)'} value={fmtDays(s.roles[1].lateDelay)} testId="stat-probe-delay" />
         <Stat label="Reversal zone, typical participant (days)" value={zone ? `${fmtDays(zone.lower)} – ${fmtDays(zone.upper)}` : 'none'} testId="stat-zone" />
         <Stat label="Expected reversal rate per probe" value={fmtShare(s.expectedReversalRate)} testId="stat-reversal-rate" />
-        <Stat label={`Criterion: ${CRITERION_LABELS[s.criterion]}`} value={s.criterion === 'expected-reversal-rate' ? fmtShare(s.criterionValue) : fmtSmall(s.criterionValue)} testId="stat-criterion" />
+        <Stat label={`Criterion: ${CRITERION_LABELS[s.criterion]}${s.criterion === 'maximin' ? ' (smallest gap, × L; below 0 means outside some scenario’s zone)' : s.criterion === 'gap-product' ? ' (× L²)' : ''}`} value={s.criterion === 'expected-reversal-rate' ? fmtShare(s.criterionValue) : fmtSmall(s.criterionValue)} testId="stat-criterion" />
         <Stat label="Share of the prior that can reverse" value={fmtShare(s.reversibleShare)} testId="stat-reversible" />
       </dl>
       <p className="text-xs text-ink-soft">

@@ -69,6 +69,7 @@ export function PriorForm({ studyId, prior, canEdit, onSaved }: { studyId: numbe
       ) : null}
       {failure && !conflict && !(failure instanceof ApiClientError && failure.issues.length) ? <Notice tone="error">{failure.message}</Notice> : null}
       {saved && !formState.isDirty ? <Notice>Saved.</Notice> : null}
+      {!canEdit ? <p className="text-xs text-ink-soft">You can read this prior set and explore its picture below; editors change it.</p> : null}
       <fieldset disabled={!canEdit} className="space-y-4">
         <TextField label="Prior set name" {...register('name')} error={e.name?.message} />
         <div className="grid gap-3 sm:grid-cols-2">
