@@ -20,7 +20,7 @@ export type InvitationView = { state: InvitationState; studyId?: number; studyNa
 
 /** A link that was valid once but can no longer be used: 410, with a message for people. */
 export class LinkUnusableError extends ApiError {
-  constructor(readonly state: InvitationState | 'used', message: string) {
+  constructor(readonly state: InvitationState, message: string) {
     super(410, message);
   }
 }
