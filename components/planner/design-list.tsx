@@ -11,7 +11,7 @@ import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { Table, Td, Th } from '@/components/ui/table';
 import { ApiClientError } from '@/lib/client/api';
-import { useCreateDesign, useDesigns, usePriors } from '@/lib/client/planner';
+import { useCreateDesign, useDesigns, usePriors, useVersions } from '@/lib/client/planner';
 import { defaultSpec } from '@/lib/planner/design-form-values';
 import { formatDateTime } from '@/lib/format';
 import { CRITERION_LABELS, MODEL_LABELS } from './labels';
@@ -23,6 +23,7 @@ export function DesignList() {
   const designs = useDesigns(study.id);
   const priors = usePriors(study.id);
   const create = useCreateDesign(study.id);
+  const versions = useVersions(study.id);
   const [picked, setPicked] = useState<number[]>([]);
   const [name, setName] = useState('');
   const [priorId, setPriorId] = useState<number | ''>('');
@@ -92,6 +93,34 @@ export function DesignList() {
             </Table>
           )}
           <p className="mt-2 text-xs text-ink-soft">Tick two to four designs to compare them side by side.</p>
+        </QueryState>
+      </Card>
+      <Card title="Frozen versions">
+        <QueryState query={versions} label="Loading frozen versions…">
+          {(versions.data ?? []).length === 0 ? (
+            <p className="text-sm text-ink-soft">Nothing frozen yet. Exports and power runs cite a frozen version by its hash.</p>
+          ) : (
+            <Table caption="Frozen versions of this study's designs">
+              <thead className="bg-paper-sunk">
+                <tr>
+                  <Th>Design</Th>
+                  <Th>Version</Th>
+                  <Th>SHA-256 of the canonical JSON</Th>
+                  <Th>Frozen</Th>
+                </tr>
+              </thead>
+              <tbody className="divide-y divide-ink/10" data-testid="study-versions">
+                {(versions.data ?? []).map((v) => (
+                  <tr key={v.id}>
+                    <Td>{v.content.spec.name}</Td>
+                    <Td>{v.number}</Td>
+                    <Td className="break-all font-mono text-xs">{v.hash}</Td>
+                    <Td className="text-ink-soft">{formatDateTime(v.createdAt)}</Td>
+                  </tr>
+                ))}
+              </tbody>
+            </Table>
+          )}
         </QueryState>
       </Card>
       {can('editor') ? (

@@ -115,6 +115,7 @@ test('the demo viewer sees the planner without edit controls, and the API refuse
   await page.goto(`${base}/designs`);
   await expect(page.getByTestId('design-row')).not.toHaveCount(0);
   await expect(page.getByRole('button', { name: 'Create design' })).toHaveCount(0);
+  await expect(page.getByTestId('study-versions')).toContainText(/[0-9a-f]{64}/);
   await page.getByRole('link', { name: 'Personalised, two-week soon delay' }).click();
   await expect(page.getByTestId('stat-zone')).not.toHaveText('none');
   await expect(page.getByTestId('version-list')).toContainText(/[0-9a-f]{64}/);
