@@ -21,19 +21,22 @@ export function PriorChart({ values }: { values: Partial<PriorValues> }) {
   const [modelId, setModelId] = useState<(typeof MODEL_CHOICES)[number]>('hyperbolic');
   const [ratio, setRatio] = useState(0.6);
   const [soonDelay, setSoonDelay] = useState(14);
+  const [sensitivity, setSensitivity] = useState(1);
+  const [presentBias, setPresentBias] = useState(0.9);
+  const usesS = modelId === 'hyperboloid' || modelId === 'power-delay' || modelId === 'exponential-power';
   const { medianSmall, medianLarge, sdLogSmall, sdLogLarge, correlation } = values;
   const parsed = priorValuesSchema.safeParse({ medianSmall, medianLarge, sdLogSmall, sdLogLarge, correlation });
   const prior = parsed.success ? parsed.data : null;
   const key = prior ? JSON.stringify(prior) : '';
   // eslint-disable-next-line react-hooks/exhaustive-deps -- keyed on the values, not the object identity
   const draws = useMemo(() => (prior ? priorDraws(prior) : null), [key]);
-  const settingOk = ratio > 0 && ratio < 1 && soonDelay >= 0 && Number.isFinite(soonDelay);
+  const settingOk = ratio > 0 && ratio < 1 && soonDelay >= 0 && Number.isFinite(soonDelay) && sensitivity > 0 && sensitivity <= 5 && presentBias > 0 && presentBias <= 1;
   const view = useMemo(() => {
     if (!prior || !draws || !settingOk) return null;
-    const model = modelOf({ model: { id: modelId } } as Parameters<typeof modelOf>[0]);
+    const model = modelOf({ model: { id: modelId, sensitivity, presentBias } } as Parameters<typeof modelOf>[0]);
     return priorView(prior, { model, ratio, soonDelay }, draws);
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [key, draws, modelId, ratio, soonDelay, settingOk]);
+  }, [key, draws, modelId, ratio, soonDelay, sensitivity, presentBias, settingOk]);
 
   const scatter = useMemo<ScatterSpec | null>(
     () =>
@@ -80,14 +83,16 @@ export function PriorChart({ values }: { values: Partial<PriorValues> }) {
         </SelectField>
         <TextField label="Magnitude ratio S/L" type="number" step="0.05" value={ratio} onChange={(e) => setRatio(Number(e.target.value))} hint="between 0 and 1" />
         <TextField label="Soon delay d (days)" type="number" step="1" value={soonDelay} onChange={(e) => setSoonDelay(Number(e.target.value))} />
+        {usesS ? <TextField label="Delay sensitivity s for the picture" type="number" step="0.1" value={sensitivity} onChange={(e) => setSensitivity(Number(e.target.value))} hint="above 0, at most 5" /> : null}
+        {modelId === 'quasi-hyperbolic' ? <TextField label="Present bias β for the picture" type="number" step="0.05" value={presentBias} onChange={(e) => setPresentBias(Number(e.target.value))} hint="above 0, at most 1" /> : null}
       </div>
       {!prior ? <p className="text-sm text-ink-soft">Enter valid prior values to see the picture.</p> : null}
-      {prior && !settingOk ? <p className="text-sm text-ink-soft">The ratio must be between 0 and 1 and the soon delay 0 days or more.</p> : null}
+      {prior && !settingOk ? <p className="text-sm text-ink-soft">The ratio must be between 0 and 1, the soon delay 0 days or more, s between 0 and 5 and β between 0 and 1.</p> : null}
       {view && scatter && density ? (
         <>
           <p className="text-sm" data-testid="reversible-share">
             Share of the prior that can reverse: <strong>{fmtShare(view.share)}</strong>{' '}
-            <span className="text-ink-soft">(with {MODEL_LABELS[modelId].toLowerCase()} discounting, S/L = {ratio}, d = {soonDelay} days; these three settings only shape the picture)</span>
+            <span className="text-ink-soft">(model: {MODEL_LABELS[modelId]}, S/L = {ratio}, d = {soonDelay} days; these settings only shape the picture and are not saved)</span>
           </p>
           <div className="grid gap-4 lg:grid-cols-2">
             <D3Chart draw={drawScatterChart} spec={scatter} testId="prior-scatter" />
