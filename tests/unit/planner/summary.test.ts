@@ -1,7 +1,7 @@
 import * as d3 from 'd3';
 import jstatModule from 'jstat';
 import { describe, expect, it } from 'vitest';
-import { discountFactor } from '@/lib/design';
+import { discountFactor, MODEL_IDS, reversalZone, type ModelSpec } from '@/lib/design';
 import { defaultSpec } from '@/lib/planner/design-form-values';
 import { priorDraws } from '@/lib/planner/points';
 import { priorView } from '@/lib/planner/prior-view';
@@ -133,6 +133,19 @@ describe('the prior picture', () => {
       const view = priorView(prior, { model: { id }, ratio: 0.5, soonDelay: 7 });
       expect(view.boundary.kSmall.length).toBeGreaterThan(10);
       view.boundary.kSmall.forEach((k, i) => expect(view.boundary.kLarge[i] / (k * factor)).toBeCloseTo(1, 9));
+    }
+  });
+
+  it('puts the line exactly where the zone opens, for every model', () => {
+    for (const id of MODEL_IDS) {
+      const model: ModelSpec = id === 'quasi-hyperbolic' ? { id, presentBias: 0.8 } : ['hyperbolic', 'exponential'].includes(id) ? { id } : { id, sensitivity: 0.8 };
+      const view = priorView(prior, { model, ratio: 0.5, soonDelay: 7 });
+      expect(view.boundary.kSmall.length, id).toBeGreaterThan(5);
+      view.boundary.kSmall.forEach((k, i) => {
+        const K = view.boundary.kLarge[i];
+        expect(reversalZone({ model, ratio: 0.5, soonDelay: 7, kSmall: k, kLarge: K * (1 - 1e-6) }), `${id} just below`).not.toBeNull();
+        expect(reversalZone({ model, ratio: 0.5, soonDelay: 7, kSmall: k, kLarge: K * (1 + 1e-6) }), `${id} just above`).toBeNull();
+      });
     }
   });
 
