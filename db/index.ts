@@ -21,13 +21,21 @@ function createSequelize(): Sequelize {
     pool: { max: 20, min: 0, acquire: 5000, idle: 10000 },
     define: { underscored: true },
   });
-  registerModels(sequelize);
   return sequelize;
 }
+
+// Next bundles server components and route handlers separately, so one process can hold several
+// copies of this module (and of the model classes). The connection pool is shared on globalThis;
+// each copy registers its own model classes on it the first time it is used.
+let modelsRegisteredHere = false;
 
 /** The shared Sequelize instance with every model registered. */
 export function db(): Sequelize {
   holder.switchbackSequelize ??= createSequelize();
+  if (!modelsRegisteredHere) {
+    registerModels(holder.switchbackSequelize);
+    modelsRegisteredHere = true;
+  }
   return holder.switchbackSequelize;
 }
 
@@ -36,6 +44,7 @@ export async function closeDb(): Promise<void> {
   if (holder.switchbackSequelize) {
     const s = holder.switchbackSequelize;
     holder.switchbackSequelize = undefined;
+    modelsRegisteredHere = false;
     await s.close();
   }
 }
