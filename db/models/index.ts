@@ -4,9 +4,11 @@ import { Study } from './study';
 import { Membership } from './membership';
 import { AuditEvent } from './audit-event';
 import { Design, DesignComment, DesignVersion, PriorSet } from './planner';
+import { ApiKey, Participant } from './item-bank';
 import { Invitation, NoticeSetting, PasswordResetToken } from './team';
 
 export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
+export { ApiKey, Participant };
 export { Invitation, PasswordResetToken, NoticeSetting };
 
 /**
@@ -22,6 +24,8 @@ export function registerModels(sequelize: Sequelize): void {
   Design.register(sequelize);
   DesignVersion.register(sequelize);
   DesignComment.register(sequelize);
+  ApiKey.register(sequelize);
+  Participant.register(sequelize);
   Invitation.register(sequelize);
   PasswordResetToken.register(sequelize);
   NoticeSetting.register(sequelize);
@@ -35,6 +39,7 @@ export function registerModels(sequelize: Sequelize): void {
   DesignVersion.belongsTo(Design, { foreignKey: 'designId', as: 'design' });
   Design.hasMany(DesignComment, { foreignKey: 'designId', as: 'comments' });
   DesignComment.belongsTo(User, { foreignKey: 'authorId', as: 'author' });
+  ApiKey.belongsTo(User, { foreignKey: 'createdBy', as: 'creator' });
   Invitation.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });
   Invitation.belongsTo(User, { foreignKey: 'invitedBy', as: 'inviter' });
 }

@@ -41,4 +41,13 @@ export const apiPermissions: Record<string, Partial<Record<Method, Access>>> = {
   '/api/studies/[id]/designs/[designId]/comments': { GET: 'viewer', POST: 'viewer' },
   '/api/studies/[id]/design-versions': { GET: 'viewer' },
   '/api/studies/[id]/design-versions/[versionId]': { GET: 'viewer' },
+  '/api/studies/[id]/item-bank': { GET: 'operator' },
+  '/api/studies/[id]/item-bank/[versionId]': { GET: 'operator' },
+  '/api/studies/[id]/item-bank/[versionId]/export': { GET: 'operator' },
+  '/api/studies/[id]/api-keys': { GET: 'operator', POST: 'operator' },
+  '/api/studies/[id]/api-keys/[keyId]': { DELETE: 'operator' },
+  '/api/studies/[id]/participants': { GET: 'viewer' },
+  '/api/studies/[id]/participants/batch': { POST: 'operator' },
+  '/api/v1/studies/[id]/probe-items': { POST: 'api-key' },
+  '/api/v1/openapi.json': { GET: 'public' },
 };

@@ -22,3 +22,4 @@ export { calibrationItems, type CalibrationItem, type CalibrationOptions, type M
 export { extrapolationWarning, type ExtrapolationWarning } from './extrapolationWarning';
 export { estimateRates, type Choice, type EstimateFlag, type EstimateOptions, type RateEstimate, type RateEstimates } from './estimateRates';
 export * from './power';
+export * from './item-bank';

@@ -27,16 +27,25 @@ export function delayText(days: number, unit: DelayUnit = 'days'): string {
  */
 export function amountText(amount: number, currency: string): string {
   const whole = Number.isInteger(amount);
-  try {
-    return new Intl.NumberFormat('en', {
-      style: 'currency',
-      currency,
-      minimumFractionDigits: whole ? 0 : undefined,
-      maximumFractionDigits: whole ? 0 : undefined,
-    }).format(amount);
-  } catch {
-    return `${amount} ${currency}`;
+  const format = formatter(currency, whole);
+  return format ? format.format(amount) : `${amount} ${currency}`;
+}
+
+// Building an Intl.NumberFormat costs far more than using one; the API words items per request.
+const formatters = new Map<string, Intl.NumberFormat | null>();
+
+function formatter(currency: string, whole: boolean): Intl.NumberFormat | null {
+  const key = `${currency}:${whole}`;
+  let f = formatters.get(key);
+  if (f === undefined) {
+    try {
+      f = new Intl.NumberFormat('en', { style: 'currency', currency, ...(whole ? { minimumFractionDigits: 0, maximumFractionDigits: 0 } : {}) });
+    } catch {
+      f = null;
+    }
+    formatters.set(key, f);
   }
+  return f;
 }
 
 /**

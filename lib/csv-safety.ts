@@ -1,0 +1,23 @@
+/**
+ * Spreadsheet formula injection: a cell whose text starts with = + - @, a tab or a carriage
+ * return may be run as a formula when the CSV is opened in a spreadsheet. Such cells get a
+ * leading apostrophe, which spreadsheets show as text and hide (common practice, as
+ * recommended by OWASP's "CSV Injection" page). Numbers are left alone: they are written as
+ * numbers, so a negative number is not a formula.
+ *
+ * @example neutraliseCell('=1+1') // "'=1+1"
+ */
+export function neutraliseCell(value: unknown): unknown {
+  if (typeof value !== 'string') return value;
+  return /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
+}
+
+/** Every string cell of every row neutralised (see neutraliseCell); a new array of new rows. */
+export function neutraliseRows<T extends Record<string, unknown>>(rows: readonly T[]): T[] {
+  return rows.map((row) => Object.fromEntries(Object.entries(row).map(([k, v]) => [k, neutraliseCell(v)])) as T);
+}
+
+/** The original text of a neutralised cell (for reading our own exports back). */
+export function restoreCell(value: string): string {
+  return /^'[=+\-@\t\r]/.test(value) ? value.slice(1) : value;
+}

@@ -1,0 +1,13 @@
+// Public face of the item bank: items built from a frozen design, ordered, counterbalanced,
+// rounded, worded; and a participant's personalised probe block.
+export type { BankDesign, BankItem, ChosenOption, DelayUnit, DesignPoint, ItemBlock, ItemRole, ItemSet, ItemView, LocatePoint, PresentationOptions, RatePair, Side } from './types';
+export { ItemBankInputError } from './ItemBankInputError';
+export { amountUnit, minorUnit, roundDelay, roundTo, unitDays } from './rounding';
+export { amountText, delayText, itemText } from './wording';
+export { orderBlock, meetsGap, maxFeasibleGap, shuffle, type Orderable } from './orderBlock';
+export { counterbalancedSides, assembleBlock } from './assembleBlock';
+export { pairDelays, type PairDelays } from './pairDelays';
+export { pairItems, type DraftItem, type PairRoundingEntry } from './pairItems';
+export { calibrationBlock, type CalibrationRounding } from './calibrationBlock';
+export { buildItemBank, DEFAULT_MIN_GAP, type ItemBank, type RoundingReport } from './buildItemBank';
+export { serveParticipant, participantSeed, type RateSummary, type ServeFlag, type ServedItems } from './serveParticipant';

@@ -1,0 +1,135 @@
+import type { CalibrationItem } from '../calibrationItems';
+import { estimateRates, type Choice, type EstimateFlag, type RateEstimate } from '../estimateRates';
+import { extrapolationWarning, type ExtrapolationWarning } from '../extrapolationWarning';
+import { createRandom } from '../random';
+import { assembleBlock } from './assembleBlock';
+import type { ItemBank } from './buildItemBank';
+import { ItemBankInputError } from './ItemBankInputError';
+import { pairDelays } from './pairDelays';
+import { pairItems, type PairRoundingEntry } from './pairItems';
+import type { BankDesign, BankItem, ChosenOption, LocatePoint } from './types';
+
+/** Why a participant gets the fallback set instead of personalised items. */
+export type ServeFlag = 'all-sooner' | 'all-later' | 'non-monotone' | 'no-zone';
+
+export type RateSummary = {
+  rate: number;
+  /** standard error of ln k; null when it is not defined (flagged estimates) */
+  standardErrorLog: number | null;
+  interval: { lower: number; upper: number } | null;
+  flags: EstimateFlag[];
+};
+
+/** What a participant is served: estimates, flag, warnings and the probe block in presentation order. */
+export type ServedItems = {
+  participantId: string;
+  estimates: { kSmall: RateSummary; kLarge: RateSummary; choiceSensitivity: number };
+  /** null when the items are personalised; else why the fallback set was served */
+  flag: ServeFlag | null;
+  itemSet: 'personal' | 'fallback' | 'shared';
+  extrapolation: ExtrapolationWarning | null;
+  attentionCheck: 'passed' | 'failed' | 'not-answered';
+  items: BankItem[];
+  rounding: PairRoundingEntry[];
+};
+
+const FALLBACK_FLAGS: readonly EstimateFlag[] = ['non-monotone', 'all-sooner', 'all-later'];
+
+/**
+ * A participant's probe block from their calibration responses (item id → 'sooner' | 'later').
+ *
+ * 1. Responses are checked: every calibration item answered, no unknown item ids, only
+ *    'sooner' or 'later' (the calibration attention check may be answered too); all problems
+ *    are reported at once (ItemBankInputError, naming the items).
+ * 2. kSmall and kLarge are estimated by maximum likelihood (estimateRates, logistic choice, γ = 10).
+ * 3. Personalised designs: probe and anchor pairs at the estimates (pairDelays around `locate`'s
+ *    point). Fallback (documented): a participant whose small or large estimate is flagged
+ *    non-monotone, all-sooner or all-later, or whose estimates have no reversal zone within the
+ *    limits, gets the bank's design-point set (built at the prior medians) and the flag.
+ *    Population designs always serve the shared set.
+ * 4. The block is counterbalanced and ordered with a seed mixed from the bank's seed and the
+ *    participant id, so the same participant and responses always get the same items.
+ *
+ * @throws ItemBankInputError for bad responses
+ */
+export function serveParticipant(
+  design: BankDesign,
+  bank: ItemBank,
+  request: { participantId: string; responses: Record<string, string>; locate: LocatePoint },
+): ServedItems {
+  const calibration = bank.items.filter((i) => i.role === 'calibration');
+  const choices = readResponses(bank, request.responses);
+  const fitItems: CalibrationItem[] = calibration.map((i) => ({
+    magnitude: i.magnitude!,
+    soonerAmount: i.soonerAmount,
+    soonerDelay: i.soonerDelay,
+    laterAmount: i.laterAmount,
+    laterDelay: i.laterDelay,
+    targetRate: Number.NaN, // not read by estimateRates, which computes each tie rate itself
+  }));
+  const fit = estimateRates(calibration.map((i) => choices.get(i.id)!), fitItems, design.spec.model);
+  const rates = { kSmall: fit.small.rate, kLarge: fit.large.rate };
+  let flag: ServeFlag | null = (FALLBACK_FLAGS.find((f) => fit.small.flags.includes(f) || fit.large.flags.includes(f)) as ServeFlag | undefined) ?? null;
+  let delays = null;
+  if (design.spec.mode === 'personalised' && flag === null) {
+    const point = request.locate(rates);
+    delays = point && pairDelays(design, point, rates);
+    if (!delays) flag = 'no-zone';
+  }
+  const itemSet = design.spec.mode === 'population' ? 'shared' : delays ? 'personal' : 'fallback';
+  const pairs = delays
+    ? pairItems(design, delays, rates, { set: 'personal', amountUnit: bank.amountUnit, delayUnit: bank.delayUnit })
+    : pairItems(design, bank.delays, bank.designPoint, { set: itemSet, amountUnit: bank.amountUnit, delayUnit: bank.delayUnit });
+  const random = createRandom({ seed: participantSeed(bank.seed, request.participantId) });
+  const block = assembleBlock(pairs.items, { random, minGap: bank.minGap, currency: design.spec.currency, delayUnit: bank.delayUnit });
+  const check = request.responses['check-calibration'];
+  return {
+    participantId: request.participantId,
+    estimates: { kSmall: summary(fit.small), kLarge: summary(fit.large), choiceSensitivity: fit.sensitivity },
+    flag,
+    itemSet,
+    extrapolation: extrapolationWarning({
+      calibrationDelays: calibration.map((i) => i.laterDelay),
+      probeDelays: pairs.items.filter((i) => i.view === 'far').map((i) => i.laterDelay),
+    }),
+    attentionCheck: check === undefined ? 'not-answered' : check === 'sooner' ? 'passed' : 'failed',
+    items: block.items,
+    rounding: pairs.rounding,
+  };
+}
+
+function summary(e: RateEstimate): RateSummary {
+  return { rate: e.rate, standardErrorLog: e.standardErrorLog, interval: e.interval, flags: e.flags };
+}
+
+function readResponses(bank: ItemBank, responses: Record<string, string>): Map<string, Choice> {
+  const issues: Array<{ path: string; message: string }> = [];
+  const known = new Map(bank.items.filter((i) => i.block === 'calibration').map((i) => [i.id, i]));
+  const choices = new Map<string, Choice>();
+  for (const [id, value] of Object.entries(responses ?? {})) {
+    if (!known.has(id)) issues.push({ path: `responses.${id}`, message: `${id} is not a calibration item of this design.` });
+    else if (value !== 'sooner' && value !== 'later') issues.push({ path: `responses.${id}`, message: `Choose 'sooner' or 'later' for ${id}.` });
+    else choices.set(id, (value as ChosenOption) === 'later' ? 'LL' : 'SS');
+  }
+  for (const item of known.values()) {
+    if (item.role === 'calibration' && !(item.id in (responses ?? {}))) issues.push({ path: `responses.${item.id}`, message: `The response to ${item.id} is missing.` });
+  }
+  if (issues.length) throw new ItemBankInputError(issues);
+  return choices;
+}
+
+/**
+ * A per-participant seed: FNV-1a (32-bit; Fowler, Noll & Vo) of "seed:participantId", so
+ * each participant has their own reproducible order and sides.
+ *
+ * @example participantSeed(7, 'P-001') === participantSeed(7, 'P-001') // true
+ */
+export function participantSeed(seed: number, participantId: string): number {
+  let h = 0x811c9dc5;
+  const text = `${seed}:${participantId}`;
+  for (let i = 0; i < text.length; i++) {
+    h ^= text.charCodeAt(i);
+    h = Math.imul(h, 0x01000193) >>> 0;
+  }
+  return h;
+}

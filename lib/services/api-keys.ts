@@ -1,0 +1,114 @@
+import { createHash, randomBytes } from 'node:crypto';
+import type { NextRequest } from 'next/server';
+import { ApiKey, User } from '@/db/models';
+import { db } from '@/db';
+import { NotFoundError, UnauthorizedError } from '@/lib/api/errors';
+import type { ApiKeyCreateInput } from '@/lib/validations/api-keys';
+import { recordAudit } from './audit';
+import { bankOrInvalid, loadVersion } from './item-bank';
+
+/** SHA-256 (hex) of a key's secret: the only form in which a key is stored. */
+export function hashSecret(secret: string): string {
+  return createHash('sha256').update(secret).digest('hex');
+}
+
+/**
+ * Creates a key for one frozen design version. The secret (`sbk_` + 8 characters of prefix +
+ * `_` + 32 random base64url characters, 192 bits) is returned once and never stored.
+ */
+export async function createApiKey(actorId: number, studyId: number, input: ApiKeyCreateInput) {
+  const version = await loadVersion(studyId, input.designVersionId);
+  bankOrInvalid(version); // refuse a key for a design that cannot serve items
+  const prefix = `sbk_${randomBytes(6).toString('base64url')}`;
+  const secret = `${prefix}_${randomBytes(24).toString('base64url')}`;
+  const key = await db().transaction(async (transaction) => {
+    const created = await ApiKey.create({ studyId, designVersionId: version.id, name: input.name, prefix, secretHash: hashSecret(secret), createdBy: actorId, lastUsedAt: null, revokedAt: null, revokedBy: null }, { transaction });
+    await recordAudit({ actorId, studyId, action: 'api-key.create', details: { keyId: created.id, name: input.name, prefix, designVersionId: version.id } }, transaction);
+    return created;
+  });
+  return { key: apiKeyJson(key, null), secret };
+}
+
+export type ApiKeyDto = ReturnType<typeof apiKeyJson>;
+
+function apiKeyJson(key: ApiKey, creator: { name: string } | null) {
+  return {
+    id: key.id,
+    name: key.name,
+    prefix: key.prefix,
+    designVersionId: key.designVersionId,
+    createdBy: creator?.name ?? null,
+    createdAt: key.createdAt.toISOString(),
+    lastUsedAt: key.lastUsedAt ? key.lastUsedAt.toISOString() : null,
+    revokedAt: key.revokedAt ? key.revokedAt.toISOString() : null,
+  };
+}
+
+/** The study's keys (never their secrets), newest first. */
+export async function listApiKeys(studyId: number) {
+  db();
+  const rows = await ApiKey.findAll({ where: { studyId }, include: [{ model: User, as: 'creator', attributes: ['name'] }], order: [['createdAt', 'DESC'], ['id', 'DESC']] });
+  return rows.map((k) => apiKeyJson(k, (k as unknown as { creator: User | null }).creator));
+}
+
+/** Revokes a key at once (in this process; other processes stop accepting it within the cache's TTL). */
+export async function revokeApiKey(actorId: number, studyId: number, rawKeyId: string) {
+  const id = Number(rawKeyId);
+  if (!Number.isSafeInteger(id) || id <= 0) throw new NotFoundError('API key not found.');
+  db();
+  return db().transaction(async (transaction) => {
+    const key = await ApiKey.findOne({ where: { id, studyId }, transaction, lock: transaction.LOCK.UPDATE });
+    if (!key) throw new NotFoundError('API key not found.');
+    if (!key.revokedAt) {
+      await key.update({ revokedAt: new Date(), revokedBy: actorId }, { transaction });
+      await recordAudit({ actorId, studyId, action: 'api-key.revoke', details: { keyId: key.id, name: key.name, prefix: key.prefix } }, transaction);
+    }
+    keyCache.delete(key.secretHash);
+    return apiKeyJson(key, null);
+  });
+}
+
+type CachedKey = { id: number; studyId: number; designVersionId: number; revoked: boolean; expires: number };
+
+/**
+ * Key lookups by hashed secret, cached in this process for KEY_CACHE_MS so the hot path of the
+ * probe-items API does not query the database for every request. A key revoked through this
+ * process is dropped from the cache at once; another process notices within the TTL.
+ */
+const keyCache = new Map<string, CachedKey | null>();
+const keyExpiry = new Map<string, number>();
+export const KEY_CACHE_MS = 10_000;
+const LAST_USED_EVERY_MS = 60_000;
+const lastUsedWritten = new Map<number, number>();
+
+/**
+ * The API key of a request (`Authorization: Bearer <key>`) for `studyId`. Missing, unknown or
+ * revoked → 401; a valid key of another study → 404 (the study does not leak).
+ */
+export async function requireApiKey(request: NextRequest, studyId: number): Promise<CachedKey> {
+  const header = request.headers.get('authorization') ?? '';
+  const match = /^Bearer\s+(\S+)$/i.exec(header);
+  if (!match) throw new UnauthorizedError('Send the study\'s API key as "Authorization: Bearer <key>".');
+  const hash = hashSecret(match[1]);
+  const now = Date.now();
+  let key = (keyExpiry.get(hash) ?? 0) > now ? keyCache.get(hash) : undefined;
+  if (key === undefined) {
+    db();
+    const row = await ApiKey.findOne({ where: { secretHash: hash }, attributes: ['id', 'studyId', 'designVersionId', 'revokedAt'] });
+    key = row ? { id: row.id, studyId: row.studyId, designVersionId: row.designVersionId, revoked: row.revokedAt !== null, expires: now + KEY_CACHE_MS } : null;
+    keyCache.set(hash, key);
+    keyExpiry.set(hash, now + KEY_CACHE_MS);
+    if (keyCache.size > 10_000) {
+      keyCache.clear();
+      keyExpiry.clear();
+    }
+  }
+  if (!key || key.revoked) throw new UnauthorizedError('This API key is unknown or has been revoked.');
+  if (key.studyId !== studyId) throw new NotFoundError('Study not found.');
+  if (now - (lastUsedWritten.get(key.id) ?? 0) > LAST_USED_EVERY_MS) {
+    lastUsedWritten.set(key.id, now);
+    // Written at most once a minute per key, outside the request's critical path.
+    ApiKey.update({ lastUsedAt: new Date(now) }, { where: { id: key.id } }).catch(() => lastUsedWritten.delete(key.id));
+  }
+  return key;
+}

@@ -1,0 +1,41 @@
+import { z } from 'zod';
+
+/**
+ * The item bank's entities, one zod schema each: export options (query string), probe-items
+ * request (API body) and batch upload.
+ */
+
+export const DELAY_UNITS = ['days', 'weeks', 'months'] as const;
+
+/** Options of an item-bank export or preview, read from the query string. */
+export const exportOptionsSchema = z.strictObject({
+  format: z.enum(['csv', 'json']).default('json'),
+  seed: z.coerce.number().int('The seed must be a whole number.').min(0, 'The seed must be 0 or more.').max(4294967295, 'The seed must be below 2³².').optional(),
+  delayUnit: z.enum(DELAY_UNITS).default('days'),
+  minGap: z.coerce.number().int().min(1, 'The gap must be at least 1 item.').max(20, 'The gap must be at most 20 items.').default(2),
+});
+export type ExportOptions = z.infer<typeof exportOptionsSchema>;
+
+export const participantIdSchema = z
+  .string({ error: 'Give the participant id as text.' })
+  .trim()
+  .min(1, 'Give the participant id.')
+  .max(128, 'The participant id must be at most 128 characters.')
+  .regex(/^[\w.:@-]+$/, 'Use letters, digits and . _ : @ - in participant ids.');
+
+/** POST /api/v1/studies/{id}/probe-items: one participant's calibration responses. */
+export const probeItemsRequestSchema = z.strictObject({
+  participantId: participantIdSchema,
+  responses: z.record(z.string().max(64), z.string().max(16), { error: 'Give responses as an object: item id → "sooner" or "later".' }),
+});
+export type ProbeItemsRequest = z.infer<typeof probeItemsRequestSchema>;
+
+/** Limits of a batch upload (CSV of calibration responses, one row per participant). */
+export const BATCH_MAX_ROWS = 2000;
+
+/** POST /api/studies/{id}/participants/batch: the CSV text and the frozen version to serve it with. */
+export const batchRequestSchema = z.strictObject({
+  designVersionId: z.number({ error: 'Choose a frozen design version.' }).int().positive('Choose a frozen design version.'),
+  csv: z.string().min(1, 'The file is empty.').max(900_000, 'The file is larger than 900 kB; split it.'),
+});
+export type BatchRequest = z.infer<typeof batchRequestSchema>;

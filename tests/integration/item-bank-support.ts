@@ -1,0 +1,45 @@
+// Frozen design versions for the item-bank and probe-API tests, created directly (content valid
+// per frozenDesignSchema, hash by contentHash), the way the planner's freeze would store them.
+import { Design, DesignVersion } from '@/db/models';
+import { contentHash } from '@/lib/canonical-json';
+import { frozenDesignSchema, type FrozenDesign } from '@/lib/validations/design';
+
+export function demoContent(overrides: Partial<FrozenDesign['spec']> = {}): FrozenDesign {
+  return frozenDesignSchema.parse({
+    spec: {
+      name: 'Savings bonus, personalised',
+      priorSetId: 1,
+      model: { id: 'hyperbolic' },
+      ratio: 0.6,
+      largeAmount: 100,
+      currency: 'EUR',
+      mode: 'personalised',
+      soonDelay: { mode: 'fixed', days: 14 },
+      lateDelayLimit: 730,
+      probePairs: 2,
+      lateAnchors: 1,
+      soonAnchors: 1,
+      criterion: 'gap-product',
+      calibration: { itemsPerMagnitude: 10, minDelay: 1, maxDelay: 180 },
+      ...overrides,
+    },
+    prior: { name: 'Pilot prior', medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.5 },
+  });
+}
+
+/** A design and one frozen version of it in `studyId`. */
+export async function makeFrozenVersion(studyId: number, content: FrozenDesign = demoContent()) {
+  const design = await Design.create({ studyId, name: content.spec.name, spec: content.spec, createdBy: null });
+  return DesignVersion.create({ designId: design.id, studyId, number: 1, hash: contentHash(content), content, frozenBy: null });
+}
+
+/** Noise-free answers of a hyperbolic chooser with the given rates to the calibration items. */
+export function answersOf(items: Array<{ id: string; role: string; magnitude: string | null; soonerAmount: number; laterAmount: number; laterDelay: number }>, rates: { kSmall: number; kLarge: number }) {
+  const responses: Record<string, string> = {};
+  for (const item of items) {
+    if (item.role !== 'calibration') continue;
+    const k = item.magnitude === 'small' ? rates.kSmall : rates.kLarge;
+    responses[item.id] = item.laterAmount / (1 + k * item.laterDelay) > item.soonerAmount ? 'later' : 'sooner';
+  }
+  return responses;
+}
