@@ -1,0 +1,95 @@
+// Speed of the numerical core: optimal-late-delay solves per second per model over 10^6 seeded
+// random inputs, and the time of one expected-reversal-rate evaluation with 2,000 prior draws.
+import { expectedReversalRate } from '@/lib/criteria';
+import { createRandom, optimiseLateDelay, priorPoints, type ModelSpec, type PairInput } from '@/lib/design';
+
+const N = 1_000_000;
+
+const models: ModelSpec[] = [
+  { id: 'hyperbolic' },
+  { id: 'exponential' },
+  { id: 'quasi-hyperbolic', presentBias: 0.8 },
+  { id: 'hyperboloid', sensitivity: 0.7 },
+  { id: 'power-delay', sensitivity: 0.7 },
+  { id: 'exponential-power', sensitivity: 0.7 },
+];
+
+function seededInputs(seed: number) {
+  const random = createRandom({ seed });
+  const ratio = new Float64Array(N);
+  const soonDelay = new Float64Array(N);
+  const kSmall = new Float64Array(N);
+  const kLarge = new Float64Array(N);
+  const logUniform = (lo: number, hi: number) => lo * Math.pow(hi / lo, random.uniform());
+  for (let i = 0; i < N; i++) {
+    ratio[i] = 0.05 + 0.9 * random.uniform();
+    soonDelay[i] = logUniform(1, 365);
+    kSmall[i] = logUniform(1e-4, 1);
+    kLarge[i] = logUniform(1e-4, 1);
+  }
+  return { ratio, soonDelay, kSmall, kLarge };
+}
+
+type Inputs = ReturnType<typeof seededInputs>;
+
+// One mutable input object is refilled per solve, so the loop measures the solver, not the
+// caller's allocation of 10^6 input objects.
+function pass(model: ModelSpec, inputs: Inputs): { seconds: number; cpuSeconds: number; nonEmpty: number; checksum: number } {
+  const input: PairInput = { model, ratio: 0.5, soonDelay: 1, kSmall: 1, kLarge: 1 };
+  let checksum = 0;
+  let nonEmpty = 0;
+  const start = performance.now();
+  const cpu = process.cpuUsage();
+  for (let i = 0; i < N; i++) {
+    input.ratio = inputs.ratio[i];
+    input.soonDelay = inputs.soonDelay[i];
+    input.kSmall = inputs.kSmall[i];
+    input.kLarge = inputs.kLarge[i];
+    const o = optimiseLateDelay(input);
+    if (o !== null) {
+      checksum += o.lateDelay;
+      nonEmpty++;
+    }
+  }
+  const used = process.cpuUsage(cpu);
+  return { seconds: (performance.now() - start) / 1000, cpuSeconds: (used.user + used.system) / 1e6, nonEmpty, checksum };
+}
+
+export async function runCoreBench(): Promise<void> {
+  const inputs = seededInputs(20261202);
+  console.log(`optimiseLateDelay over ${N.toLocaleString('en')} seeded random inputs (validation included; best of 3 passes after a warm-up)`);
+  console.log('  per CPU-second of this process (one core) and per wall-clock second (lower when other processes share the machine)');
+  for (const model of models) {
+    pass(model, inputs); // warm-up: let the JIT settle
+    let bestWall = Infinity;
+    let bestCpu = Infinity;
+    let last = pass(model, inputs);
+    for (let r = 0; r < 3; r++) {
+      last = pass(model, inputs);
+      bestWall = Math.min(bestWall, last.seconds);
+      bestCpu = Math.min(bestCpu, last.cpuSeconds);
+    }
+    const label = `${model.id}${model.sensitivity ? ` s=${model.sensitivity}` : ''}${model.presentBias ? ` β=${model.presentBias}` : ''}`;
+    console.log(
+      `  ${label.padEnd(26)} ${(N / bestCpu / 1e6).toFixed(2).padStart(7)} × 10^6 solves per CPU-s  ${(N / bestWall / 1e6).toFixed(2).padStart(7)} × 10^6 per wall-s` +
+        `  (non-empty zones ${((100 * last.nonEmpty) / N).toFixed(1)} %, checksum ${last.checksum.toExponential(6)})`,
+    );
+  }
+
+  const prior = { medianSmall: 0.02, medianLarge: 0.005, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.6 };
+  const points = priorPoints(prior, { method: 'monte-carlo', count: 2000, random: createRandom({ seed: 7 }) });
+  const setting = { model: { id: 'hyperbolic' } as ModelSpec, ratio: 0.5, soonDelay: 14, choice: { sensitivity: 20, lapse: 0.02 }, points };
+  const reps = 5000;
+  let sink = 0;
+  for (let r = 0; r < 500; r++) sink += expectedReversalRate({ ...setting, lateDelay: 60 + (r % 50) });
+  let start = performance.now();
+  for (let r = 0; r < reps; r++) sink += expectedReversalRate({ ...setting, lateDelay: 60 + (r % 50) });
+  const perEval = (performance.now() - start) / reps;
+  start = performance.now();
+  for (let r = 0; r < 500; r++) {
+    const fresh = priorPoints(prior, { method: 'monte-carlo', count: 2000, random: createRandom({ seed: r }) });
+    sink += expectedReversalRate({ ...setting, points: fresh, lateDelay: 90 });
+  }
+  const withDraws = (performance.now() - start) / 500;
+  console.log(`expectedReversalRate, 2,000 prior draws (hyperbolic): ${(perEval * 1000).toFixed(1)} µs per evaluation; ${(withDraws * 1000).toFixed(1)} µs including fresh draws (checksum ${sink.toFixed(6)})`);
+}

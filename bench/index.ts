@@ -1,0 +1,4 @@
+// Runs every benchmark in turn: `npx tsx bench/index.ts` (or `npm run bench`).
+import { runCoreBench } from './core';
+
+await runCoreBench();
