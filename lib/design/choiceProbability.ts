@@ -8,7 +8,12 @@ export type ChoiceModel = {
   lapse?: number;
 };
 
-/** Throws DesignInputError unless γ > 0 is finite and 0 ≤ ε < 1. */
+/**
+ * Checks a choice model: sensitivity γ finite and > 0, lapse ε in [0, 1).
+ *
+ * @throws DesignInputError naming `choice.sensitivity` or `choice.lapse`
+ * @example checkChoiceModel({ sensitivity: 0 }) // throws, field 'choice.sensitivity'
+ */
 export function checkChoiceModel(choice: ChoiceModel, field = 'choice'): void {
   if (choice === null || typeof choice !== 'object') throw new DesignInputError(field, 'an object { sensitivity, lapse? }', choice);
   const g = choice.sensitivity;

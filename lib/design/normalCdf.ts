@@ -6,6 +6,9 @@ const INV_SQRT_PI = 0.5641895835477563; // 1/√π
  * (Abramowitz & Stegun 1964, Handbook of Mathematical Functions, 7.1.6), so there is no
  * cancellation; |x| ≥ 2.5: the continued fraction erfc x = (e^(−x²)/√π)·1/(x + (1/2)/(x + 1/(x + (3/2)/(x + …))))
  * (A&S 7.1.14) evaluated backwards, which keeps relative accuracy far into the tail.
+ *
+ * @param x any real number; NaN gives NaN
+ * @example erfc(0) // 1
  */
 export function erfc(x: number): number {
   if (Number.isNaN(x)) return NaN;
@@ -28,7 +31,12 @@ export function erfc(x: number): number {
   return x >= 0 ? value : 2 - value;
 }
 
-/** Standard normal distribution function Φ(z) = erfc(−z/√2)/2. */
+/**
+ * Standard normal distribution function Φ(z) = erfc(−z/√2)/2 (see erfc for the method).
+ *
+ * @param z any real number, ±Infinity allowed
+ * @example normalCdf(0) // 0.5
+ */
 export function normalCdf(z: number): number {
   if (z === Infinity) return 1;
   if (z === -Infinity) return 0;

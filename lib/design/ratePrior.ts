@@ -27,7 +27,13 @@ export type PriorPointsOptions =
   | { method: 'monte-carlo'; count: number; random: SeededRandom }
   | { method: 'quadrature'; nodes?: number };
 
-/** Throws DesignInputError unless the prior's fields are in range. */
+/**
+ * Checks a prior: medians positive and finite (per day), log-scale SDs finite and ≥ 0,
+ * correlation in [−1, 1].
+ *
+ * @throws DesignInputError naming `prior.<field>` for the first field out of range
+ * @example checkPrior({ medianSmall: 0.02, medianLarge: 0.01, sdLogSmall: 1, sdLogLarge: 1, correlation: 2 }) // throws, field 'prior.correlation'
+ */
 export function checkPrior(prior: RatePrior, field = 'prior'): void {
   if (prior === null || typeof prior !== 'object') throw new DesignInputError(field, 'an object with medians, log-scale SDs and a correlation', prior);
   for (const key of ['medianSmall', 'medianLarge'] as const) {

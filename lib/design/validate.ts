@@ -4,38 +4,47 @@ import type { ModelSpec } from './types';
 // Checks are written as `!(lo < v && v < hi)` so that NaN fails every one of them.
 // The throwing halves live in separate functions to keep the hot paths short.
 
+/** Throws the ratio error. */
 export function failRatio(value: unknown): never {
   throw new DesignInputError('ratio', 'a number strictly between 0 and 1', value);
 }
+/** Throws a rate error for `field`. */
 export function failRate(field: string, value: unknown): never {
   throw new DesignInputError(field, 'a finite number greater than 0 (per day)', value);
 }
+/** Throws a delay error for `field`. */
 export function failDelay(field: string, value: unknown): never {
   throw new DesignInputError(field, 'a finite number of days, 0 or more', value);
 }
 
+/** Ratio x = S/L must lie strictly between 0 and 1. */
 export function checkRatio(x: number): void {
   if (!(x > 0 && x < 1)) failRatio(x);
 }
+/** A rate (per day) must be finite and > 0. */
 export function checkRate(field: string, k: number): void {
   if (!(k > 0 && k < Infinity)) failRate(field, k);
 }
+/** A delay (days) must be finite and ≥ 0. */
 export function checkDelay(field: string, d: number): void {
   if (!(d >= 0 && d < Infinity)) failDelay(field, d);
 }
+/** A finite number > 0. */
 export function checkPositive(field: string, v: number): void {
   if (!(v > 0 && v < Infinity)) throw new DesignInputError(field, 'a finite number greater than 0', v);
 }
+/** A number in [0, 1]. */
 export function checkProbability(field: string, v: number, allowed = 'a number from 0 to 1'): void {
   if (!(v >= 0 && v <= 1)) throw new DesignInputError(field, allowed, v);
 }
+/** A whole number in [min, max]. */
 export function checkInteger(field: string, v: number, min: number, max: number): void {
   if (!(Number.isInteger(v) && v >= min && v <= max)) {
     throw new DesignInputError(field, `a whole number from ${min} to ${max}`, v);
   }
 }
 
-/** Validates a model and returns its delay sensitivity s (default 1). */
+/** Validates a model: known id, s > 0 finite when given, 0 < β ≤ 1 when given. */
 export function checkModel(model: ModelSpec): void {
   if (model === null || typeof model !== 'object') {
     throw new DesignInputError('model', 'an object with a model id', model);

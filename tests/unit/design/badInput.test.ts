@@ -158,3 +158,12 @@ describe('bad input throws DesignInputError naming the field', () => {
     }
   }
 });
+
+describe('the error type', () => {
+  it('keeps the TSDoc example: the field is carried on the error', () => {
+    const e = new DesignInputError('ratio', 'a number strictly between 0 and 1', 1.2);
+    expect(e.field).toBe('ratio');
+    expect(e.message).toBe('ratio must be a number strictly between 0 and 1 (received 1.2)');
+    expect(e).toBeInstanceOf(Error);
+  });
+});

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import * as ss from 'simple-statistics';
 import jStat from 'jstat';
+import * as design from '@/lib/design';
 import {
   createRandom,
   DesignInputError,
@@ -171,5 +172,18 @@ describe('fitting a prior to pilot estimates', () => {
       expect(e).toBeInstanceOf(DesignInputError);
       expect((e as DesignInputError).field).toBe('estimates[1].kLarge');
     }
+  });
+});
+
+describe('checks and small helpers keep their TSDoc examples', () => {
+  it('erfc(0) = 1 and Φ(0) = 1/2', () => {
+    expect(erfc(0)).toBe(1);
+    expect(normalCdf(0)).toBe(0.5);
+  });
+  it('checkPrior names prior.correlation for a correlation of 2', () => {
+    expect(() => design.checkPrior({ medianSmall: 0.02, medianLarge: 0.01, sdLogSmall: 1, sdLogLarge: 1, correlation: 2 })).toThrow(expect.objectContaining({ field: 'prior.correlation' }));
+  });
+  it('checkChoiceModel names choice.sensitivity for γ = 0', () => {
+    expect(() => design.checkChoiceModel({ sensitivity: 0 })).toThrow(expect.objectContaining({ field: 'choice.sensitivity' }));
   });
 });
