@@ -6,10 +6,12 @@ import { AuditEvent } from './audit-event';
 import { Design, DesignComment, DesignVersion, PriorSet } from './planner';
 import { ApiKey, Participant } from './item-bank';
 import { Invitation, NoticeSetting, PasswordResetToken } from './team';
+import { PowerRun } from './power';
 
 export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
 export { ApiKey, Participant };
 export { Invitation, PasswordResetToken, NoticeSetting };
+export { PowerRun };
 
 /**
  * Registers every model and association on one Sequelize instance. A new model is added here
@@ -29,6 +31,7 @@ export function registerModels(sequelize: Sequelize): void {
   Invitation.register(sequelize);
   PasswordResetToken.register(sequelize);
   NoticeSetting.register(sequelize);
+  PowerRun.register(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });

@@ -41,6 +41,12 @@ export const apiPermissions: Record<string, Partial<Record<Method, Access>>> = {
   '/api/studies/[id]/designs/[designId]/comments': { GET: 'viewer', POST: 'viewer' },
   '/api/studies/[id]/design-versions': { GET: 'viewer' },
   '/api/studies/[id]/design-versions/[versionId]': { GET: 'viewer' },
+  // power: everyone in the study opens runs and downloads; editors start, cancel and restart
+  '/api/studies/[id]/power-runs': { GET: 'viewer', POST: 'editor' },
+  '/api/studies/[id]/power-runs/[runId]': { GET: 'viewer' },
+  '/api/studies/[id]/power-runs/[runId]/cancel': { POST: 'editor' },
+  '/api/studies/[id]/power-runs/[runId]/restart': { POST: 'editor' },
+  '/api/studies/[id]/power-runs/[runId]/export': { GET: 'viewer' },
   '/api/studies/[id]/item-bank': { GET: 'operator' },
   '/api/studies/[id]/item-bank/[versionId]': { GET: 'operator' },
   '/api/studies/[id]/item-bank/[versionId]/export': { GET: 'operator' },

@@ -1,0 +1,13 @@
+import { NextResponse } from 'next/server';
+import { route } from '@/lib/api/handler';
+import { requireRole } from '@/lib/auth/session';
+import { cancelPowerRun, parseRunId } from '@/lib/services/power-runs';
+
+type Params = { id: string; runId: string };
+
+/** Cancels a queued or running run (409 when it has already ended). */
+export const POST = route<Params>(async (request, { params }) => {
+  const p = await params;
+  const { user, study } = await requireRole(request, p.id, 'editor');
+  return NextResponse.json({ run: await cancelPowerRun(user.id, study.id, parseRunId(p.runId), user.name) });
+});

@@ -1,0 +1,99 @@
+import { area, line, scaleLinear } from 'd3';
+
+/** One curve: a label and its points (sample size, power, Wilson interval). */
+export type PowerSeries = { label: string; points: ReadonlyArray<{ n: number; power: number; lower: number; upper: number }> };
+
+export type PowerFigureOptions = {
+  title?: string;
+  /** a note under the plot (e.g. replications and seed) */
+  caption?: string;
+  /** horizontal guide lines; default 0.8 and 0.9 */
+  targets?: number[];
+};
+
+/** Figure size: 6.5 × 4.2 inches; one SVG unit is 1/100 inch, so 300 dpi is 3 pixels per unit. */
+export const FIGURE = { width: 650, height: 420, inchesWide: 6.5, inchesHigh: 4.2 } as const;
+export const FIGURE_FONT = 'Source Sans 3';
+
+const COLOURS = ['#0f766e', '#b45309', '#4338ca', '#be123c'];
+const MARGIN = { top: 44, right: 24, bottom: 74, left: 64 };
+
+function escapeXml(text: string): string {
+  return text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+}
+
+/**
+ * The power curve(s) as a self-contained SVG document: power against sample size with the
+ * Wilson 95 % band of each curve, guide lines at the target powers, axes, legend and caption.
+ * d3 computes the scales and paths; the same text is shown on the results page, downloaded
+ * as SVG, and rendered to PNG, so all three always agree.
+ */
+export function powerCurveSvg(series: readonly PowerSeries[], options: PowerFigureOptions = {}): string {
+  const { width, height } = FIGURE;
+  const innerW = width - MARGIN.left - MARGIN.right;
+  const innerH = height - MARGIN.top - MARGIN.bottom;
+  const all = series.flatMap((s) => s.points.map((p) => p.n));
+  const maxN = Math.max(1, ...all);
+  const minN = Math.min(maxN, ...all);
+  const x = scaleLinear()
+    .domain([Math.min(0, minN), maxN])
+    .range([MARGIN.left, MARGIN.left + innerW])
+    .nice();
+  const y = scaleLinear().domain([0, 1]).range([MARGIN.top + innerH, MARGIN.top]);
+  type P = PowerSeries['points'][number];
+  const curve = line<P>()
+    .x((p) => x(p.n))
+    .y((p) => y(p.power));
+  const band = area<P>()
+    .x((p) => x(p.n))
+    .y0((p) => y(p.lower))
+    .y1((p) => y(p.upper));
+  const parts: string[] = [];
+  parts.push(
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${FIGURE.inchesWide}in" height="${FIGURE.inchesHigh}in" viewBox="0 0 ${width} ${height}" ` +
+      `font-family="${FIGURE_FONT}, sans-serif" role="img" aria-label="${escapeXml(options.title ?? 'Power curve')}">`,
+  );
+  parts.push(`<rect width="${width}" height="${height}" fill="#ffffff"/>`);
+  if (options.title) parts.push(`<text x="${MARGIN.left}" y="24" font-size="16" font-weight="600" fill="#1f2933">${escapeXml(options.title)}</text>`);
+  for (const t of y.ticks(5)) {
+    parts.push(`<line x1="${MARGIN.left}" x2="${MARGIN.left + innerW}" y1="${y(t)}" y2="${y(t)}" stroke="#e5e7eb" stroke-width="1"/>`);
+    parts.push(`<text x="${MARGIN.left - 8}" y="${y(t) + 4}" font-size="12" text-anchor="end" fill="#374151">${Math.round(t * 100)} %</text>`);
+  }
+  for (const target of options.targets ?? [0.8, 0.9]) {
+    parts.push(`<line x1="${MARGIN.left}" x2="${MARGIN.left + innerW}" y1="${y(target)}" y2="${y(target)}" stroke="#6b7280" stroke-width="1" stroke-dasharray="5 4"/>`);
+  }
+  for (const t of x.ticks(8)) {
+    parts.push(`<line x1="${x(t)}" x2="${x(t)}" y1="${MARGIN.top + innerH}" y2="${MARGIN.top + innerH + 5}" stroke="#374151"/>`);
+    parts.push(`<text x="${x(t)}" y="${MARGIN.top + innerH + 19}" font-size="12" text-anchor="middle" fill="#374151">${t}</text>`);
+  }
+  parts.push(`<line x1="${MARGIN.left}" x2="${MARGIN.left + innerW}" y1="${MARGIN.top + innerH}" y2="${MARGIN.top + innerH}" stroke="#374151"/>`);
+  parts.push(`<line x1="${MARGIN.left}" x2="${MARGIN.left}" y1="${MARGIN.top}" y2="${MARGIN.top + innerH}" stroke="#374151"/>`);
+  parts.push(`<text x="${MARGIN.left + innerW / 2}" y="${MARGIN.top + innerH + 40}" font-size="13" text-anchor="middle" fill="#1f2933">Participants (N)</text>`);
+  parts.push(
+    `<text transform="translate(18 ${MARGIN.top + innerH / 2}) rotate(-90)" font-size="13" text-anchor="middle" fill="#1f2933">Power (share of replicates with p &lt; α)</text>`,
+  );
+  series.forEach((s, i) => {
+    const colour = COLOURS[i % COLOURS.length];
+    const points = [...s.points].sort((a, b) => a.n - b.n);
+    parts.push(`<path d="${band(points) ?? ''}" fill="${colour}" fill-opacity="0.18" stroke="none"/>`);
+    parts.push(`<path d="${curve(points) ?? ''}" fill="none" stroke="${colour}" stroke-width="2.2"${i % 2 ? ' stroke-dasharray="7 3"' : ''}/>`);
+    for (const p of points) parts.push(`<circle cx="${x(p.n)}" cy="${y(p.power)}" r="3" fill="${colour}"/>`);
+  });
+  // legend top left inside the plot, where a power curve (rising with N) rarely runs
+  const longest = Math.max(...series.map((s) => s.label.length), 10);
+  const lx = MARGIN.left + 10;
+  const ly = MARGIN.top + 8;
+  if (series.length > 0) {
+    parts.push(`<rect x="${lx - 6}" y="${ly - 6}" width="${Math.min(innerW - 8, 34 + longest * 6.2)}" height="${series.length * 18 + 8}" fill="#ffffff" fill-opacity="0.9" stroke="#e5e7eb"/>`);
+  }
+  series.forEach((s, i) => {
+    const colour = COLOURS[i % COLOURS.length];
+    const y0 = ly + i * 18;
+    parts.push(`<rect x="${lx}" y="${y0}" width="16" height="10" fill="${colour}" fill-opacity="0.3" stroke="${colour}"/>`);
+    parts.push(`<text x="${lx + 22}" y="${y0 + 9}" font-size="12" fill="#1f2933">${escapeXml(s.label)}</text>`);
+  });
+  const caption = `Shaded: Wilson 95 % interval. Dashed lines: 80 % and 90 % power.${options.caption ? ` ${options.caption}` : ''}`;
+  parts.push(`<text x="${MARGIN.left}" y="${height - 12}" font-size="11" fill="#4b5563">${escapeXml(caption)}</text>`);
+  parts.push('</svg>');
+  return parts.join('\n');
+}

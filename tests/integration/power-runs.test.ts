@@ -1,0 +1,226 @@
+import { Resvg } from '@resvg/resvg-js';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { GET as listRuns, POST as startRun } from '@/app/api/studies/[id]/power-runs/route';
+import { GET as getRun } from '@/app/api/studies/[id]/power-runs/[runId]/route';
+import { POST as cancelRun } from '@/app/api/studies/[id]/power-runs/[runId]/cancel/route';
+import { POST as restartRun } from '@/app/api/studies/[id]/power-runs/[runId]/restart/route';
+import { GET as exportRun } from '@/app/api/studies/[id]/power-runs/[runId]/export/route';
+import { AuditEvent, Design, DesignVersion, PowerRun, PriorSet } from '@/db/models';
+import { contentHash } from '@/lib/canonical-json';
+import { pngInfo } from '@/lib/figures/png';
+import { markInterruptedRuns } from '@/lib/server/power/runner';
+import { runScenario } from '@/lib/server/power/run-scenario';
+import { buildScenario } from '@/lib/services/power-scenario';
+import type { FrozenDesign } from '@/lib/validations/design';
+import type { PowerRunSpecInput } from '@/lib/validations/power';
+import { ctx, makeStudyWithTeam, migrateUp, requestAs, type TestUser } from '../support/integration';
+
+beforeAll(migrateUp);
+
+const prior = { medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 1, sdLogLarge: 1, correlation: 0.8 };
+const content: FrozenDesign = {
+  spec: {
+    name: 'Harbourlight bonus timing',
+    priorSetId: 1,
+    model: { id: 'hyperbolic' },
+    ratio: 0.82,
+    largeAmount: 100,
+    currency: 'EUR',
+    mode: 'personalised',
+    soonDelay: { mode: 'fixed', days: 30 },
+    lateDelayLimit: 3650,
+    probePairs: 4,
+    lateAnchors: 2,
+    soonAnchors: 2,
+    criterion: 'gap-product',
+    calibration: { itemsPerMagnitude: 10, minDelay: 1, maxDelay: 365 },
+  },
+  prior: { ...prior, name: 'Pilot prior' },
+};
+
+async function frozenVersion(studyId: number, userId: number) {
+  const priorSet = await PriorSet.create({ studyId, name: 'Pilot prior', values: prior, source: 'manual', notes: '', createdBy: userId });
+  const spec = { ...content.spec, priorSetId: priorSet.id };
+  const design = await Design.create({ studyId, name: spec.name, spec, createdBy: userId });
+  const frozen = { spec, prior: content.prior };
+  return DesignVersion.create({ designId: design.id, studyId, number: 1, hash: contentHash(frozen), content: frozen, frozenBy: userId });
+}
+
+function runSpec(versionId: number, overrides: Partial<PowerRunSpecInput> = {}): PowerRunSpecInput {
+  return {
+    designVersionId: versionId,
+    label: 'As the design assumes',
+    truth: { model: { id: 'hyperbolic' }, prior, gamma: 10, lapse: 0.02 },
+    calibration: 'simulated',
+    test: { kind: 'mcnemar', alpha: 0.05, alternative: 'greater' },
+    sampleSizes: [5, 10, 20],
+    replications: 40,
+    seed: 1,
+    ...overrides,
+  };
+}
+
+async function start(user: TestUser, studyId: number, spec: unknown) {
+  return startRun(await requestAs(user, 'POST', `/api/studies/${studyId}/power-runs`, { json: spec }), ctx({ id: String(studyId) }));
+}
+
+async function read(user: TestUser, studyId: number, runId: number) {
+  const response = await getRun(await requestAs(user, 'GET', `/api/studies/${studyId}/power-runs/${runId}`), ctx({ id: String(studyId), runId: String(runId) }));
+  return (await response.json()).run;
+}
+
+async function waitFor(user: TestUser, studyId: number, runId: number, done: (run: { status: string; completed: number }) => boolean) {
+  const deadline = Date.now() + 90_000;
+  for (;;) {
+    const run = await read(user, studyId, runId);
+    if (done(run)) return run;
+    if (Date.now() > deadline) throw new Error(`run ${runId} stuck in ${run.status}`);
+    await new Promise((r) => setTimeout(r, 150));
+  }
+}
+
+async function download(user: TestUser, studyId: number, runId: number, query: string) {
+  return exportRun(await requestAs(user, 'GET', `/api/studies/${studyId}/power-runs/${runId}/export?${query}`), ctx({ id: String(studyId), runId: String(runId) }));
+}
+
+describe('power runs', () => {
+  it('runs in the background, records progress and results, and everyone in the study can open them', async () => {
+    const { study, team } = await makeStudyWithTeam('Power runs');
+    const version = await frozenVersion(study.id, team.owner.id);
+    const response = await start(team.editor, study.id, runSpec(version.id));
+    expect(response.status).toBe(202);
+    const { run } = await response.json();
+    expect(['queued', 'running']).toContain(run.status);
+    const finished = await waitFor(team.viewer, study.id, run.id, (r) => r.status === 'finished');
+    expect(finished.completed).toBe(40);
+    expect(finished.percent).toBe(100);
+    const summary = finished.result.summary;
+    expect(summary.points.map((p: { n: number }) => p.n)).toEqual([5, 10, 20]);
+    for (const p of summary.points) {
+      expect(p.lower).toBeLessThanOrEqual(p.power);
+      expect(p.upper).toBeGreaterThanOrEqual(p.power);
+    }
+    expect(finished.result.methodText).toMatch(/exact McNemar/);
+    expect(finished.result.methodText).toContain(version.hash);
+    expect(finished.result.methodText).toMatch(/Switchback \d+\.\d+\.\d+/);
+    const listed = await (await listRuns(await requestAs(team.viewer, 'GET', `/api/studies/${study.id}/power-runs`), ctx({ id: String(study.id) }))).json();
+    expect(listed.runs.map((r: { id: number }) => r.id)).toContain(run.id);
+    expect(await AuditEvent.count({ where: { studyId: study.id, action: 'power-run.start' } })).toBe(1);
+  });
+
+  it('gives identical results from the app with the same spec and seed, and from 1 or 2 worker threads', async () => {
+    const { study, team } = await makeStudyWithTeam('Power reproducibility');
+    const version = await frozenVersion(study.id, team.owner.id);
+    const spec = runSpec(version.id, { replications: 30 });
+    const one = await runScenario(buildScenario(spec as never, content), { workers: 1, chunkSize: 7 });
+    const two = await runScenario(buildScenario(spec as never, content), { workers: 2, chunkSize: 4 });
+    expect(two).toEqual(one);
+    const a = (await (await start(team.editor, study.id, spec)).json()).run;
+    const b = (await (await start(team.editor, study.id, spec)).json()).run;
+    const ra = await waitFor(team.editor, study.id, a.id, (r) => r.status === 'finished');
+    const rb = await waitFor(team.editor, study.id, b.id, (r) => r.status === 'finished');
+    expect(ra.result.summary).toEqual(rb.result.summary);
+    expect(ra.result.summary.points.map((p: { rejections: number }) => p.rejections)).toEqual(one!.tally.rejections);
+  });
+
+  it('downloads SVG, PNG at 300 dpi, CSV and JSON of a finished run, and compares two runs on one chart', async () => {
+    const { study, team } = await makeStudyWithTeam('Power downloads');
+    const version = await frozenVersion(study.id, team.owner.id);
+    const a = (await (await start(team.editor, study.id, runSpec(version.id, { replications: 20 }))).json()).run;
+    const b = (await (await start(team.editor, study.id, runSpec(version.id, { replications: 20, label: 'Delay sensitivity 0.6', truth: { model: { id: 'hyperboloid', sensitivity: 0.6 }, prior, gamma: 10, lapse: 0.02 } }))).json()).run;
+    await waitFor(team.viewer, study.id, a.id, (r) => r.status === 'finished');
+    await waitFor(team.viewer, study.id, b.id, (r) => r.status === 'finished');
+
+    const svg = await download(team.viewer, study.id, a.id, 'format=svg');
+    expect(svg.headers.get('content-type')).toBe('image/svg+xml');
+    const svgText = await svg.text();
+    const parsed = new Resvg(svgText); // resvg parses the SVG and refuses malformed XML
+    // 6.5 × 4.2 inches at the CSS 96 px per inch resvg reads "in" with
+    expect([parsed.width, parsed.height]).toEqual([624, 403]);
+    expect(svgText).toContain('Wilson 95 %');
+
+    const png = Buffer.from(await (await download(team.viewer, study.id, a.id, 'format=png')).arrayBuffer());
+    expect(png.subarray(1, 4).toString()).toBe('PNG');
+    // 6.5 × 4.2 inches at 300 dpi; 300 dpi = 11811 pixels per metre (300 / 0.0254, rounded)
+    expect(pngInfo(png)).toEqual({ width: 1950, height: 1260, pixelsPerMetre: 11811 });
+
+    const csv = await (await download(team.viewer, study.id, a.id, 'format=csv')).text();
+    expect(csv.split('\n')[0]).toMatch(/"n","power","wilson_lower","wilson_upper"/);
+    expect(csv.trim().split('\n')).toHaveLength(4);
+    const json = await (await download(team.viewer, study.id, a.id, 'format=json')).json();
+    expect(json.design.hash).toBe(version.hash);
+    expect(json.spec.seed).toBe(1);
+
+    const compared = await (await download(team.viewer, study.id, a.id, `format=svg&compare=${b.id}`)).text();
+    expect(compared).toContain('Delay sensitivity 0.6');
+    expect(compared).toContain('As the design assumes');
+    expect((await download(team.viewer, study.id, a.id, 'format=gif')).status).toBe(422);
+  });
+
+  it('cancels a running run, keeps it cancelled, and restarts it from the start', async () => {
+    const { study, team } = await makeStudyWithTeam('Power cancel');
+    const version = await frozenVersion(study.id, team.owner.id);
+    const run = (await (await start(team.editor, study.id, runSpec(version.id, { replications: 20000, sampleSizes: [50, 100, 200] }))).json()).run;
+    await waitFor(team.viewer, study.id, run.id, (r) => r.status === 'running' && r.completed > 0);
+    const cancel = await cancelRun(await requestAs(team.editor, 'POST', `/api/studies/${study.id}/power-runs/${run.id}/cancel`), ctx({ id: String(study.id), runId: String(run.id) }));
+    expect(cancel.status).toBe(200);
+    expect((await cancel.json()).run.status).toBe('cancelled');
+    await new Promise((r) => setTimeout(r, 1500));
+    const after = await read(team.viewer, study.id, run.id);
+    expect(after.status).toBe('cancelled');
+    expect(after.completed).toBeLessThan(20000);
+    expect(after.message).toMatch(/Cancelled by/);
+    const again = await cancelRun(await requestAs(team.editor, 'POST', `/api/studies/${study.id}/power-runs/${run.id}/cancel`), ctx({ id: String(study.id), runId: String(run.id) }));
+    expect(again.status).toBe(409);
+    // shrink the run so its restart finishes quickly, then restart it
+    await PowerRun.update({ spec: { ...after.spec, replications: 20 }, total: 20 }, { where: { id: run.id } });
+    const restart = async () => restartRun(await requestAs(team.editor, 'POST', `/api/studies/${study.id}/power-runs/${run.id}/restart`), ctx({ id: String(study.id), runId: String(run.id) }));
+    let restarted = await restart();
+    for (let i = 0; restarted.status === 409 && i < 40; i++) {
+      await new Promise((r) => setTimeout(r, 250)); // the old run may still be stopping
+      restarted = await restart();
+    }
+    expect(restarted.status).toBe(202);
+    const finished = await waitFor(team.viewer, study.id, run.id, (r) => r.status === 'finished');
+    expect(finished.completed).toBe(20);
+  });
+
+  it('marks a run whose server stopped as interrupted with a clear message, and restarts it', async () => {
+    const { study, team } = await makeStudyWithTeam('Power interrupted');
+    const version = await frozenVersion(study.id, team.owner.id);
+    const spec = runSpec(version.id, { replications: 20 });
+    // a run left "running" by a server that died: its heartbeat is old and no process runs it
+    const orphan = await PowerRun.create({
+      studyId: study.id, designVersionId: version.id, label: 'orphan', spec: spec as never, status: 'running', completed: 8, total: 20,
+      engineVersion: '1', createdBy: team.editor.id, startedAt: new Date(Date.now() - 120_000), heartbeatAt: new Date(Date.now() - 60_000),
+    });
+    expect(await markInterruptedRuns(20_000, { studyId: study.id })).toBe(1);
+    const interrupted = await read(team.viewer, study.id, orphan.id);
+    expect(interrupted.status).toBe('interrupted');
+    expect(interrupted.message).toMatch(/server stopped while this run was in progress \(8 of 20 replicates done\)/);
+    const viewerTry = await restartRun(await requestAs(team.viewer, 'POST', `/api/studies/${study.id}/power-runs/${orphan.id}/restart`), ctx({ id: String(study.id), runId: String(orphan.id) }));
+    expect(viewerTry.status).toBe(403);
+    const restarted = await restartRun(await requestAs(team.editor, 'POST', `/api/studies/${study.id}/power-runs/${orphan.id}/restart`), ctx({ id: String(study.id), runId: String(orphan.id) }));
+    expect(restarted.status).toBe(202);
+    expect((await waitFor(team.viewer, study.id, orphan.id, (r) => r.status === 'finished')).completed).toBe(20);
+  });
+
+  it('refuses versions of other studies, bad specs and downloads before the end, naming the problem', async () => {
+    const { study, team } = await makeStudyWithTeam('Power input');
+    const other = await makeStudyWithTeam('Other power study');
+    const foreign = await frozenVersion(other.study.id, other.team.owner.id);
+    const version = await frozenVersion(study.id, team.owner.id);
+    const wrongStudy = await start(team.editor, study.id, runSpec(foreign.id));
+    expect(wrongStudy.status).toBe(422);
+    expect(JSON.stringify(await wrongStudy.json())).toMatch(/designVersionId/);
+    const descending = await start(team.editor, study.id, runSpec(version.id, { sampleSizes: [40, 20] }));
+    expect(descending.status).toBe(422);
+    expect(JSON.stringify(await descending.json())).toMatch(/sampleSizes\.1/);
+    const noAnchors = await start(team.editor, study.id, runSpec(version.id, { test: { kind: 'probes-vs-anchors', alpha: 0.05, alternative: 'greater' }, replications: 20000, sampleSizes: [100, 200] }));
+    expect(noAnchors.status).toBe(202);
+    const running = (await noAnchors.json()).run;
+    const early = await download(team.viewer, study.id, running.id, 'format=csv');
+    expect(early.status).toBe(409);
+    await cancelRun(await requestAs(team.editor, 'POST', `/api/studies/${study.id}/power-runs/${running.id}/cancel`), ctx({ id: String(study.id), runId: String(running.id) }));
+  });
+});
