@@ -1,7 +1,7 @@
 // Speed of the numerical core: optimal-late-delay solves per second per model over 10^6 seeded
 // random inputs, and the time of one expected-reversal-rate evaluation with 2,000 prior draws.
 import { expectedReversalRate } from '@/lib/criteria';
-import { createRandom, optimiseLateDelay, priorPoints, type ModelSpec, type PairInput } from '@/lib/design';
+import { calibrationItems, createRandom, estimateRates, optimiseLateDelay, priorPoints, type Choice, type ModelSpec, type PairInput } from '@/lib/design';
 
 const N = 1_000_000;
 
@@ -92,4 +92,14 @@ export async function runCoreBench(): Promise<void> {
   }
   const withDraws = (performance.now() - start) / 500;
   console.log(`expectedReversalRate, 2,000 prior draws (hyperbolic): ${(perEval * 1000).toFixed(1)} µs per evaluation; ${(withDraws * 1000).toFixed(1)} µs including fresh draws (checksum ${sink.toFixed(6)})`);
+
+  // one participant's calibration block: 20 items per magnitude, fixed γ, as in a power replicate
+  const items = calibrationItems({ model: { id: 'hyperbolic' }, countPerMagnitude: 20 });
+  const random = createRandom({ seed: 3 });
+  const blocks: Choice[][] = Array.from({ length: 2000 }, () => items.map((item) => (random.uniform() < (item.magnitude === 'small' ? 0.5 : 0.6) ? 'LL' : 'SS')));
+  for (const b of blocks.slice(0, 200)) sink += estimateRates(b, items, { id: 'hyperbolic' }, { sensitivity: 10 }).small.logRate;
+  start = performance.now();
+  for (const b of blocks) sink += estimateRates(b, items, { id: 'hyperbolic' }, { sensitivity: 10 }).small.logRate;
+  const perPerson = (performance.now() - start) / blocks.length;
+  console.log(`estimateRates, 2 × 20 items, fixed γ: ${(perPerson * 1000).toFixed(1)} µs per participant (${(400_000 * perPerson / 1000).toFixed(0)} s for 2,000 replicates × 200 participants on one core)`);
 }
