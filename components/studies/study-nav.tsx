@@ -11,6 +11,7 @@ export const studySections: Array<{ segment: string; label: string; minRole: Rol
   { segment: 'priors', label: 'Priors', minRole: 'viewer' },
   { segment: 'designs', label: 'Designs', minRole: 'viewer' },
   { segment: 'compare', label: 'Compare', minRole: 'viewer' },
+  { segment: 'power', label: 'Power', minRole: 'viewer' },
   { segment: 'team', label: 'Team', minRole: 'viewer' },
   { segment: 'audit', label: 'Audit trail', minRole: 'editor' },
 ];

@@ -1,4 +1,5 @@
 import { optimiseLateDelay } from '@/lib/design/optimiseLateDelay';
+import { locateFor } from './item-bank-plan';
 import { POWER_ENGINE_VERSION } from '@/lib/design/power';
 import type { PowerScenario } from '@/lib/design/power/types';
 import type { FrozenDesign } from '@/lib/validations/design';
@@ -30,8 +31,11 @@ export function resolveSoonDelay(content: FrozenDesign): number {
 /** The engine's scenario for a run spec and the frozen design it cites. */
 export function buildScenario(spec: PowerRunSpec, content: FrozenDesign): PowerScenario {
   const { name: _name, ...prior } = content.prior;
+  // the item bank's design point (population designs: the optimised shared pairs)
+  const point = locateFor(content)({ kSmall: prior.medianSmall, kLarge: prior.medianLarge }) ?? undefined;
+  const soonDelay = point && content.spec.soonDelay.mode === 'optimised' ? point.soonDelay : resolveSoonDelay(content);
   return {
-    design: { spec: content.spec, prior, soonDelay: resolveSoonDelay(content) },
+    design: { spec: content.spec, prior, soonDelay, designPoint: point },
     truth: { model: spec.truth.model, prior: spec.truth.prior, gamma: spec.truth.gamma, lapse: spec.truth.lapse },
     calibration: spec.calibration,
     test: spec.test,

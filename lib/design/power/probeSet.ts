@@ -9,15 +9,20 @@ export type ProbeSet = { probe: number[]; lateAnchor: number[]; soonAnchor: numb
  * The probe block a participant with rates (kSmall, kLarge) is served under the design's
  * model, as the item bank builds it: the main probe at the late delay with the largest gap
  * product at these rates (optimiseLateDelay), further probes and the anchors placed around it
- * by pairDelays. Null when the rates give no reversal zone within the design's limits.
+ * by pairDelays; with `point`, around that design point instead. Null when the rates give no
+ * reversal zone within the design's limits.
  */
-export function probeSet(design: PowerDesign, kSmall: number, kLarge: number): ProbeSet | null {
+export function probeSet(design: PowerDesign, kSmall: number, kLarge: number, point?: { soonDelay: number; lateDelay: number }): ProbeSet | null {
   const { spec } = design;
-  const d = design.soonDelay;
+  const d = point?.soonDelay ?? design.soonDelay;
   const rates = { kSmall, kLarge };
-  const optimum = optimiseLateDelay({ model: spec.model, ratio: spec.ratio, soonDelay: d, ...rates });
-  if (optimum === null) return null;
-  const delays = pairDelays(design, { soonDelay: d, lateDelay: optimum.lateDelay }, rates);
+  let lateDelay = point?.lateDelay;
+  if (lateDelay === undefined) {
+    const optimum = optimiseLateDelay({ model: spec.model, ratio: spec.ratio, soonDelay: d, ...rates });
+    if (optimum === null) return null;
+    lateDelay = optimum.lateDelay;
+  }
+  const delays = pairDelays(design, { soonDelay: d, lateDelay }, rates);
   if (delays === null) return null;
   return { probe: delays.probes, lateAnchor: delays.lateAnchors, soonAnchor: delays.soonAnchors };
 }

@@ -41,7 +41,7 @@ export type PowerSimulator = {
 export function createPowerSimulator(scenario: PowerScenario): PowerSimulator {
   checkScenario(scenario);
   const { design } = scenario;
-  const fallback = probeSet(design, design.prior.medianSmall, design.prior.medianLarge);
+  const fallback = probeSet(design, design.prior.medianSmall, design.prior.medianLarge, design.designPoint);
   if (fallback === null) {
     throw new DesignInputError('design.prior', 'a prior whose median rates have a reversal zone within the late-delay limit under the design model', design.prior);
   }
@@ -83,7 +83,6 @@ function simulateReplicate(
   const s = truth.model.sensitivity ?? 1;
   const beta = truth.model.presentBias ?? 1;
   const x = design.spec.ratio;
-  const d = design.soonDelay;
   const personal = design.spec.mode === 'personalised';
   // running totals over the participants so far: patterns [role*4 + pattern], then counters
   const patterns = new Float64Array(12);
@@ -113,6 +112,8 @@ function simulateReplicate(
       if (own) probes = own;
       else fallbacks++;
     }
+    // the fallback set may use the design point's soon delay
+    const d = probes === fallback && design.designPoint ? design.designPoint.soonDelay : design.soonDelay;
     const farSoon = x * discountAt(id, kTrue, s, beta, d);
     let probeLS = 0;
     let probeSL = 0;

@@ -17,6 +17,11 @@ export const PAIR_ROLES: readonly PairRole[] = ['probe', 'lateAnchor', 'soonAnch
 export type PowerDesign = BankDesign & {
   /** soon delay d of the probe pairs, days (> 0): the fixed one, or the one chosen for the prior medians */
   soonDelay: number;
+  /**
+   * The design point of the fallback set (population designs: the shared set), as the item bank
+   * locates it; default the late delay with the largest gap product at the prior medians.
+   */
+  designPoint?: { soonDelay: number; lateDelay: number };
 };
 
 /** The simulated truth: how the simulated participants really choose. */

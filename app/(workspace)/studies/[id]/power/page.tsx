@@ -1,0 +1,5 @@
+import { PowerPage } from '@/components/power/power-page';
+
+export default function StudyPowerPage() {
+  return <PowerPage />;
+}

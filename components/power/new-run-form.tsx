@@ -1,0 +1,170 @@
+'use client';
+
+import { useRouter } from 'next/navigation';
+import { useState, type FormEvent } from 'react';
+import { Button } from '@/components/ui/button';
+import { SelectField, TextField } from '@/components/ui/field';
+import { Notice } from '@/components/ui/notice';
+import { useStudyContext } from '@/components/studies/study-context';
+import { ApiClientError } from '@/lib/client/api';
+import { useVersions, type VersionDto } from '@/lib/client/planner';
+import { useStartPowerRun } from '@/lib/client/power';
+import { MODEL_CHOICES } from '@/lib/validations/design';
+import { parseSampleSizes, POWER_TEST_LABELS, POWER_TESTS, powerRunSpecSchema } from '@/lib/validations/power';
+
+type Values = Record<string, string>;
+
+const MODEL_LABELS: Record<string, string> = {
+  exponential: 'Exponential',
+  hyperbolic: 'Hyperbolic',
+  hyperboloid: 'Hyperboloid',
+  'power-delay': 'Power-delay hyperbola',
+  'exponential-power': 'Exponential with delay sensitivity',
+  'quasi-hyperbolic': 'Quasi-hyperbolic (β–δ)',
+};
+
+function fromVersion(v: VersionDto | undefined, previous: Values): Values {
+  const p = v?.content.prior;
+  const m = v?.content.spec.model;
+  return {
+    ...previous,
+    version: v ? String(v.id) : '',
+    model: m?.id ?? 'hyperbolic',
+    sensitivity: String(m?.sensitivity ?? 1),
+    presentBias: String(m?.presentBias ?? 1),
+    medianSmall: String(p?.medianSmall ?? 0.02),
+    medianLarge: String(p?.medianLarge ?? 0.008),
+    sdLogSmall: String(p?.sdLogSmall ?? 1),
+    sdLogLarge: String(p?.sdLogLarge ?? 1),
+    correlation: String(p?.correlation ?? 0.8),
+  };
+}
+
+const DEFAULTS: Values = { label: '', gamma: '10', lapse: '0.02', calibration: 'simulated', test: 'mcnemar', alpha: '0.05', alternative: 'greater', sizes: '20:200:20', replications: '500', seed: '1' };
+
+/** Starts a run: the frozen version, the simulated truth (prefilled as the design assumes), the test and the simulation size. */
+export function NewRunForm() {
+  const { study } = useStudyContext();
+  const router = useRouter();
+  const versions = useVersions(study.id);
+  const start = useStartPowerRun(study.id);
+  const [values, setValues] = useState<Values>(DEFAULTS);
+  const [errors, setErrors] = useState<Record<string, string>>({});
+  const list = versions.data ?? [];
+  const current = values.version ? values : list.length ? fromVersion(list[0], values) : values;
+  const set = (key: string) => (e: { target: { value: string } }) => setValues({ ...current, [key]: e.target.value });
+
+  const submit = async (event: FormEvent) => {
+    event.preventDefault();
+    const sizes = parseSampleSizes(current.sizes ?? '');
+    const needsS = ['hyperboloid', 'power-delay', 'exponential-power'].includes(current.model);
+    const spec = {
+      designVersionId: Number(current.version),
+      label: current.label,
+      truth: {
+        model: { id: current.model, ...(needsS ? { sensitivity: Number(current.sensitivity) } : {}), ...(current.model === 'quasi-hyperbolic' ? { presentBias: Number(current.presentBias) } : {}) },
+        prior: {
+          medianSmall: Number(current.medianSmall),
+          medianLarge: Number(current.medianLarge),
+          sdLogSmall: Number(current.sdLogSmall),
+          sdLogLarge: Number(current.sdLogLarge),
+          correlation: Number(current.correlation),
+        },
+        gamma: Number(current.gamma),
+        lapse: Number(current.lapse),
+      },
+      calibration: current.calibration,
+      test: { kind: current.test, alpha: Number(current.alpha), alternative: current.alternative },
+      sampleSizes: sizes ?? [],
+      replications: Number(current.replications),
+      seed: Number(current.seed),
+    };
+    const parsed = powerRunSpecSchema.safeParse(spec);
+    const found: Record<string, string> = {};
+    if (!sizes) found.sampleSizes = 'Write sizes as "20, 40, 60" or start:end:step, e.g. 20:200:20.';
+    if (!parsed.success) for (const issue of parsed.error.issues) found[issue.path.join('.')] ??= issue.message;
+    setErrors(found);
+    if (Object.keys(found).length) return;
+    try {
+      const run = await start.mutateAsync(parsed.data!);
+      router.push(`/studies/${study.id}/power/${run.id}`);
+    } catch (error) {
+      if (error instanceof ApiClientError) setErrors(Object.fromEntries(error.issues.map((i) => [i.path, i.message])));
+    }
+  };
+
+  if (versions.isPending) return <p className="text-sm text-ink-soft">Loading frozen designs…</p>;
+  if (!list.length) return <Notice tone="info">Freeze a design first: power runs simulate a frozen design version.</Notice>;
+  const err = (key: string) => errors[key] ?? Object.entries(errors).find(([k]) => k.startsWith(`${key}.`))?.[1];
+  return (
+    <form onSubmit={submit} className="space-y-5" noValidate aria-label="New power run">
+      <div className="grid gap-4 sm:grid-cols-2">
+        <SelectField label="Frozen design version" value={current.version} onChange={(e) => setValues(fromVersion(list.find((v) => String(v.id) === e.target.value), current))} error={err('designVersionId')}>
+          {list.map((v) => (
+            <option key={v.id} value={v.id}>
+              {v.content.spec.name}, version {v.number} ({v.hash.slice(0, 8)})
+            </option>
+          ))}
+        </SelectField>
+        <TextField label="Label (shown in legends)" value={current.label} onChange={set('label')} error={err('label')} placeholder="e.g. Truth as the design assumes" />
+      </div>
+      <fieldset className="space-y-3">
+        <legend className="text-sm font-semibold">Simulated truth</legend>
+        <div className="grid gap-4 sm:grid-cols-3">
+          <SelectField label="True discount model" value={current.model} onChange={set('model')} error={err('truth.model')}>
+            {MODEL_CHOICES.map((m) => (
+              <option key={m} value={m}>
+                {MODEL_LABELS[m]}
+              </option>
+            ))}
+          </SelectField>
+          {['hyperboloid', 'power-delay', 'exponential-power'].includes(current.model) ? (
+            <TextField label="True delay sensitivity s" inputMode="decimal" value={current.sensitivity} onChange={set('sensitivity')} error={err('truth.model.sensitivity')} />
+          ) : null}
+          {current.model === 'quasi-hyperbolic' ? <TextField label="True present bias β" inputMode="decimal" value={current.presentBias} onChange={set('presentBias')} error={err('truth.model.presentBias')} /> : null}
+        </div>
+        <div className="grid gap-4 sm:grid-cols-5">
+          <TextField label="Median k (small)" inputMode="decimal" value={current.medianSmall} onChange={set('medianSmall')} error={err('truth.prior.medianSmall')} />
+          <TextField label="Median K (large)" inputMode="decimal" value={current.medianLarge} onChange={set('medianLarge')} error={err('truth.prior.medianLarge')} />
+          <TextField label="SD of ln k" inputMode="decimal" value={current.sdLogSmall} onChange={set('sdLogSmall')} error={err('truth.prior.sdLogSmall')} />
+          <TextField label="SD of ln K" inputMode="decimal" value={current.sdLogLarge} onChange={set('sdLogLarge')} error={err('truth.prior.sdLogLarge')} />
+          <TextField label="Correlation" inputMode="decimal" value={current.correlation} onChange={set('correlation')} error={err('truth.prior.correlation')} />
+        </div>
+        <div className="grid gap-4 sm:grid-cols-3">
+          <TextField label="Choice sensitivity γ (per large amount)" inputMode="decimal" value={current.gamma} onChange={set('gamma')} error={err('truth.gamma')} />
+          <TextField label="Lapse rate ε" inputMode="decimal" value={current.lapse} onChange={set('lapse')} error={err('truth.lapse')} />
+          <SelectField label="Calibration block" value={current.calibration} onChange={set('calibration')}>
+            <option value="simulated">Simulated, rates re-estimated</option>
+            <option value="known">Not simulated: rates known</option>
+          </SelectField>
+        </div>
+      </fieldset>
+      <fieldset className="space-y-3">
+        <legend className="text-sm font-semibold">Test and simulation</legend>
+        <div className="grid gap-4 sm:grid-cols-3">
+          <SelectField label="Test" value={current.test} onChange={set('test')} error={err('test.kind')}>
+            {POWER_TESTS.map((t) => (
+              <option key={t} value={t}>
+                {POWER_TEST_LABELS[t]}
+              </option>
+            ))}
+          </SelectField>
+          <TextField label="α" inputMode="decimal" value={current.alpha} onChange={set('alpha')} error={err('test.alpha')} />
+          <SelectField label="Sidedness" value={current.alternative} onChange={set('alternative')}>
+            <option value="greater">One-sided: more LS than SL</option>
+            <option value="two-sided">Two-sided</option>
+          </SelectField>
+        </div>
+        <div className="grid gap-4 sm:grid-cols-3">
+          <TextField label="Sample sizes" value={current.sizes} onChange={set('sizes')} error={err('sampleSizes')} hint="e.g. 20, 40, 60 or 20:200:20" />
+          <TextField label="Replications" inputMode="numeric" value={current.replications} onChange={set('replications')} error={err('replications')} />
+          <TextField label="Seed" inputMode="numeric" value={current.seed} onChange={set('seed')} error={err('seed')} />
+        </div>
+      </fieldset>
+      {start.error && !(start.error instanceof ApiClientError && start.error.issues.length) ? <Notice tone="error">{start.error.message}</Notice> : null}
+      <Button type="submit" disabled={start.isPending}>
+        {start.isPending ? 'Starting…' : 'Start simulation'}
+      </Button>
+    </form>
+  );
+}

@@ -1,0 +1,113 @@
+'use client';
+
+import { useState } from 'react';
+import { buttonClass } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { Notice } from '@/components/ui/notice';
+import { Table, Td, Th } from '@/components/ui/table';
+import type { SampleSizeAnswer } from '@/lib/design/power/sampleSizeFor';
+import { powerExportUrl, type PowerRunDto } from '@/lib/client/power';
+import { PowerChart } from './power-chart';
+
+const pct = (v: number) => `${(v * 100).toFixed(1)} %`;
+
+function sampleSizeText(answer: SampleSizeAnswer): string {
+  if (answer.kind === 'interpolated') return `about ${answer.n} (interpolated between N = ${answer.between[0]} and ${answer.between[1]})`;
+  if (answer.kind === 'at-most') return `${answer.n} or fewer (reached at the smallest N simulated)`;
+  return `not reached up to N = ${answer.largest}`;
+}
+
+function patternText(shares: { LL: number; LS: number; SL: number; SS: number; pairs: number }): string {
+  if (shares.pairs === 0) return '—';
+  return `LL ${pct(shares.LL)} · LS ${pct(shares.LS)} · SL ${pct(shares.SL)} · SS ${pct(shares.SS)}`;
+}
+
+/** The results of a finished run: chart, sample sizes for 80 % and 90 %, table, method text, warnings, downloads. */
+export function RunResults({ run, studyId }: { run: PowerRunDto; studyId: number }) {
+  const [copied, setCopied] = useState(false);
+  const result = run.result;
+  if (!result) return null;
+  const { summary } = result;
+  const label = run.label || `${run.design.name} v${run.design.number}`;
+  return (
+    <div className="space-y-6">
+      {summary.warnings.length ? (
+        <Notice tone="warning" title="Read before using these numbers">
+          <ul className="list-disc space-y-1 pl-5" data-testid="power-warnings">
+            {summary.warnings.map((w) => (
+              <li key={w.kind}>{w.message}</li>
+            ))}
+          </ul>
+        </Notice>
+      ) : null}
+      <Card title="Power curve">
+        <PowerChart series={[{ label, points: summary.points }]} title={`Power: ${label}`} caption={`${run.spec.replications} replications, seed ${run.spec.seed}.`} />
+        <dl className="mt-4 grid gap-2 text-sm sm:grid-cols-2">
+          <div>
+            <dt className="font-semibold">Sample size for 80 % power</dt>
+            <dd data-testid="n-for-80">{sampleSizeText(summary.sampleSizeFor80)}</dd>
+          </div>
+          <div>
+            <dt className="font-semibold">Sample size for 90 % power</dt>
+            <dd data-testid="n-for-90">{sampleSizeText(summary.sampleSizeFor90)}</dd>
+          </div>
+        </dl>
+        <div className="mt-4 flex flex-wrap gap-2">
+          {(['svg', 'png', 'csv', 'json'] as const).map((format) => (
+            <a key={format} href={powerExportUrl(studyId, run.id, format)} download className={buttonClass('secondary', 'sm')}>
+              Download {format === 'png' ? 'PNG (300 dpi)' : format.toUpperCase()}
+            </a>
+          ))}
+        </div>
+      </Card>
+      <Table caption="Power by sample size">
+        <thead>
+          <tr>
+            <Th>N</Th>
+            <Th>Power</Th>
+            <Th>Wilson 95 %</Th>
+            <Th>Mean reversals</Th>
+            <Th>Probe patterns</Th>
+            <Th>Anchor patterns (late · soon)</Th>
+            <Th>Flagged</Th>
+          </tr>
+        </thead>
+        <tbody className="divide-y divide-ink/10">
+          {summary.points.map((p) => (
+            <tr key={p.n}>
+              <Td className="font-mono">{p.n}</Td>
+              <Td className="font-mono">{pct(p.power)}</Td>
+              <Td className="font-mono">
+                {pct(p.lower)} – {pct(p.upper)}
+              </Td>
+              <Td className="font-mono">{p.meanReversals.toFixed(2)}</Td>
+              <Td className="text-xs">{patternText(p.patterns.probe)}</Td>
+              <Td className="text-xs">
+                {patternText(p.patterns.lateAnchor)}
+                <br />
+                {patternText(p.patterns.soonAnchor)}
+              </Td>
+              <Td className="font-mono">{pct(p.flaggedShare)}</Td>
+            </tr>
+          ))}
+        </tbody>
+      </Table>
+      <Card
+        title="Method paragraph"
+        actions={
+          <button
+            type="button"
+            className={buttonClass('ghost', 'sm')}
+            onClick={() => navigator.clipboard?.writeText(result.methodText).then(() => setCopied(true), () => setCopied(false))}
+          >
+            {copied ? 'Copied' : 'Copy'}
+          </button>
+        }
+      >
+        <p data-testid="method-text" className="text-sm leading-relaxed">
+          {result.methodText}
+        </p>
+      </Card>
+    </div>
+  );
+}
