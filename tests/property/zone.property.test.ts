@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { maximiseBrent, optimiseLateDelay, predictPattern, preferenceGaps, reversalZone, type ModelSpec, type PairInput } from '@/lib/design';
+import { discountFactor, maximiseBrent, optimiseLateDelay, predictPattern, preferenceGaps, reversalZone, type ModelSpec, type PairInput } from '@/lib/design';
 
 const logUniform = (lo: number, hi: number) =>
   fc.double({ min: Math.log(lo), max: Math.log(hi), noNaN: true }).map(Math.exp);
@@ -30,15 +30,20 @@ const gapProduct = (input: PairInput, D: number) => {
 
 // Zones narrower than 1e-6 relative, or beyond 1e12 days, are excluded from the pattern
 // checks: a late delay placed 1e-7 of the width from an edge is then within rounding of it.
-const usable = (z: { lower: number; upper: number } | null) =>
-  z !== null && z.upper < 1e12 && (z.upper - z.lower) / z.upper > 1e-6;
+// Also excluded: far-view values x·f_k(d) below 1e-290, close to the subnormal range where a
+// double keeps only a few significant digits (e.g. exponential-power with k·d^s ≈ 700).
+const usable = (z: { lower: number; upper: number } | null, input?: PairInput) =>
+  z !== null &&
+  z.upper < 1e12 &&
+  (z.upper - z.lower) / z.upper > 1e-6 &&
+  (input === undefined || input.ratio * discountFactor(input.model, input.kSmall, input.soonDelay) > 1e-290);
 
 describe('reversal zone properties', () => {
   it('every late delay strictly inside the zone gives LS', () => {
     fc.assert(
       fc.property(pair(model), fc.double({ min: 1e-4, max: 1 - 1e-4, noNaN: true }), (input, u) => {
         const z = reversalZone(input);
-        fc.pre(usable(z));
+        fc.pre(usable(z, input));
         const D = z!.lower + u * (z!.upper - z!.lower);
         expect(predictPattern({ ...input, lateDelay: D })).toBe('LS');
       }),
@@ -55,7 +60,7 @@ describe('reversal zone properties', () => {
           expect(predictPattern({ ...input, lateDelay: d + v * 100 })).not.toBe('LS');
           return;
         }
-        fc.pre(usable(z));
+        fc.pre(usable(z, input));
         if (z.lower > d) expect(predictPattern({ ...input, lateDelay: d + u * (z.lower - d) * (1 - 1e-6) })).not.toBe('LS');
         expect(predictPattern({ ...input, lateDelay: z.upper * (1 + 1e-6 + v) })).not.toBe('LS');
       }),
@@ -120,6 +125,7 @@ describe('optimal late delay properties', () => {
         // a zone narrower than 1e-6 relative cannot place D to better than rounding of D itself
         fc.pre(o !== null && o.upper < 1e12 && o.gapProduct > 1e-200 && (o.upper - o.lower) / o.upper > 1e-6);
         const d = input.soonDelay;
+        const width = (o!.upper - o!.lower) / o!.upper;
         expect(o!.lateDelay).toBeGreaterThanOrEqual(o!.lower);
         expect(o!.lateDelay).toBeLessThan(o!.upper);
         const lo = o!.lower > d ? Math.log(o!.lower - d) : Math.log(o!.upper - d) - 30;
@@ -127,8 +133,9 @@ describe('optimal late delay properties', () => {
         for (let i = 1; i < 400; i++) {
           const D = d + Math.exp(lo + ((hi - lo) * i) / 400);
           if (!(D > o!.lower && D < o!.upper)) continue;
-          // 1e-12 relative: rounding in evaluating C at nearly equal points
-          expect(gapProduct(input, D)).toBeLessThanOrEqual(o!.gapProduct * (1 + 1e-12));
+          // the gaps are differences of O(x) factors across a zone of relative width w, so each
+          // carries relative rounding of about eps/w: allow 1e-12 + 1e-15/w
+          expect(gapProduct(input, D)).toBeLessThanOrEqual(o!.gapProduct * (1 + 1e-12 + 1e-15 / width));
         }
       }),
       { numRuns: 300 },
@@ -159,7 +166,8 @@ describe('optimal late delay properties', () => {
         const m = maximiseBrent((t) => gapProduct(input, d + Math.exp(t)), { lower: Math.log(o!.lower - d), upper: Math.log(o!.upper - d), tolerance: 1e-12 });
         // function values place a smooth maximum only to ~sqrt(2.2e-16) ≈ 1.5e-8 relative in ln(D − d); allow 1e-6 in D
         expect(Math.abs(d + Math.exp(m.argmax) - o!.lateDelay) / o!.lateDelay).toBeLessThan(1e-6);
-        expect(m.value).toBeLessThanOrEqual(o!.gapProduct * (1 + 1e-12));
+        // rounding of C near a narrow zone: eps/w relative, as in the dense-grid property
+        expect(m.value).toBeLessThanOrEqual(o!.gapProduct * (1 + 1e-12 + 1e-15 / ((o!.upper - o!.lower) / o!.upper)));
       }),
       { numRuns: 300 },
     );
