@@ -1,6 +1,7 @@
 import os from 'node:os';
 import path from 'node:path';
-import { Worker } from 'node:worker_threads';
+import * as threads from 'node:worker_threads';
+import type { Worker } from 'node:worker_threads';
 import { mergeTallies } from '@/lib/design/power/tally';
 import type { PowerScenario, PowerTally } from '@/lib/design/power/types';
 
@@ -29,8 +30,13 @@ export function defaultWorkerCount(): number {
  * it): a plain .mjs file that registers tsx in its thread and imports the TypeScript worker.
  */
 export function workerEntry(): string {
-  return path.join(process.cwd(), 'lib', 'server', 'power', 'worker-bootstrap.mjs');
+  // joined at run time so the bundler does not follow the worker into tsx and esbuild
+  const parts = [process.cwd(), 'lib', 'server', 'power', 'worker-bootstrap.mjs'];
+  return parts.join(path.sep);
 }
+
+/** The Worker constructor, taken at run time for the same reason. */
+const WorkerThread: typeof Worker = Reflect.get(threads, 'Worker');
 
 /**
  * Runs a scenario's replicates in chunks on worker threads (node:worker_threads, each loading
@@ -45,7 +51,7 @@ export async function runScenario(scenario: PowerScenario, options: RunScenarioO
   for (let from = 0; from < total; from += chunkSize) chunks.push([from, Math.min(total, from + chunkSize)]);
   const count = Math.max(1, Math.min(options.workers ?? defaultWorkerCount(), chunks.length));
   const key = `${Date.now()}-${Math.random()}`;
-  const workers = Array.from({ length: count }, () => new Worker(workerEntry()));
+  const workers = Array.from({ length: count }, () => new WorkerThread(workerEntry()));
   const tallies: PowerTally[] = [];
   let longestCalibrationDelay: number | null = null;
   let completed = 0;
