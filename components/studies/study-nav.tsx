@@ -12,6 +12,9 @@ export const studySections: Array<{ segment: string; label: string; minRole: Rol
   { segment: 'designs', label: 'Designs', minRole: 'viewer' },
   { segment: 'compare', label: 'Compare', minRole: 'viewer' },
   { segment: 'power', label: 'Power', minRole: 'viewer' },
+  { segment: 'item-bank', label: 'Item bank', minRole: 'operator' },
+  { segment: 'api', label: 'API', minRole: 'viewer' },
+  { segment: 'participants', label: 'Participants', minRole: 'viewer' },
   { segment: 'team', label: 'Team', minRole: 'viewer' },
   { segment: 'audit', label: 'Audit trail', minRole: 'editor' },
 ];

@@ -1,0 +1,56 @@
+'use client';
+
+import { Button } from '@/components/ui/button';
+import { Table, Td, Th } from '@/components/ui/table';
+import { useRevokeApiKey, type ApiKeyDto } from '@/lib/client/item-bank';
+import { formatDateTime } from '@/lib/format';
+
+/** The study's keys with prefix, creator and last use; active keys can be revoked. */
+export function ApiKeysTable({ studyId, keys }: { studyId: number; keys: ApiKeyDto[] }) {
+  const revoke = useRevokeApiKey(studyId);
+  if (keys.length === 0) return <p className="text-sm text-ink-soft">No keys yet.</p>;
+  return (
+    <Table caption="API keys">
+      <thead className="bg-paper-sunk">
+        <tr>
+          <Th>Name</Th>
+          <Th>Prefix</Th>
+          <Th>Version</Th>
+          <Th>Created by</Th>
+          <Th>Last used</Th>
+          <Th>Status</Th>
+        </tr>
+      </thead>
+      <tbody className="divide-y divide-ink/10">
+        {keys.map((k) => (
+          <tr key={k.id} data-testid="api-key-row">
+            <Td>{k.name}</Td>
+            <Td className="font-mono text-xs">{k.prefix}…</Td>
+            <Td>#{k.designVersionId}</Td>
+            <Td>
+              {k.createdBy ?? '—'}
+              <span className="block text-xs text-ink-soft">{formatDateTime(k.createdAt)}</span>
+            </Td>
+            <Td>{k.lastUsedAt ? formatDateTime(k.lastUsedAt) : 'never'}</Td>
+            <Td>
+              {k.revokedAt ? (
+                <span className="text-ink-soft">revoked {formatDateTime(k.revokedAt)}</span>
+              ) : (
+                <Button
+                  variant="danger"
+                  size="sm"
+                  disabled={revoke.isPending}
+                  onClick={() => {
+                    if (window.confirm(`Revoke "${k.name}"? Software using it stops getting items at once.`)) revoke.mutate(k.id);
+                  }}
+                >
+                  Revoke
+                </Button>
+              )}
+            </Td>
+          </tr>
+        ))}
+      </tbody>
+    </Table>
+  );
+}

@@ -1,0 +1,99 @@
+'use client';
+
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { BankItem, RoundingReport } from '@/lib/design';
+import type { ApiKeyCreateInput } from '@/lib/validations/api-keys';
+import type { ExportOptions } from '@/lib/validations/item-bank';
+import { apiFetch } from './api';
+
+export type FrozenVersionDto = { id: number; number: number; hash: string; designName: string; mode: 'personalised' | 'population'; currency: string; frozenAt: string };
+export type ItemBankPreviewDto = {
+  header: { study: { id: number; name: string }; designVersion: { id: number; number: number; hash: string; name: string }; mode: string; seed: number; currency: string; delayUnit: string; amountUnit: number; minGap: number; probeGap: number };
+  designPoint: { kSmall: number; kLarge: number; soonDelay: number; lateDelay: number };
+  probeRule: string | null;
+  items: BankItem[];
+  rounding: RoundingReport;
+  extrapolation: { message: string } | null;
+  notes: string[];
+};
+export type ApiKeyDto = { id: number; name: string; prefix: string; designVersionId: number; createdBy: string | null; createdAt: string; lastUsedAt: string | null; revokedAt: string | null };
+type RateDto = { rate: number; standardErrorLog: number | null; interval: { lower: number; upper: number } | null; flags: string[] };
+export type ParticipantDto = {
+  id: number;
+  participantId: string;
+  designVersionId: number;
+  source: 'api' | 'batch';
+  flag: string | null;
+  itemSet: string;
+  kSmall: RateDto;
+  kLarge: RateDto;
+  extrapolation: string | null;
+  attentionCheck: string;
+  items: BankItem[];
+  servedAt: string;
+};
+export type BatchResultDto =
+  | { participantId: string; line: number; status: 'served'; reply: { flag: string | null; itemSet: string; items: BankItem[] } }
+  | { participantId: string; line: number; status: 'refused'; httpStatus: number; message: string; issues: Array<{ path: string; message: string }> };
+
+export const itemBankKeys = {
+  versions: (studyId: number) => ['study', studyId, 'item-bank', 'versions'] as const,
+  preview: (studyId: number, versionId: number, options: Partial<ExportOptions>) => ['study', studyId, 'item-bank', versionId, options] as const,
+  apiKeys: (studyId: number) => ['study', studyId, 'api-keys'] as const,
+  participants: (studyId: number) => ['study', studyId, 'participants'] as const,
+};
+
+/** Query string of export options (only the ones set). */
+export function exportQuery(options: Partial<ExportOptions>): string {
+  const params = new URLSearchParams();
+  for (const [k, v] of Object.entries(options)) if (v !== undefined) params.set(k, String(v));
+  return params.toString();
+}
+
+export function useFrozenVersions(studyId: number) {
+  return useQuery({ queryKey: itemBankKeys.versions(studyId), queryFn: () => apiFetch<{ versions: FrozenVersionDto[] }>(`/api/studies/${studyId}/item-bank`).then((r) => r.versions) });
+}
+
+export function useItemBankPreview(studyId: number, versionId: number | null, options: Partial<ExportOptions>) {
+  return useQuery({
+    queryKey: itemBankKeys.preview(studyId, versionId ?? 0, options),
+    queryFn: () => apiFetch<ItemBankPreviewDto>(`/api/studies/${studyId}/item-bank/${versionId}?${exportQuery(options)}`),
+    enabled: versionId !== null,
+  });
+}
+
+export function useApiKeys(studyId: number) {
+  return useQuery({ queryKey: itemBankKeys.apiKeys(studyId), queryFn: () => apiFetch<{ keys: ApiKeyDto[] }>(`/api/studies/${studyId}/api-keys`).then((r) => r.keys) });
+}
+
+export function useCreateApiKey(studyId: number) {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (input: ApiKeyCreateInput) => apiFetch<{ key: ApiKeyDto; secret: string }>(`/api/studies/${studyId}/api-keys`, { method: 'POST', json: input }),
+    onSuccess: () => client.invalidateQueries({ queryKey: itemBankKeys.apiKeys(studyId) }),
+  });
+}
+
+export function useRevokeApiKey(studyId: number) {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (keyId: number) => apiFetch<{ key: ApiKeyDto }>(`/api/studies/${studyId}/api-keys/${keyId}`, { method: 'DELETE' }),
+    onSuccess: () => client.invalidateQueries({ queryKey: itemBankKeys.apiKeys(studyId) }),
+  });
+}
+
+export function useParticipants(studyId: number) {
+  return useQuery({
+    queryKey: itemBankKeys.participants(studyId),
+    queryFn: () => apiFetch<{ participants: ParticipantDto[] }>(`/api/studies/${studyId}/participants`).then((r) => r.participants),
+    refetchInterval: 15_000,
+  });
+}
+
+export function useServeBatch(studyId: number) {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (input: { designVersionId: number; csv: string }) => apiFetch<{ results: BatchResultDto[] }>(`/api/studies/${studyId}/participants/batch`, { method: 'POST', json: input }).then((r) => r.results),
+    onSuccess: () => client.invalidateQueries({ queryKey: itemBankKeys.participants(studyId) }),
+  });
+}
