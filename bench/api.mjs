@@ -1,0 +1,129 @@
+// `npm run bench:api`: load test of the probe-items API (POST /api/v1/studies/{id}/probe-items).
+//
+// Needs: a running production server at BASE_URL (default http://127.0.0.1:3000, e.g. `npm start`)
+// and its database (DB_* from the environment, else from .env.local as `npm start` writes it).
+// Starts nothing itself. Through the database it creates a scratch study ("Bench · probe API …"),
+// one frozen personalised design version, and 50 API keys (one per connection, so the per-key
+// rate limit, 100 requests a second by default, is not what is measured), then runs autocannon
+// with 50 connections for DURATION seconds (default 10), every request a distinct participant
+// with its own calibration answers. Prints requests per second and p99 latency against the
+// targets (≥ 1,000 req/s, p99 ≤ 50 ms). The scratch study is deleted afterwards (KEEP=1 keeps it).
+import autocannon from 'autocannon';
+import { createHash, randomBytes } from 'node:crypto';
+import { existsSync, readFileSync } from 'node:fs';
+import path from 'node:path';
+import * as mariadb from 'mariadb';
+import { tsImport } from 'tsx/esm/api';
+
+const BASE_URL = process.env.BASE_URL ?? 'http://127.0.0.1:3000';
+const CONNECTIONS = 50;
+const DURATION = Number(process.env.DURATION ?? 10);
+const TARGET_RPS = 1000;
+const TARGET_P99_MS = 50;
+const ITEMS_PER_MAGNITUDE = 12;
+
+function loadEnv() {
+  const file = path.join(process.cwd(), '.env.local');
+  if (!existsSync(file)) return;
+  for (const line of readFileSync(file, 'utf8').split('\n')) {
+    const m = /^\s*([A-Z0-9_]+)\s*=\s*(.*)\s*$/.exec(line);
+    if (m && process.env[m[1]] === undefined) process.env[m[1]] = m[2];
+  }
+}
+
+const content = {
+  spec: {
+    name: 'Bench personalised design',
+    priorSetId: 1,
+    model: { id: 'hyperbolic' },
+    ratio: 0.6,
+    largeAmount: 100,
+    currency: 'EUR',
+    mode: 'personalised',
+    soonDelay: { mode: 'fixed', days: 14 },
+    lateDelayLimit: 730,
+    probePairs: 2,
+    lateAnchors: 1,
+    soonAnchors: 1,
+    criterion: 'gap-product',
+    calibration: { itemsPerMagnitude: ITEMS_PER_MAGNITUDE, minDelay: 1, maxDelay: 180 },
+  },
+  prior: { name: 'Bench prior', medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.5 },
+};
+
+/** Calibration answers of a consistent chooser: items are ordered by tie rate, so "sooner" up to a switch point, "later" after. */
+function answers(n) {
+  const switchSmall = 2 + (n % (ITEMS_PER_MAGNITUDE - 3));
+  const switchLarge = 2 + ((n * 7) % (ITEMS_PER_MAGNITUDE - 3));
+  const responses = {};
+  for (let i = 1; i <= ITEMS_PER_MAGNITUDE; i++) {
+    const id = String(i).padStart(2, '0');
+    responses[`cal-small-${id}`] = i <= switchSmall ? 'sooner' : 'later';
+    responses[`cal-large-${id}`] = i <= switchLarge ? 'sooner' : 'later';
+  }
+  return responses;
+}
+
+async function setUp(conn) {
+  const { contentHash } = await tsImport('../lib/canonical-json.ts', import.meta.url);
+  const now = new Date();
+  const label = `Bench · probe API ${now.toISOString()}`;
+  const study = await conn.query('INSERT INTO studies (name, description, version, created_at, updated_at) VALUES (?, ?, 1, ?, ?)', [label, 'Scratch study of bench/api.mjs', now, now]);
+  const studyId = Number(study.insertId);
+  const design = await conn.query('INSERT INTO designs (study_id, name, spec, version, created_at, updated_at) VALUES (?, ?, ?, 1, ?, ?)', [studyId, content.spec.name, JSON.stringify(content.spec), now, now]);
+  const version = await conn.query('INSERT INTO design_versions (design_id, study_id, number, hash, content, created_at) VALUES (?, ?, 1, ?, ?, ?)', [Number(design.insertId), studyId, contentHash(content), JSON.stringify(content), now]);
+  const secrets = [];
+  for (let i = 0; i < CONNECTIONS; i++) {
+    const prefix = `sbk_${randomBytes(6).toString('base64url')}`;
+    const secret = `${prefix}_${randomBytes(24).toString('base64url')}`;
+    await conn.query('INSERT INTO api_keys (study_id, design_version_id, name, prefix, secret_hash, created_at) VALUES (?, ?, ?, ?, ?, ?)', [studyId, Number(version.insertId), `bench ${i}`, prefix, createHash('sha256').update(secret).digest('hex'), now]);
+    secrets.push(secret);
+  }
+  return { studyId, secrets };
+}
+
+async function main() {
+  loadEnv();
+  const conn = await mariadb.createConnection({ host: process.env.DB_HOST ?? '127.0.0.1', port: Number(process.env.DB_PORT ?? 3307), user: process.env.DB_USER, password: process.env.DB_PASSWORD, database: process.env.DB_NAME });
+  const { studyId, secrets } = await setUp(conn);
+  const url = `${BASE_URL}/api/v1/studies/${studyId}/probe-items`;
+  try {
+    const warm = await fetch(url, { method: 'POST', headers: { authorization: `Bearer ${secrets[0]}`, 'content-type': 'application/json' }, body: JSON.stringify({ participantId: 'warm-up', responses: answers(0) }) });
+    if (warm.status !== 200) throw new Error(`warm-up request answered ${warm.status}: ${await warm.text()}`);
+    let counter = 0;
+    const result = await autocannon({
+      url,
+      connections: CONNECTIONS,
+      duration: DURATION,
+      requests: [
+        {
+          method: 'POST',
+          setupRequest: (request) => {
+            const n = ++counter;
+            return {
+              ...request,
+              headers: { authorization: `Bearer ${secrets[n % CONNECTIONS]}`, 'content-type': 'application/json' },
+              body: JSON.stringify({ participantId: `bench-${n}`, responses: answers(n) }),
+            };
+          },
+        },
+      ],
+    });
+    const rps = result.requests.average;
+    const p99 = result.latency.p99;
+    const bad = result.non2xx + result.errors + result.timeouts;
+    console.log(`probe-items API, ${CONNECTIONS} connections, ${DURATION} s, distinct participants`);
+    console.log(`  requests per second: ${rps.toFixed(0)} (target ≥ ${TARGET_RPS}) ${rps >= TARGET_RPS ? 'met' : 'MISSED'}`);
+    console.log(`  p99 latency: ${p99} ms (target ≤ ${TARGET_P99_MS} ms) ${p99 <= TARGET_P99_MS ? 'met' : 'MISSED'}`);
+    console.log(`  p50 latency: ${result.latency.p50} ms; non-2xx, errors, timeouts: ${bad}`);
+    if (bad > 0) process.exitCode = 1;
+  } finally {
+    if (!process.env.KEEP) await conn.query('DELETE FROM studies WHERE id = ?', [studyId]);
+    await conn.end();
+  }
+}
+
+main().catch((error) => {
+  console.error(error);
+  process.exit(1);
+});
