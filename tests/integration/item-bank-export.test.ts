@@ -1,0 +1,54 @@
+// Item-bank export on the real MariaDB: file name and header cite study, hash and seed; each
+// download is audited; viewers are refused; bad options are named.
+import { beforeAll, describe, expect, it } from 'vitest';
+import { AuditEvent } from '@/db/models';
+import { GET as exportBank } from '@/app/api/studies/[id]/item-bank/[versionId]/export/route';
+import { GET as preview } from '@/app/api/studies/[id]/item-bank/[versionId]/route';
+import { GET as versions } from '@/app/api/studies/[id]/item-bank/route';
+import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
+import { makeFrozenVersion } from './item-bank-support';
+
+describe('item-bank export', () => {
+  beforeAll(migrateUp);
+
+  it('downloads CSV and JSON with study, hash and seed in name and header, and audits each download', async () => {
+    const { study, team } = await makeStudyWithTeam('Export study');
+    const version = await makeFrozenVersion(study.id);
+    const params = ctx({ id: String(study.id), versionId: String(version.id) });
+    const listed = await versions(await requestAs(team.operator, 'GET', `/api/studies/${study.id}/item-bank`), ctx({ id: String(study.id) }));
+    expect(((await listed.json()) as { versions: Array<{ hash: string }> }).versions.map((v) => v.hash)).toEqual([version.hash]);
+
+    const csv = await exportBank(await requestAs(team.operator, 'GET', `/api/studies/${study.id}/item-bank/${version.id}/export?format=csv&seed=42&delayUnit=weeks`), params);
+    expect(csv.status).toBe(200);
+    expect(csv.headers.get('content-disposition')).toContain(`switchback-items-${study.id}-export-study-${version.hash.slice(0, 12)}-seed42.csv`);
+    const text = await csv.text();
+    expect(text).toContain(`hash ${version.hash} · seed 42`);
+    expect(text.split('\n').find((l) => !l.startsWith('#'))).toBe('"id","block","role","set","view","pairId","magnitude","soonerAmount","soonerDelay","laterAmount","laterDelay","soonerSide","position","text"');
+
+    const json = await exportBank(await requestAs(team.owner, 'GET', `/api/studies/${study.id}/item-bank/${version.id}/export?format=json`), params);
+    const body = (await json.json()) as { header: { seed: number; designVersion: { hash: string } }; items: unknown[] };
+    expect(body.header.designVersion.hash).toBe(version.hash);
+    expect(body.header.seed).toBe(parseInt(version.hash.slice(0, 8), 16));
+
+    const events = await AuditEvent.findAll({ where: { studyId: study.id, action: 'item-bank.export' }, order: [['id', 'ASC']] });
+    expect(events.map((e) => [e.actorId, e.details.format, e.details.seed])).toEqual([
+      [team.operator.id, 'csv', 42],
+      [team.owner.id, 'json', body.header.seed],
+    ]);
+  });
+
+  it('refuses viewers, names bad options, and does not find another study\'s version', async () => {
+    const { study, team } = await makeStudyWithTeam('Export refusals');
+    const other = await makeStudyWithTeam('Export other');
+    const version = await makeFrozenVersion(study.id);
+    const foreign = await makeFrozenVersion(other.study.id);
+    const at = (v: number) => ctx({ id: String(study.id), versionId: String(v) });
+    expect((await exportBank(await requestAs(team.viewer, 'GET', `/api/studies/${study.id}/item-bank/${version.id}/export`), at(version.id))).status).toBe(403);
+    const bad = await preview(await requestAs(team.operator, 'GET', `/api/studies/${study.id}/item-bank/${version.id}?delayUnit=fortnights&minGap=0`), at(version.id));
+    expect(bad.status).toBe(422);
+    const paths = ((await bad.json()) as { issues: Array<{ path: string }> }).issues.map((i) => i.path);
+    expect(paths).toEqual(expect.arrayContaining(['delayUnit', 'minGap']));
+    expect((await preview(await requestAs(team.operator, 'GET', `/api/studies/${study.id}/item-bank/${foreign.id}`), at(foreign.id))).status).toBe(404);
+    expect(await AuditEvent.count({ where: { studyId: study.id, action: 'item-bank.export' } })).toBe(0);
+  });
+});
