@@ -93,8 +93,10 @@ function powerWarnings(scenario: PowerScenario, points: PowerPoint[], tally: Pow
     warnings.push({
       kind: 'misplaced-probes',
       message:
-        `Only ${percent(last.probesInTrueZone)} of probe pairs fell inside the participants' true reversal zone: the probes are built for ` +
-        `rates or a model that do not match the simulated truth, and power suffers for it.`,
+        `Only ${percent(last.probesInTrueZone)} of probe pairs fell inside the participants' true reversal zone: ` +
+        (sameModel(design.spec.model, truth.model)
+          ? 'the rates estimated from the calibration block often place the probes outside it.'
+          : 'the probes are built for a model that does not match the simulated truth, and power suffers for it.'),
     });
   }
   if (longestCalibrationDelay !== null && tally.longestProbeDelay > 0) {

@@ -51,12 +51,15 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
     { where: { id: runId, status: 'queued' } },
   );
   if (claimed === 0) return; // cancelled before it started, or taken by another process
+  // MariaDB counts only changed rows as affected (a heartbeat within the same second changes
+  // nothing), so a cancel from elsewhere is read from the status, not from an update's count
   const beat = setInterval(() => {
     PowerRun.update({ heartbeatAt: new Date() }, { where: { id: runId, status: 'running' } })
-      .then(([affected]) => {
-        if (affected === 0) state.cancel = true; // cancelled elsewhere
+      .then(() => PowerRun.findByPk(runId, { attributes: ['status'] }))
+      .then((row) => {
+        if (!row || row.status !== 'running') state.cancel = true;
       })
-      .catch(() => undefined); // a database outage must not kill the run; the next beat retries
+      .catch((error) => console.warn(`[switchback] power run ${runId}: heartbeat not written (${error instanceof Error ? error.message : error})`)); // the next beat retries
   }, HEARTBEAT_MS);
   try {
     const spec = json<PowerRunSpec>(run.spec);
@@ -69,8 +72,9 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
         const t = Date.now();
         if (t - lastWrite < 250 && completed < scenario.replications) return;
         lastWrite = t;
-        const [affected] = await PowerRun.update({ completed, heartbeatAt: new Date() }, { where: { id: runId, status: 'running' } }).catch(() => [1]);
-        if (affected === 0) state.cancel = true;
+        await PowerRun.update({ completed, heartbeatAt: new Date() }, { where: { id: runId, status: 'running' } }).catch((error) =>
+          console.warn(`[switchback] power run ${runId}: progress not written (${error instanceof Error ? error.message : error})`),
+        );
       },
     });
     if (!outcome) return; // cancelled: the cancel already wrote the status
