@@ -1,6 +1,6 @@
 import { optimiseLateDelay } from '@/lib/design/optimiseLateDelay';
 import { locateFor } from './item-bank-plan';
-import { POWER_ENGINE_VERSION } from '@/lib/design/power';
+import { methodText, POWER_ENGINE_VERSION, summarisePower, type PowerSummary, type PowerTally } from '@/lib/design/power';
 import type { PowerScenario } from '@/lib/design/power/types';
 import type { FrozenDesign } from '@/lib/validations/design';
 import type { PowerRunSpec } from '@/lib/validations/power';
@@ -43,4 +43,19 @@ export function buildScenario(spec: PowerRunSpec, content: FrozenDesign): PowerS
     replications: spec.replications,
     seed: spec.seed,
   };
+}
+
+/** What a finished run stores as its result: the summary, the method paragraph, the software and the soon delay used. */
+export function runResult(
+  scenario: PowerScenario,
+  outcome: { tally: PowerTally; longestCalibrationDelay: number | null },
+  version: { number: number; hash: string; content: FrozenDesign },
+): { summary: PowerSummary; methodText: string; software: string; soonDelay: number } {
+  const summary = summarisePower(scenario, outcome.tally, outcome.longestCalibrationDelay);
+  const text = methodText(scenario, summary, {
+    software: POWER_SOFTWARE,
+    designLabel: `${version.content.spec.name}, frozen version ${version.number}`,
+    designHash: version.hash,
+  });
+  return { summary, methodText: text, software: POWER_SOFTWARE, soonDelay: scenario.design.soonDelay };
 }

@@ -1,10 +1,9 @@
 import { Op } from 'sequelize';
 import { db } from '@/db';
 import { DesignVersion, PowerRun } from '@/db/models';
-import { methodText, summarisePower } from '@/lib/design/power';
 import type { FrozenDesign } from '@/lib/validations/design';
 import type { PowerRunSpec } from '@/lib/validations/power';
-import { buildScenario, POWER_SOFTWARE } from '@/lib/services/power-scenario';
+import { buildScenario, runResult } from '@/lib/services/power-scenario';
 import { runScenario } from './run-scenario';
 
 /** Runs executing in this process, with their cancel flags (on globalThis to survive dev reloads). */
@@ -78,14 +77,7 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
       },
     });
     if (!outcome) return; // cancelled: the cancel already wrote the status
-    const summary = summarisePower(scenario, outcome.tally, outcome.longestCalibrationDelay);
-    const content = json<FrozenDesign>(version.content);
-    const text = methodText(scenario, summary, {
-      software: POWER_SOFTWARE,
-      designLabel: `${content.spec.name}, frozen version ${version.number}`,
-      designHash: version.hash,
-    });
-    const result: object = { summary, methodText: text, software: POWER_SOFTWARE, soonDelay: scenario.design.soonDelay };
+    const result: object = runResult(scenario, outcome, { number: version.number, hash: version.hash, content: json<FrozenDesign>(version.content) });
     await PowerRun.update(
       {
         status: 'finished',

@@ -1,0 +1,67 @@
+import type { Sequelize } from 'sequelize';
+import { createPowerSimulator, POWER_ENGINE_VERSION } from '../../lib/design/power';
+import { buildScenario, runResult } from '../../lib/services/power-scenario';
+import { powerRunSpecSchema } from '../../lib/validations/power';
+import type { FrozenDesign } from '../../lib/validations/design';
+import { DesignVersion, Membership, PowerRun, Study, User } from '../models';
+import { demoAccounts } from './demo-accounts.mjs';
+import { DEMO_STUDY_NAME } from './01-demo-team';
+
+export const DEMO_POWER_LABEL = 'Truth as the design assumes (demo)';
+
+function json<T>(value: T | string): T {
+  return typeof value === 'string' ? (JSON.parse(value) as T) : value;
+}
+
+/**
+ * A small finished power run of the demo study's first frozen version, simulated here in
+ * process (no worker threads needed for 200 replicates). Seeds only when a frozen version
+ * exists; safe to run again: a run with the demo label for that version is left alone.
+ */
+export async function seed(sequelize: Sequelize): Promise<void> {
+  const editor = await User.findOne({ where: { email: demoAccounts.find((a) => a.role === 'editor')!.email } });
+  if (!editor) return;
+  const membership = await Membership.findOne({ where: { userId: editor.id }, include: [{ model: Study, as: 'study', where: { name: DEMO_STUDY_NAME } }] });
+  if (!membership) return;
+  const version = await DesignVersion.findOne({ where: { studyId: membership.studyId }, order: [['id', 'ASC']] });
+  if (!version) return;
+  if (await PowerRun.findOne({ where: { studyId: version.studyId, designVersionId: version.id, label: DEMO_POWER_LABEL } })) return;
+  const content = json<FrozenDesign>(version.content);
+  const { name: _name, ...prior } = content.prior;
+  const spec = powerRunSpecSchema.parse({
+    designVersionId: version.id,
+    label: DEMO_POWER_LABEL,
+    truth: { model: content.spec.model, prior, gamma: 10, lapse: 0.02 },
+    calibration: 'simulated',
+    test: { kind: 'mcnemar', alpha: 0.05, alternative: 'greater' },
+    sampleSizes: [10, 20, 30, 40, 60, 80],
+    replications: 200,
+    seed: 2026,
+  });
+  const scenario = buildScenario(spec, content);
+  const simulator = createPowerSimulator(scenario);
+  const tally = simulator.run(0, spec.replications);
+  const result: object = runResult(scenario, { tally, longestCalibrationDelay: simulator.longestCalibrationDelay }, { number: version.number, hash: version.hash, content });
+  const now = new Date();
+  await sequelize.transaction(async (transaction) => {
+    await PowerRun.create(
+      {
+        studyId: version.studyId,
+        designVersionId: version.id,
+        label: DEMO_POWER_LABEL,
+        spec,
+        status: 'finished',
+        completed: spec.replications,
+        total: spec.replications,
+        tally,
+        result,
+        engineVersion: POWER_ENGINE_VERSION,
+        startedAt: now,
+        heartbeatAt: now,
+        finishedAt: now,
+        createdBy: editor.id,
+      },
+      { transaction },
+    );
+  });
+}
