@@ -1,6 +1,8 @@
 // Runs every benchmark in turn: `npx tsx bench/index.ts` (or `npm run bench`).
 import { runCoreBench } from './core';
 import { runPowerBench } from './power';
+import { runPlannerBench } from './planner';
 
 await runCoreBench();
+await runPlannerBench();
 await runPowerBench();
