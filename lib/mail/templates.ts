@@ -53,7 +53,7 @@ export function passwordResetMessage(input: { to: string; link: string; expiresA
 export function designFrozenMessage(input: { to: string; studyName: string; actorName: string; versionHash: string; link: string }): MailMessage {
   return compose(input.to, `A design was frozen in \u201c${input.studyName}\u201d`, [
     `${input.actorName} froze a design in \u201c${input.studyName}\u201d. Its content hash is ${input.versionHash.slice(0, 12)}\u2026; exports and power runs cite this version.`,
-    { link: input.link, label: 'Open the study' },
+    { link: input.link, label: 'Open the designs' },
     'You get this notice because you turned it on in your account settings; you can turn it off there.',
   ]);
 }
@@ -62,7 +62,7 @@ export function designFrozenMessage(input: { to: string; studyName: string; acto
 export function powerRunFinishedMessage(input: { to: string; studyName: string; runId: number; link: string }): MailMessage {
   return compose(input.to, `Power run #${input.runId} finished in \u201c${input.studyName}\u201d`, [
     `Power simulation run #${input.runId} of \u201c${input.studyName}\u201d has finished. Its results are estimates from simulated hypothetical choices.`,
-    { link: input.link, label: 'Open the study' },
+    { link: input.link, label: 'Open the run' },
     'You get this notice because you turned it on in your account settings; you can turn it off there.',
   ]);
 }

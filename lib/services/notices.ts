@@ -54,7 +54,7 @@ export function notifyDesignFrozen(studyId: number, versionHash: string, actorId
     const study = await Study.findByPk(studyId);
     if (!study) return [];
     const actor = actorId ? await User.findByPk(actorId, { attributes: ['name'] }) : null;
-    const link = appLink(`/studies/${studyId}`);
+    const link = appLink(`/studies/${studyId}/designs`);
     return (await subscribers(studyId, 'design_frozen', actorId)).map((s) =>
       queueMail(designFrozenMessage({ to: s.email, studyName: study.name, actorName: actor?.name ?? 'A team member', versionHash, link }), 'a design-frozen notice'),
     );
@@ -69,7 +69,7 @@ export function notifyPowerRunFinished(studyId: number, runId: number): Promise<
   return sendAll('power-run', async () => {
     const study = await Study.findByPk(studyId);
     if (!study) return [];
-    const link = appLink(`/studies/${studyId}`);
+    const link = appLink(`/studies/${studyId}/power/${runId}`);
     return (await subscribers(studyId, 'power_run_finished', null)).map((s) =>
       queueMail(powerRunFinishedMessage({ to: s.email, studyName: study.name, runId, link }), 'a power-run notice'),
     );

@@ -2,6 +2,12 @@
 // their own freeze, and the messages really go through the fake SMTP server.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { GET as getNotices, PUT as putNotices } from '@/app/api/account/notices/route';
+import { POST as createPrior } from '@/app/api/studies/[id]/priors/route';
+import { POST as createDesign } from '@/app/api/studies/[id]/designs/route';
+import { POST as freeze } from '@/app/api/studies/[id]/designs/[designId]/freeze/route';
+import { POST as startRun } from '@/app/api/studies/[id]/power-runs/route';
+import { PowerRun } from '@/db/models';
+import { defaultSpec } from '@/lib/planner/design-form-values';
 import { notifyDesignFrozen, notifyPowerRunFinished } from '@/lib/services/notices';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs, type TestUser } from '../support/integration';
 import { startTestMailbox, type TestMailbox } from '../support/mail';
@@ -49,4 +55,44 @@ describe('sending notices', () => {
   it('never throws into the caller, even for a missing study', async () => {
     await expect(notifyPowerRunFinished(999_999_999, 1)).resolves.toBe(0);
   });
+});
+
+describe('notices from the real changes', () => {
+  it('a freeze through the API and a finished power run each reach a subscriber once', async () => {
+    const { study, team } = await makeStudyWithTeam('Wired notices');
+    const id = String(study.id);
+    await choose(team.viewer, { designFrozen: true, powerRunFinished: true });
+    const call = async (handler: (r: never, c: never) => Promise<Response>, path: string, params: Record<string, string>, json?: unknown) => {
+      const response = await handler((await requestAs(team.editor, 'POST', `/api/studies/${id}${path}`, json === undefined ? {} : { json })) as never, ctx({ id, ...params }) as never);
+      return { status: response.status, body: await response.json() };
+    };
+    const prior = await call(createPrior, '/priors', {}, { name: 'Wired prior', medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.6 });
+    const design = await call(createDesign, '/designs', {}, defaultSpec('Wired design', prior.body.prior.id));
+    const designId = String(design.body.design.id);
+    const frozen = await call(freeze, `/designs/${designId}/freeze`, { designId });
+    expect(frozen.status).toBe(201);
+    const frozenMail = await mailbox.waitFor((m) => m.subject.includes('Wired notices') && m.subject.startsWith('A design was frozen'));
+    expect(frozenMail.to).toBe(team.viewer.email);
+    expect(frozenMail.text).toContain(frozen.body.version.hash.slice(0, 12));
+    // freezing again without a change creates nothing, so it sends nothing
+    expect((await call(freeze, `/designs/${designId}/freeze`, { designId })).status).toBe(200);
+
+    const run = await call(startRun, '/power-runs', {}, {
+      designVersionId: frozen.body.version.id,
+      label: 'Wired run',
+      truth: { model: { id: 'hyperbolic' }, prior: { medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.6 }, gamma: 10, lapse: 0.02 },
+      calibration: 'simulated',
+      test: { kind: 'mcnemar', alpha: 0.05, alternative: 'greater' },
+      sampleSizes: [5, 10],
+      replications: 20,
+      seed: 3,
+    });
+    expect(run.status).toBe(202);
+    const runId = run.body.run.id as number;
+    const finishedMail = await mailbox.waitFor((m) => m.subject === `Power run #${runId} finished in \u201cWired notices\u201d`, 90_000);
+    expect(finishedMail.to).toBe(team.viewer.email);
+    expect((await PowerRun.findByPk(runId))?.status).toBe('finished');
+    const mine = (await mailbox.all()).filter((m) => m.subject.includes('Wired notices'));
+    expect(mine).toHaveLength(2);
+  }, 120_000);
 });

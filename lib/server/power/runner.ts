@@ -3,6 +3,7 @@ import { db } from '@/db';
 import { DesignVersion, PowerRun } from '@/db/models';
 import type { FrozenDesign } from '@/lib/validations/design';
 import type { PowerRunSpec } from '@/lib/validations/power';
+import { notifyPowerRunFinished } from '@/lib/services/notices';
 import { buildScenario, runResult } from '@/lib/services/power-scenario';
 import { runScenario } from './run-scenario';
 
@@ -78,7 +79,7 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
     });
     if (!outcome) return; // cancelled: the cancel already wrote the status
     const result: object = runResult(scenario, outcome, { number: version.number, hash: version.hash, content: json<FrozenDesign>(version.content) });
-    await PowerRun.update(
+    const [stored] = await PowerRun.update(
       {
         status: 'finished',
         completed: scenario.replications,
@@ -89,6 +90,7 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
       },
       { where: { id: runId, status: 'running' } },
     );
+    if (stored > 0) await notifyPowerRunFinished(run.studyId, runId); // never rejects
   } catch (error) {
     const reference = `${Date.now().toString(36)}`;
     console.error(`[switchback] power run ${runId} failed (${reference}):`, error);

@@ -2,6 +2,7 @@ import { NextResponse } from 'next/server';
 import { route } from '@/lib/api/handler';
 import { requireRole } from '@/lib/auth/session';
 import { freezeDesignReporting, versionJson } from '@/lib/services/designs';
+import { notifyDesignFrozen } from '@/lib/services/notices';
 import { parseEntityId } from '@/lib/services/planner-ids';
 
 /** Freezes the current draft into an immutable, content-hashed version (201; 200 when unchanged since the last freeze). */
@@ -9,5 +10,6 @@ export const POST = route<{ id: string; designId: string }>(async (request, { pa
   const p = await params;
   const { user, study } = await requireRole(request, p.id, 'editor');
   const { version, created } = await freezeDesignReporting(user.id, study.id, parseEntityId(p.designId, 'Design'));
+  if (created) void notifyDesignFrozen(study.id, version.hash, user.id); // after the commit; never rejects
   return NextResponse.json({ version: versionJson(version), created }, { status: created ? 201 : 200 });
 });
