@@ -132,13 +132,15 @@ export async function createPowerRun(actorId: number, studyId: number, spec: Pow
 export async function cancelPowerRun(actorId: number, studyId: number, runId: number, actorName: string): Promise<PowerRunDto> {
   db();
   const row = await findPowerRun(studyId, runId);
-  const [affected] = await PowerRun.update(
-    { status: 'cancelled', message: `Cancelled by ${actorName || 'an editor'} after ${row.completed} of ${row.total} replicates.`, finishedAt: new Date() },
-    { where: { id: runId, studyId, status: { [Op.in]: ['queued', 'running'] } } },
-  );
-  if (affected === 0) throw new ConflictError('This run has already ended; there is nothing to cancel.');
-  requestCancel(runId);
-  await recordAudit({ actorId, studyId, action: 'power-run.cancel', details: { runId } });
+  await db().transaction(async (transaction) => {
+    const [affected] = await PowerRun.update(
+      { status: 'cancelled', message: `Cancelled by ${actorName || 'an editor'} after ${row.completed} of ${row.total} replicates.`, finishedAt: new Date() },
+      { where: { id: runId, studyId, status: { [Op.in]: ['queued', 'running'] } }, transaction },
+    );
+    if (affected === 0) throw new ConflictError('This run has already ended; there is nothing to cancel.');
+    await recordAudit({ actorId, studyId, action: 'power-run.cancel', details: { runId, completed: row.completed } }, transaction);
+  });
+  requestCancel(runId); // after the commit: the runner also sees the status change itself
   return getPowerRun(studyId, runId);
 }
 
@@ -147,13 +149,15 @@ export async function restartPowerRun(actorId: number, studyId: number, runId: n
   db();
   await findPowerRun(studyId, runId);
   if (activeRuns.has(runId)) throw new ConflictError('This run is still stopping; try again in a moment.');
-  const [affected] = await PowerRun.update(
-    { status: 'queued', completed: 0, message: null, tally: null, result: null, startedAt: null, finishedAt: null, heartbeatAt: new Date() },
-    { where: { id: runId, studyId, status: { [Op.in]: ['interrupted', 'cancelled', 'failed'] } } },
-  );
-  if (affected === 0) throw new ConflictError('Only an interrupted, cancelled or failed run can be restarted.');
-  await recordAudit({ actorId, studyId, action: 'power-run.restart', details: { runId } });
-  void launchRun(runId);
+  await db().transaction(async (transaction) => {
+    const [affected] = await PowerRun.update(
+      { status: 'queued', completed: 0, message: null, tally: null, result: null, startedAt: null, finishedAt: null, heartbeatAt: new Date() },
+      { where: { id: runId, studyId, status: { [Op.in]: ['interrupted', 'cancelled', 'failed'] } }, transaction },
+    );
+    if (affected === 0) throw new ConflictError('Only an interrupted, cancelled or failed run can be restarted.');
+    await recordAudit({ actorId, studyId, action: 'power-run.restart', details: { runId } }, transaction);
+  });
+  void launchRun(runId); // after the commit, so the runner claims the queued row
   return getPowerRun(studyId, runId);
 }
 
