@@ -91,6 +91,9 @@ async function lockOpenInvitation(studyId: number, invitationId: number, transac
 export async function createInvitation(actor: { id: number; name: string }, study: Study, input: InvitationInput) {
   const { token, hash } = newToken();
   const invitation = await db().transaction(async (transaction) => {
+    // Invitations of one study are created one at a time: two owners inviting the same address at
+    // once would otherwise both take a gap lock on the empty range and deadlock on the insert.
+    await Study.findByPk(study.id, { attributes: ['id'], transaction, lock: transaction.LOCK.UPDATE });
     const member = await Membership.findOne({
       where: { studyId: study.id },
       include: [{ model: User, as: 'user', where: { email: input.email }, attributes: ['id'] }],

@@ -246,3 +246,14 @@ describe('the demo data', () => {
     expect(rows[0]).toMatchObject({ role: 'viewer', acceptedAt: null, revokedAt: null });
   });
 });
+
+describe('inviting the same address twice at once', () => {
+  it('creates one invitation and answers the others with 409, never a server error', async () => {
+    const { study, team } = await makeStudyWithTeam('Parallel invitations study');
+    const email = freshAddress('twice');
+    const results = await Promise.all(Array.from({ length: 6 }, () => invite(team.owner, study.id, email, 'viewer')));
+    expect(results.map((r) => r.status).sort()).toEqual([201, 409, 409, 409, 409, 409]);
+    expect(await Invitation.count({ where: { studyId: study.id, email } })).toBe(1);
+    expect(await AuditEvent.count({ where: { studyId: study.id, action: 'invitation.create' } })).toBe(1);
+  });
+});
