@@ -2,6 +2,13 @@ import 'next-auth';
 
 declare module 'next-auth' {
   interface Session {
-    user: { id: string; name?: string | null; email?: string | null; image?: string | null };
+    user: { id: string; epoch?: number; name?: string | null; email?: string | null; image?: string | null };
+  }
+}
+
+declare module 'next-auth/jwt' {
+  interface JWT {
+    /** The user's session epoch when the token was issued; a password reset raises it. */
+    epoch?: number;
   }
 }

@@ -5,6 +5,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare email: string;
   declare name: string;
   declare passwordHash: string;
+  /** Raised by a password reset; session tokens carry the value they were issued with. */
+  declare sessionEpoch: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -15,6 +17,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         email: { type: DataTypes.STRING(254), allowNull: false, unique: true },
         name: { type: DataTypes.STRING(120), allowNull: false },
         passwordHash: { type: DataTypes.STRING(100), allowNull: false },
+        sessionEpoch: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

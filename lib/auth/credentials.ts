@@ -24,5 +24,5 @@ export async function verifyCredentials(email: string, password: string, address
     return null;
   }
   signInLimiter.reset(key);
-  return { id: String(user.id), email: user.email, name: user.name };
+  return { id: String(user.id), email: user.email, name: user.name, sessionEpoch: user.sessionEpoch };
 }

@@ -24,11 +24,17 @@ export const authOptions: NextAuthOptions = {
   ],
   callbacks: {
     async jwt({ token, user }) {
-      if (user) token.sub = user.id;
+      if (user) {
+        token.sub = user.id;
+        token.epoch = (user as { sessionEpoch?: number }).sessionEpoch ?? 0;
+      }
       return token;
     },
     async session({ session, token }) {
-      if (session.user && token.sub) session.user.id = token.sub;
+      if (session.user && token.sub) {
+        session.user.id = token.sub;
+        session.user.epoch = typeof token.epoch === 'number' ? token.epoch : 0;
+      }
       return session;
     },
   },

@@ -1,7 +1,7 @@
 import { getServerSession } from 'next-auth';
 import { getToken } from 'next-auth/jwt';
 import type { NextRequest } from 'next/server';
-import { Membership, Study } from '@/db/models';
+import { Membership, Study, User } from '@/db/models';
 import { db } from '@/db';
 import { NotFoundError, UnauthorizedError, ForbiddenError } from '@/lib/api/errors';
 import { authOptions } from './options';
@@ -9,12 +9,24 @@ import { roleAtLeast, type Role } from './roles';
 
 export type SessionUser = { id: number; email: string; name: string };
 
+/**
+ * The account behind a session token, or null when it no longer stands: the user was deleted, or
+ * their password was reset after the token was issued (the epochs differ). Name and e-mail are
+ * read fresh, so a rename shows at once.
+ */
+async function currentAccount(id: number, epoch: unknown): Promise<SessionUser | null> {
+  if (!Number.isInteger(id) || id <= 0) return null;
+  db();
+  const user = await User.findByPk(id, { attributes: ['id', 'email', 'name', 'sessionEpoch'] });
+  if (!user || user.sessionEpoch !== (typeof epoch === 'number' ? epoch : 0)) return null;
+  return { id: user.id, email: user.email, name: user.name };
+}
+
 /** The signed-in user of an API request (from the JWT cookie), or null. */
 export async function getRequestUser(request: NextRequest): Promise<SessionUser | null> {
   const token = await getToken({ req: request, secret: process.env.NEXTAUTH_SECRET });
-  const id = Number(token?.sub);
-  if (!token || !Number.isInteger(id) || id <= 0) return null;
-  return { id, email: String(token.email ?? ''), name: String(token.name ?? '') };
+  if (!token) return null;
+  return currentAccount(Number(token.sub), token.epoch);
 }
 
 /** The signed-in user of an API request; 401 when there is none. */
@@ -52,7 +64,6 @@ export async function requireRole(request: NextRequest, rawStudyId: string | und
 /** The signed-in user of a page render (server components), or null. */
 export async function getPageUser(): Promise<SessionUser | null> {
   const session = await getServerSession(authOptions);
-  const id = Number(session?.user?.id);
-  if (!session || !Number.isInteger(id) || id <= 0) return null;
-  return { id, email: session.user.email ?? '', name: session.user.name ?? '' };
+  if (!session?.user) return null;
+  return currentAccount(Number(session.user.id), session.user.epoch);
 }

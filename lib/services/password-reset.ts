@@ -69,7 +69,8 @@ export async function describeResetLink(token: string): Promise<{ state: ResetTo
 
 /**
  * Sets a new password with a valid token, once: the token row is locked, marked used together with
- * the user's other open tokens, and the change is audited, all in one transaction.
+ * the user's other open tokens, the user's earlier sessions are ended, and the change is audited,
+ * all in one transaction.
  * @throws ApiError 410 for used, expired or unknown tokens.
  */
 export async function completePasswordReset(input: PasswordResetInput): Promise<void> {
@@ -80,6 +81,8 @@ export async function completePasswordReset(input: PasswordResetInput): Promise<
     if (!row || state !== 'valid') throw new ApiError(410, STATE_MESSAGES[state as Exclude<ResetTokenState, 'valid'>]);
     const now = new Date();
     await User.update({ passwordHash }, { where: { id: row.userId }, transaction });
+    // every session signed in before the reset ends, on every device
+    await User.increment('sessionEpoch', { by: 1, where: { id: row.userId }, transaction });
     await PasswordResetToken.update({ usedAt: now }, { where: { userId: row.userId, usedAt: { [Op.is]: null } }, transaction });
     await recordAudit({ actorId: row.userId, studyId: null, action: 'account.password-reset', details: {} }, transaction);
   });

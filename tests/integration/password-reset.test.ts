@@ -3,6 +3,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { POST as requestRoute } from '@/app/api/password-reset/route';
 import { POST as completeRoute } from '@/app/api/password-reset/complete/route';
+import { GET as listStudiesRoute } from '@/app/api/studies/route';
 import { AuditEvent, PasswordResetToken } from '@/db/models';
 import { verifyCredentials } from '@/lib/auth/credentials';
 import { hashToken } from '@/lib/services/tokens';
@@ -81,6 +82,18 @@ describe('choosing a new password', () => {
     expect(again.status).toBe(410);
     expect(again.body.error).toMatch(/already been used/);
     expect(await inspectResetToken(token)).toBe('used');
+  });
+
+  it('ends the sessions that were signed in before the reset', async () => {
+    const user = await makeUser('stolen-session');
+    const studies = async (sessionEpoch: number) => (await listStudiesRoute(await requestAs({ ...user, sessionEpoch }, 'GET', '/api/studies'), ctx({}))).status;
+    expect(await studies(0)).toBe(200);
+    await ask(user.email);
+    expect((await complete(await resetToken(user.email), 'a-passphrase-after-theft')).status).toBe(200);
+    expect(await studies(0)).toBe(401); // the old session, wherever it lives
+    const signedIn = await verifyCredentials(user.email, 'a-passphrase-after-theft', 'reset-test');
+    expect(signedIn).toMatchObject({ sessionEpoch: 1 });
+    expect(await studies(1)).toBe(200); // a sign-in after the reset carries the new epoch
   });
 
   it('refuses an expired link and leaves the password alone', async () => {

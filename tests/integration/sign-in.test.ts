@@ -9,7 +9,7 @@ describe('signing in with e-mail and password', () => {
   it('refuses a wrong password and accepts the right one', async () => {
     const user = await makeUser('signer');
     expect(await verifyCredentials(user.email, 'not-the-password', '10.0.0.1')).toBeNull();
-    expect(await verifyCredentials(user.email, user.password, '10.0.0.1')).toEqual({ id: String(user.id), email: user.email, name: user.name });
+    expect(await verifyCredentials(user.email, user.password, '10.0.0.1')).toEqual({ id: String(user.id), email: user.email, name: user.name, sessionEpoch: 0 });
   });
 
   it('treats the e-mail case-insensitively and an unknown e-mail as a plain failure', async () => {

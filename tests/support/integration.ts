@@ -42,14 +42,14 @@ export async function makeStudyWithTeam(name = 'Matrix study') {
 
 /** A NextRequest carrying a session cookie for `user` (or none), as the browser would send it. */
 export async function requestAs(
-  user: Pick<TestUser, 'id' | 'email' | 'name'> | null,
+  user: (Pick<TestUser, 'id' | 'email' | 'name'> & { sessionEpoch?: number }) | null,
   method: string,
   path: string,
   options: { json?: unknown; body?: string; headers?: Record<string, string> } = {},
 ): Promise<NextRequest> {
   const headers: Record<string, string> = { ...options.headers };
   if (user) {
-    const token = await encode({ token: { sub: String(user.id), email: user.email, name: user.name }, secret: process.env.NEXTAUTH_SECRET! });
+    const token = await encode({ token: { sub: String(user.id), email: user.email, name: user.name, epoch: user.sessionEpoch ?? 0 }, secret: process.env.NEXTAUTH_SECRET! });
     headers.cookie = `next-auth.session-token=${token}`;
   }
   let body = options.body;
