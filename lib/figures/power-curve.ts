@@ -79,12 +79,39 @@ export function powerCurveSvg(series: readonly PowerSeries[], options: PowerFigu
     parts.push(`<path d="${curve(points) ?? ''}" fill="none" stroke="${colour}" stroke-width="2.2"${i % 2 ? ' stroke-dasharray="7 3"' : ''}/>`);
     for (const p of points) parts.push(`<circle cx="${x(p.n)}" cy="${y(p.power)}" r="3" fill="${colour}"/>`);
   });
-  // legend top left inside the plot, where a power curve (rising with N) rarely runs
+  // legend inside the plot, in whichever corner (or side) the curves and their bands leave free:
+  // top left for the usual curve that rises with N, bottom right when power is high at small N
   const longest = Math.max(...series.map((s) => s.label.length), 10);
-  const lx = MARGIN.left + 10;
-  const ly = MARGIN.top + 8;
+  const boxW = Math.min(innerW - 8, 34 + longest * 6.2);
+  const boxH = series.length * 18 + 8;
+  const corners = [
+    { lx: MARGIN.left + 10, ly: MARGIN.top + 8 },
+    { lx: MARGIN.left + innerW - boxW - 4, ly: MARGIN.top + innerH - boxH - 4 },
+    { lx: MARGIN.left + innerW - boxW - 4, ly: MARGIN.top + 8 },
+    { lx: MARGIN.left + 10, ly: MARGIN.top + innerH - boxH - 4 },
+    { lx: MARGIN.left + innerW - boxW - 4, ly: MARGIN.top + (innerH - boxH) / 2 },
+    { lx: MARGIN.left + 10, ly: MARGIN.top + (innerH - boxH) / 2 },
+  ];
+  const overlap = ({ lx, ly }: { lx: number; ly: number }) => {
+    let hits = 0;
+    for (const s of series) {
+      const points = [...s.points].sort((a, b) => a.n - b.n);
+      for (let k = 0; k + 1 < points.length; k++) {
+        // sample each segment so a line crossing the box between two points still counts
+        for (let f = 0; f <= 1; f += 0.1) {
+          const px = x(points[k].n + f * (points[k + 1].n - points[k].n));
+          const top = y(points[k].upper + f * (points[k + 1].upper - points[k].upper));
+          const bottom = y(points[k].lower + f * (points[k + 1].lower - points[k].lower));
+          if (px >= lx - 6 && px <= lx - 6 + boxW && bottom >= ly - 6 && top <= ly - 6 + boxH) hits++;
+        }
+      }
+      if (points.length === 1 && x(points[0].n) >= lx - 6 && x(points[0].n) <= lx - 6 + boxW) hits++;
+    }
+    return hits;
+  };
+  const { lx, ly } = corners.reduce((best, c) => (overlap(c) < overlap(best) ? c : best), corners[0]);
   if (series.length > 0) {
-    parts.push(`<rect x="${lx - 6}" y="${ly - 6}" width="${Math.min(innerW - 8, 34 + longest * 6.2)}" height="${series.length * 18 + 8}" fill="#ffffff" fill-opacity="0.9" stroke="#e5e7eb"/>`);
+    parts.push(`<rect x="${lx - 6}" y="${ly - 6}" width="${boxW}" height="${boxH}" fill="#ffffff" fill-opacity="0.9" stroke="#e5e7eb"/>`);
   }
   series.forEach((s, i) => {
     const colour = COLOURS[i % COLOURS.length];
