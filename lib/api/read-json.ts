@@ -9,9 +9,7 @@ export const MAX_BODY_BYTES = 1_000_000;
  * wrong types or unknown fields (schemas are strict) → 422 naming the fields.
  */
 export async function readJson<S extends z.ZodType>(request: Request, schema: S): Promise<z.infer<S>> {
-  const declared = Number(request.headers.get('content-length') ?? '0');
-  if (declared > MAX_BODY_BYTES) throw new ApiError(413, 'The request body is larger than 1 MB.');
-  const text = await readLimited(request);
+  const text = await readBodyText(request, MAX_BODY_BYTES, 'The request body is larger than 1 MB.');
   let data: unknown;
   try {
     data = text.length ? JSON.parse(text) : undefined;
@@ -23,7 +21,12 @@ export async function readJson<S extends z.ZodType>(request: Request, schema: S)
   return parsed.data;
 }
 
-async function readLimited(request: Request): Promise<string> {
+/**
+ * Reads a body as UTF-8 text, refusing more than `maxBytes` with 413 and `tooBig` as the message,
+ * whether the size is declared up front or only seen while streaming.
+ */
+export async function readBodyText(request: Request, maxBytes: number, tooBig: string): Promise<string> {
+  if (Number(request.headers.get('content-length') ?? '0') > maxBytes) throw new ApiError(413, tooBig);
   if (!request.body) return '';
   const reader = request.body.getReader();
   const chunks: Uint8Array[] = [];
@@ -32,9 +35,9 @@ async function readLimited(request: Request): Promise<string> {
     const { done, value } = await reader.read();
     if (done) break;
     size += value.byteLength;
-    if (size > MAX_BODY_BYTES) {
+    if (size > maxBytes) {
       await reader.cancel();
-      throw new ApiError(413, 'The request body is larger than 1 MB.');
+      throw new ApiError(413, tooBig);
     }
     chunks.push(value);
   }

@@ -2,29 +2,11 @@
 // per frozenDesignSchema, hash by contentHash), the way the planner's freeze would store them.
 import { Design, DesignVersion } from '@/db/models';
 import { contentHash } from '@/lib/canonical-json';
-import { frozenDesignSchema, type FrozenDesign } from '@/lib/validations/design';
+import type { FrozenDesign } from '@/lib/validations/design';
+import { design as unitDesign } from '../unit/item-bank/fixtures';
 
 export function demoContent(overrides: Partial<FrozenDesign['spec']> = {}): FrozenDesign {
-  return frozenDesignSchema.parse({
-    spec: {
-      name: 'Savings bonus, personalised',
-      priorSetId: 1,
-      model: { id: 'hyperbolic' },
-      ratio: 0.6,
-      largeAmount: 100,
-      currency: 'EUR',
-      mode: 'personalised',
-      soonDelay: { mode: 'fixed', days: 14 },
-      lateDelayLimit: 730,
-      probePairs: 2,
-      lateAnchors: 1,
-      soonAnchors: 1,
-      criterion: 'gap-product',
-      calibration: { itemsPerMagnitude: 10, minDelay: 1, maxDelay: 180 },
-      ...overrides,
-    },
-    prior: { name: 'Pilot prior', medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.5 },
-  });
+  return unitDesign({ name: 'Savings bonus, personalised', ...overrides }, { name: 'Pilot prior' });
 }
 
 /** A design and one frozen version of it in `studyId`. */
