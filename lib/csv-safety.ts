@@ -21,3 +21,18 @@ export function neutraliseRows<T extends Record<string, unknown>>(rows: readonly
 export function restoreCell(value: string): string {
   return /^'[=+\-@\t\r]/.test(value) ? value.slice(1) : value;
 }
+
+/** Quotes a cell when it holds a comma, quote or line break (RFC 4180), doubling inner quotes. */
+function quote(value: string): string {
+  return /[",\r\n]/.test(value) ? `"${value.replace(/"/g, '""')}"` : value;
+}
+
+/**
+ * A small CSV document (RFC 4180, CRLF line ends) of the given columns and rows, every text cell
+ * neutralised against formula injection; numbers are written as they are.
+ * @example toSafeCsv(['a'], [['=1+1']]) === "a\r\n'=1+1\r\n"
+ */
+export function toSafeCsv(header: string[], rows: Array<Array<string | number | null>>): string {
+  const line = (cells: Array<string | number | null>) => cells.map((c) => quote(c === null ? '' : String(neutraliseCell(c)))).join(',');
+  return [line(header), ...rows.map(line)].join('\r\n') + '\r\n';
+}

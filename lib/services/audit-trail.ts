@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize';
 import { db } from '@/db';
-import { toSafeCsv } from '@/lib/audit-csv';
+import { toSafeCsv } from '@/lib/csv-safety';
 import { recordAudit } from './audit';
 
 /** One audit event as the audit page and its CSV show it. */
