@@ -1,6 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 import { ROLES, type Role } from '@/lib/auth/roles';
 
+// Spread into each field: Sequelize writes column names into the definition objects it is given.
 const ID = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true };
 const OPTIONAL_FK = { type: DataTypes.INTEGER.UNSIGNED, allowNull: true };
 const HASH = { type: DataTypes.CHAR(64), allowNull: false, unique: true };
@@ -23,15 +24,15 @@ export class Invitation extends Model<InferAttributes<Invitation>, InferCreation
   static register(sequelize: Sequelize) {
     Invitation.init(
       {
-        id: ID,
+        id: { ...ID },
         studyId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
         email: { type: DataTypes.STRING(254), allowNull: false },
         role: { type: DataTypes.ENUM(...ROLES), allowNull: false },
-        tokenHash: HASH,
-        invitedBy: OPTIONAL_FK,
+        tokenHash: { ...HASH },
+        invitedBy: { ...OPTIONAL_FK },
         expiresAt: { type: DataTypes.DATE, allowNull: false },
         acceptedAt: { type: DataTypes.DATE, allowNull: true },
-        acceptedBy: OPTIONAL_FK,
+        acceptedBy: { ...OPTIONAL_FK },
         revokedAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
@@ -53,9 +54,9 @@ export class PasswordResetToken extends Model<InferAttributes<PasswordResetToken
   static register(sequelize: Sequelize) {
     PasswordResetToken.init(
       {
-        id: ID,
+        id: { ...ID },
         userId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
-        tokenHash: HASH,
+        tokenHash: { ...HASH },
         expiresAt: { type: DataTypes.DATE, allowNull: false },
         usedAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,

@@ -257,3 +257,17 @@ describe('inviting the same address twice at once', () => {
     expect(await AuditEvent.count({ where: { studyId: study.id, action: 'invitation.create' } })).toBe(1);
   });
 });
+
+describe('who invited and who accepted', () => {
+  it('are kept in their own columns', async () => {
+    const { study, team } = await makeStudyWithTeam('Invitation columns study');
+    const email = freshAddress('columns');
+    const sent = await invite(team.owner, study.id, email, 'operator');
+    expect(sent.status).toBe(201);
+    const { token } = await invitedToken(email);
+    const invitee = await signUp(email);
+    expect((await accept(invitee, token)).status).toBe(200);
+    const row = await Invitation.findByPk(sent.body.invitation.id);
+    expect({ invitedBy: row?.invitedBy, acceptedBy: row?.acceptedBy }).toEqual({ invitedBy: team.owner.id, acceptedBy: invitee.id });
+  });
+});
