@@ -3,7 +3,7 @@ import { createPowerSimulator, POWER_ENGINE_VERSION } from '../../lib/design/pow
 import { buildScenario, runResult } from '../../lib/services/power-scenario';
 import { powerRunSpecSchema } from '../../lib/validations/power';
 import type { FrozenDesign } from '../../lib/validations/design';
-import { DesignVersion, Membership, PowerRun, Study, User } from '../models';
+import { AuditEvent, DesignVersion, Membership, PowerRun, Study, User } from '../models';
 import { demoAccounts } from './demo-accounts.mjs';
 import { DEMO_STUDY_NAME } from './01-demo-team';
 
@@ -44,7 +44,7 @@ export async function seed(sequelize: Sequelize): Promise<void> {
   const result: object = runResult(scenario, { tally, longestCalibrationDelay: simulator.longestCalibrationDelay }, { number: version.number, hash: version.hash, content });
   const now = new Date();
   await sequelize.transaction(async (transaction) => {
-    await PowerRun.create(
+    const run = await PowerRun.create(
       {
         studyId: version.studyId,
         designVersionId: version.id,
@@ -61,6 +61,11 @@ export async function seed(sequelize: Sequelize): Promise<void> {
         finishedAt: now,
         createdBy: editor.id,
       },
+      { transaction },
+    );
+    // the same event the app writes when an editor starts a run
+    await AuditEvent.create(
+      { actorId: editor.id, studyId: version.studyId, action: 'power-run.start', details: { runId: run.id, designVersionId: version.id, replications: spec.replications } },
       { transaction },
     );
   });

@@ -1,0 +1,36 @@
+// The later demo seeders: a finished power run with the audit event the app would write, and
+// three batch-served participants; running them again adds nothing.
+import { beforeAll, describe, expect, it } from 'vitest';
+import { db } from '@/db';
+import { AuditEvent, Participant, PowerRun, Study } from '@/db/models';
+import { DEMO_STUDY_NAME, seed as seedTeam } from '@/db/seeders/01-demo-team';
+import { seed as seedPlanner } from '@/db/seeders/02-demo-planner';
+import { seed as seedItemBank } from '@/db/seeders/03-demo-item-bank';
+import { DEMO_POWER_LABEL, seed as seedPower } from '@/db/seeders/04-demo-power';
+import { migrateUp } from '../support/integration';
+
+beforeAll(migrateUp);
+
+describe('the demo item-bank and power seeders', () => {
+  it('add served participants and a finished run with its audit event, once', async () => {
+    await seedTeam(db());
+    await seedPlanner(db());
+    await seedItemBank(db());
+    await seedPower(db());
+    const study = (await Study.findAll({ where: { name: DEMO_STUDY_NAME } }))[0];
+    const counts = async () => ({
+      participants: await Participant.count({ where: { studyId: study.id } }),
+      runs: await PowerRun.count({ where: { studyId: study.id, label: DEMO_POWER_LABEL } }),
+      starts: await AuditEvent.count({ where: { studyId: study.id, action: 'power-run.start' } }),
+    });
+    const before = await counts();
+    expect(before).toEqual({ participants: 3, runs: 1, starts: 1 });
+    await seedItemBank(db());
+    await seedPower(db());
+    expect(await counts()).toEqual(before);
+    const run = await PowerRun.findOne({ where: { studyId: study.id, label: DEMO_POWER_LABEL } });
+    expect(run?.status).toBe('finished');
+    const event = await AuditEvent.findOne({ where: { studyId: study.id, action: 'power-run.start' } });
+    expect(event?.details).toMatchObject({ runId: run!.id });
+  }, 60_000);
+});
