@@ -1,23 +1,65 @@
 'use client';
 
+import Papa from 'papaparse';
 import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
-import { useServeBatch, type BatchResultDto, type FrozenVersionDto } from '@/lib/client/item-bank';
+import { fetchBatchCsv, useItemBankPreview, useServeBatch, type BatchResultDto, type FrozenVersionDto } from '@/lib/client/item-bank';
 import { VersionSelect } from './version-select';
 
-/** Batch mode: a CSV of offline calibration answers in, personalised item sets out (shown, and downloadable as JSON). */
+/** Starts a download of text made in the browser. */
+function saveText(text: string, filename: string, type: string) {
+  const url = URL.createObjectURL(new Blob([text], { type }));
+  const link = document.createElement('a');
+  link.href = url;
+  link.download = filename;
+  link.click();
+  setTimeout(() => URL.revokeObjectURL(url), 10_000);
+}
+
+/**
+ * Batch mode: a CSV of offline calibration answers in, personalised item sets out (shown, and
+ * downloadable as CSV or JSON). An empty answer sheet with the version's calibration item ids
+ * as columns is offered first, so the file matches the bank the lab ran.
+ */
 export function BatchUpload({ studyId, versions }: { studyId: number; versions: FrozenVersionDto[] }) {
   const serve = useServeBatch(studyId);
   const [versionId, setVersionId] = useState<number>(versions[0].id);
+  const preview = useItemBankPreview(studyId, versionId, {});
   const [file, setFile] = useState<File | null>(null);
+  const [sent, setSent] = useState<{ designVersionId: number; csv: string } | null>(null);
   const [results, setResults] = useState<BatchResultDto[] | null>(null);
+  const [csvError, setCsvError] = useState<string | null>(null);
+  const version = versions.find((v) => v.id === versionId);
+  const calibrationIds = preview.data?.items.filter((i) => i.block === 'calibration').map((i) => i.id) ?? [];
+
   const run = async () => {
     if (!file) return;
-    setResults(await serve.mutateAsync({ designVersionId: versionId, csv: await file.text() }).catch(() => null));
+    const input = { designVersionId: versionId, csv: await file.text() };
+    setCsvError(null);
+    setResults(
+      await serve
+        .mutateAsync(input)
+        .then((r) => {
+          setSent(input);
+          return r;
+        })
+        .catch(() => null),
+    );
+  };
+  const downloadSheet = () => {
+    saveText(`${Papa.unparse([['participantId', ...calibrationIds]])}\r\n`, `switchback-answer-sheet-${studyId}-${version?.hash.slice(0, 12) ?? versionId}.csv`, 'text/csv');
+  };
+  const downloadCsv = async () => {
+    if (!sent) return;
+    setCsvError(null);
+    try {
+      saveText(await fetchBatchCsv(studyId, sent), `switchback-batch-${studyId}-${version?.hash.slice(0, 12) ?? versionId}.csv`, 'text/csv');
+    } catch (error) {
+      setCsvError(error instanceof Error ? error.message : 'The CSV could not be made.');
+    }
   };
   const served = results?.filter((r) => r.status === 'served').length ?? 0;
-  const download = results ? URL.createObjectURL(new Blob([JSON.stringify(results, null, 2)], { type: 'application/json' })) : null;
   return (
     <div className="space-y-4">
       <p className="text-sm text-ink-soft">
@@ -25,7 +67,20 @@ export function BatchUpload({ studyId, versions }: { studyId: number; versions: 
         Rows are served exactly as the API would (a participant already served with other answers is refused).
       </p>
       <div className="grid gap-4 md:grid-cols-2">
-        <VersionSelect versions={versions} value={versionId} onChange={setVersionId} />
+        <div className="space-y-2">
+          <VersionSelect
+            versions={versions}
+            value={versionId}
+            onChange={(id) => {
+              setVersionId(id);
+              setResults(null);
+              setSent(null);
+            }}
+          />
+          <Button variant="secondary" onClick={downloadSheet} disabled={calibrationIds.length === 0} data-testid="answer-sheet">
+            Download an empty answer sheet
+          </Button>
+        </div>
         <label className="block space-y-1 text-sm font-medium text-ink">
           <span>Answers (CSV)</span>
           <input type="file" accept=".csv,text/csv" onChange={(e) => setFile(e.target.files?.[0] ?? null)} className="block w-full text-sm" data-testid="batch-file" />
@@ -46,11 +101,15 @@ export function BatchUpload({ studyId, versions }: { studyId: number; versions: 
                 </li>
               ))}
           </ul>
-          {download ? (
-            <a className="underline" href={download} download="switchback-batch-results.json">
+          <div className="mt-2 flex flex-wrap gap-3">
+            <Button variant="secondary" onClick={downloadCsv} data-testid="batch-csv">
+              Download the item sets (CSV)
+            </Button>
+            <Button variant="secondary" onClick={() => saveText(JSON.stringify(results, null, 2), `switchback-batch-${studyId}-${version?.hash.slice(0, 12) ?? versionId}.json`, 'application/json')}>
               Download the item sets (JSON)
-            </a>
-          ) : null}
+            </Button>
+          </div>
+          {csvError ? <p role="alert" className="mt-2 text-danger-700">{csvError}</p> : null}
         </Notice>
       ) : null}
     </div>

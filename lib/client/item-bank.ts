@@ -4,7 +4,7 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { BankItem, RoundingReport } from '@/lib/design';
 import type { ApiKeyCreateInput } from '@/lib/validations/api-keys';
 import type { ExportOptions } from '@/lib/validations/item-bank';
-import { apiFetch } from './api';
+import { ApiClientError, apiFetch } from './api';
 
 export type FrozenVersionDto = { id: number; number: number; hash: string; designName: string; mode: 'personalised' | 'population'; currency: string; frozenAt: string };
 export type ItemBankPreviewDto = {
@@ -88,6 +88,23 @@ export function useParticipants(studyId: number) {
     queryFn: () => apiFetch<{ participants: ParticipantDto[] }>(`/api/studies/${studyId}/participants`).then((r) => r.participants),
     refetchInterval: 15_000,
   });
+}
+
+/**
+ * The same batch again as CSV (one row per served item). Serving is idempotent, so asking twice
+ * with the same answers returns the same items and records nothing new.
+ */
+export async function fetchBatchCsv(studyId: number, input: { designVersionId: number; csv: string }): Promise<string> {
+  const response = await fetch(`/api/studies/${studyId}/participants/batch?format=csv`, {
+    method: 'POST',
+    headers: { Accept: 'text/csv', 'Content-Type': 'application/json' },
+    body: JSON.stringify(input),
+  });
+  if (!response.ok) {
+    const body = await response.json().catch(() => null);
+    throw new ApiClientError(response.status, body?.error ?? `Request failed (${response.status}).`, body?.issues ?? []);
+  }
+  return response.text();
 }
 
 export function useServeBatch(studyId: number) {

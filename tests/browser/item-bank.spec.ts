@@ -55,3 +55,40 @@ test('the demo operator creates an API key, downloads the item bank and sees a p
   await expect(page.getByRole('table', { name: `Items served to ${participantId}` }).getByTestId('item-row').first()).toBeVisible();
   await page.screenshot(shot('item-bank-participants'));
 });
+
+test('the demo operator fills in the answer sheet offline, serves the batch and downloads the item sets as CSV', async ({ page }) => {
+  await signInAs(page, 'operator');
+  await openDemoStudy(page);
+  const studyId = new URL(page.url()).pathname.split('/')[2];
+  await page.getByRole('link', { name: 'Participants' }).click();
+  const select = page.getByTestId('version-select');
+  const versionId = (await select.locator('option', { hasText: 'personalised' }).first().getAttribute('value'))!;
+  await select.selectOption(versionId);
+
+  // The empty sheet names exactly the version's calibration items, in the bank's order.
+  const [sheet] = await Promise.all([page.waitForEvent('download'), page.getByTestId('answer-sheet').click()]);
+  expect(sheet.suggestedFilename()).toMatch(/^switchback-answer-sheet-\d+-[0-9a-f]{12}\.csv$/);
+  const columns = Papa.parse<string[]>(readFileSync((await sheet.path())!, 'utf8'), { skipEmptyLines: true }).data[0];
+  const bank = await (await page.request.get(`/api/studies/${studyId}/item-bank/${versionId}`)).json();
+  type Item = { id: string; block: string; magnitude?: string | null; soonerAmount: number; soonerDelay: number; laterAmount: number; laterDelay: number };
+  const calibration = (bank.items as Item[]).filter((i) => i.block === 'calibration');
+  expect(columns).toEqual(['participantId', ...calibration.map((i) => i.id)]);
+
+  // Two participants answer as noise-free hyperbolic choosers (k per day), the way a lab would fill the sheet.
+  const stamp = Date.now();
+  const answer = (k: number) => (i: Item) => (i.laterAmount / (1 + k * i.laterDelay) > i.soonerAmount / (1 + k * i.soonerDelay) ? 'later' : 'sooner');
+  const rows = [
+    [`OFF-${stamp}-a`, ...calibration.map(answer(0.04))],
+    [`OFF-${stamp}-b`, ...calibration.map(answer(0.01))],
+  ];
+  await page.getByTestId('batch-file').setInputFiles({ name: 'answers.csv', mimeType: 'text/csv', buffer: Buffer.from(Papa.unparse([columns, ...rows])) });
+  await page.getByRole('button', { name: 'Serve participants' }).click();
+  await expect(page.getByText('2 of 2 participants served')).toBeVisible({ timeout: 20_000 });
+
+  const [items] = await Promise.all([page.waitForEvent('download'), page.getByTestId('batch-csv').click()]);
+  const served = Papa.parse<Record<string, string>>(readFileSync((await items.path())!, 'utf8'), { header: true, skipEmptyLines: true }).data;
+  expect(new Set(served.map((r) => r.participantId))).toEqual(new Set([`OFF-${stamp}-a`, `OFF-${stamp}-b`]));
+  expect(served.every((r) => r.status === 'served' && r.id !== '')).toBe(true);
+  await expect(page.getByTestId('participant-row').filter({ hasText: `OFF-${stamp}-a` })).toBeVisible({ timeout: 20_000 });
+  await page.screenshot(shot('item-bank-batch'));
+});
