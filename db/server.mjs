@@ -7,9 +7,9 @@
 // credentials kept in .env.local; `test` serves `switchback_test` on TEST_DB_PORT (default 3308)
 // with credentials in .data/mariadb-test/credentials.json.
 //
-// External server: when DB_HOST is set in the real process environment AND DB_EXTERNAL=1, no
-// private server is started or stopped; startDatabase() returns DB_HOST, DB_PORT (default 3306),
-// DB_NAME, DB_USER and DB_PASSWORD from process.env as they are.
+// Existing server: when DB_HOST is set in the environment (TEST_DB_HOST for the test instance), no
+// private server is started or stopped; startDatabase() returns that server's host, port
+// (default 3306), database, user and password from DB_* (or TEST_DB_*) as they are.
 //
 // Every mariadb tool call passes --defaults-file first: the tools only honour it in that place.
 import { spawn } from 'node:child_process';
@@ -75,14 +75,29 @@ export function readEnvFile(file) {
   return env;
 }
 
-function isExternal() {
-  return process.env.DB_EXTERNAL === '1' && Boolean(process.env.DB_HOST);
+/** The environment names of an instance's external server: DB_* for the app, TEST_DB_* for the tests. */
+function externalPrefix(instance) {
+  return instance === 'test' ? 'TEST_DB_' : 'DB_';
 }
 
-function externalEnv() {
-  const { DB_HOST, DB_PORT = '3306', DB_NAME, DB_USER: user, DB_PASSWORD = '' } = process.env;
-  if (!DB_NAME || !user) throw new Error('DB_EXTERNAL=1 needs DB_NAME and DB_USER (and DB_PASSWORD) in the environment');
-  return { DB_HOST, DB_PORT, DB_NAME, DB_USER: user, DB_PASSWORD };
+/**
+ * True when the environment names an existing server for this instance (DB_HOST for the app,
+ * TEST_DB_HOST for the tests, so the tests never write into the app's database). The processes
+ * that `npm start` launches carry the private server's DB_HOST and SWITCHBACK_PRIVATE_DB=1, so
+ * they are not mistaken for it.
+ */
+function isExternal(instance = 'app') {
+  if (process.env.SWITCHBACK_PRIVATE_DB === '1') return false;
+  return Boolean(process.env[`${externalPrefix(instance)}HOST`]);
+}
+
+function externalEnv(instance = 'app') {
+  const p = externalPrefix(instance);
+  const env = process.env;
+  const name = env[`${p}NAME`];
+  const user = env[`${p}USER`];
+  if (!name || !user) throw new Error(`${p}HOST is set, so an existing MariaDB server is used; it also needs ${p}NAME and ${p}USER (and ${p}PASSWORD, ${p}PORT)`);
+  return { DB_HOST: env[`${p}HOST`], DB_PORT: env[`${p}PORT`] || '3306', DB_NAME: name, DB_USER: user, DB_PASSWORD: env[`${p}PASSWORD`] ?? '' };
 }
 
 // --- tools -------------------------------------------------------------------------------------
@@ -220,19 +235,9 @@ function newSecret(bytes) {
   return randomBytes(bytes).toString('base64url');
 }
 
-// The app password and NEXTAUTH_SECRET are generated once and then only read back, so that a
-// wiped datadir gets the same password again and signed-in sessions survive restarts.
-function appCredentials(cfg, log) {
+/** Adds the keys of `wanted` that .env.local lacks (never changes one); returns the file's values after. */
+function ensureEnvFile(wanted, log) {
   const existing = readEnvFile(ENV_FILE);
-  const wanted = {
-    DB_HOST: '127.0.0.1',
-    DB_PORT: cfg.port,
-    DB_NAME: cfg.database,
-    DB_USER,
-    DB_PASSWORD: newSecret(24),
-    NEXTAUTH_SECRET: newSecret(32),
-    NEXTAUTH_URL: 'http://127.0.0.1:3000',
-  };
   const missing = Object.keys(wanted).filter((key) => existing[key] === undefined || existing[key] === '');
   if (missing.length > 0) {
     const before = fs.existsSync(ENV_FILE) ? fs.readFileSync(ENV_FILE, 'utf8') : '# Local settings (git-ignored), written by db/server.mjs.\n';
@@ -240,7 +245,25 @@ function appCredentials(cfg, log) {
     fs.writeFileSync(ENV_FILE, `${before}${before.endsWith('\n') ? '' : '\n'}${lines}\n`, { mode: 0o600 });
     log(`Wrote ${missing.join(', ')} to .env.local`);
   }
-  const password = existing.DB_PASSWORD || wanted.DB_PASSWORD;
+  return { ...existing, ...Object.fromEntries(missing.map((key) => [key, String(wanted[key])])) };
+}
+
+// The app password and NEXTAUTH_SECRET are generated once and then only read back, so that a
+// wiped datadir gets the same password again and signed-in sessions survive restarts.
+function appCredentials(cfg, log) {
+  const existing = ensureEnvFile(
+    {
+      DB_HOST: '127.0.0.1',
+      DB_PORT: cfg.port,
+      DB_NAME: cfg.database,
+      DB_USER,
+      DB_PASSWORD: newSecret(24),
+      NEXTAUTH_SECRET: newSecret(32),
+      NEXTAUTH_URL: 'http://127.0.0.1:3000',
+    },
+    log,
+  );
+  const password = existing.DB_PASSWORD;
   if (existing.DB_PORT && existing.DB_PORT !== cfg.port) {
     log(`Note: .env.local says DB_PORT=${existing.DB_PORT} but the server runs on ${cfg.port}; scripts pass the real port.`);
   }
@@ -342,9 +365,13 @@ async function launch(cfg, log) {
  * `fresh` (test instance) drops and recreates the database.
  */
 export async function startDatabase({ instance = 'app', fresh = false, log = console.log } = {}) {
-  if (isExternal()) {
-    log(`Using the external MariaDB at ${process.env.DB_HOST} (DB_EXTERNAL=1)`);
-    return externalEnv();
+  if (isExternal(instance)) {
+    const env = externalEnv(instance);
+    log(`Using the existing MariaDB at ${env.DB_HOST}:${env.DB_PORT} (${externalPrefix(instance)}HOST is set); no private server is started.`);
+    if (fresh) log(`Note: ${env.DB_NAME} on that server is not emptied; the tests add their own rows to it.`);
+    // the sign-in secret is still generated once and kept locally
+    if (instance === 'app') ensureEnvFile({ NEXTAUTH_SECRET: newSecret(32), NEXTAUTH_URL: 'http://127.0.0.1:3000' }, log);
+    return env;
   }
   const cfg = instanceConfig(instance);
   ensureInstalled(log);
@@ -381,7 +408,7 @@ export async function startDatabase({ instance = 'app', fresh = false, log = con
 
 /** Shuts the private server of `instance` down cleanly and waits until its process is gone. No-op if not running. */
 export async function stopDatabase({ instance = 'app', log = () => {} } = {}) {
-  if (isExternal()) return false;
+  if (isExternal(instance)) return false;
   const cfg = instanceConfig(instance);
   const pid = readPid(cfg);
   if (!isServerProcess(pid)) {
@@ -419,7 +446,7 @@ async function main(argv) {
   }
   if (command === 'start') {
     const env = await startDatabase({ instance, fresh });
-    const where = isExternal() ? 'external server' : path.relative(ROOT, instanceConfig(instance).dir);
+    const where = isExternal(instance) ? 'external server' : path.relative(ROOT, instanceConfig(instance).dir);
     console.log(`MariaDB (${instance}) is up: ${env.DB_USER}@${env.DB_HOST}:${env.DB_PORT}/${env.DB_NAME} (${where})`);
     console.log(instance === 'app' ? 'The password is DB_PASSWORD in .env.local.' : `Credentials: ${instanceConfig(instance).credentials}`);
   } else if (command === 'stop') {

@@ -82,7 +82,7 @@ function banner(url) {
     `  Demo accounts (${demoGroup}, fictional):`,
     ...demoAccounts.map((a) => `    ${a.role.padEnd(9)} ${a.email.padEnd(width)}  ${a.password}`),
     '',
-    '  Press Ctrl-C to stop the app and its database.',
+    process.env.DB_HOST ? '  Press Ctrl-C to stop the app (the existing MariaDB server keeps running).' : '  Press Ctrl-C to stop the app and its private MariaDB server.',
     '',
   ];
   console.log(lines.join('\n'));
@@ -95,6 +95,7 @@ async function main() {
   const fileEnv = readEnvFile(path.join(ROOT, '.env.local'));
   const url = `http://127.0.0.1:${port}`;
   let env = { ...fileEnv, ...process.env, ...dbEnv, NEXT_TELEMETRY_DISABLED: '1', PORT: port };
+  if (!process.env.DB_HOST) env.SWITCHBACK_PRIVATE_DB = '1'; // the children's DB_HOST is ours, not an existing server
   if (!process.env.NEXTAUTH_URL && (!fileEnv.NEXTAUTH_URL || fileEnv.NEXTAUTH_URL === 'http://127.0.0.1:3000')) {
     env.NEXTAUTH_URL = url; // follow PORT unless someone chose a different address on purpose
   }
