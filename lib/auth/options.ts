@@ -2,7 +2,8 @@ import type { NextAuthOptions } from 'next-auth';
 import CredentialsProvider from 'next-auth/providers/credentials';
 import { verifyCredentials } from './credentials';
 
-function clientAddress(headers: Record<string, unknown> | undefined): string {
+/** The caller's address for rate limits: the first X-Forwarded-For hop, X-Real-IP, or "local". */
+export function clientAddress(headers: Record<string, unknown> | undefined): string {
   const forwarded = headers?.['x-forwarded-for'];
   const first = typeof forwarded === 'string' ? forwarded.split(',')[0]?.trim() : undefined;
   const real = headers?.['x-real-ip'];

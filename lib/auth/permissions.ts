@@ -29,6 +29,7 @@ export const apiPermissions: Record<string, Partial<Record<Method, Access>>> = {
   '/api/password-reset/complete': { POST: 'public' },
   '/api/password-reset/[token]': { GET: 'public' },
   '/api/account/notices': { GET: 'signed-in', PUT: 'signed-in' },
+  '/api/account/password': { PUT: 'signed-in' },
   '/api/mailbox': { GET: 'signed-in' },
   // planner: viewers read; editors write; any member may comment
   '/api/studies/[id]/priors': { GET: 'viewer', POST: 'editor' },

@@ -3,6 +3,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { Role } from '@/lib/auth/roles';
 import type { InvitationInput, NoticeSettingsInput, PasswordResetInput } from '@/lib/validations/team';
+import type { PasswordChangeInput } from '@/lib/validations/user';
 import type { InvitationLinkView } from '@/lib/services/invitations';
 import { apiFetch } from './api';
 import { studyKeys } from './studies';
@@ -145,6 +146,12 @@ export function useAcceptInvitation() {
 export function useRequestPasswordReset() {
   return useMutation({
     mutationFn: (email: string) => apiFetch<{ message: string }>('/api/password-reset', { method: 'POST', json: { email } }),
+  });
+}
+
+export function useChangePassword() {
+  return useMutation({
+    mutationFn: (input: PasswordChangeInput) => apiFetch<{ message: string }>('/api/account/password', { method: 'PUT', json: input }),
   });
 }
 

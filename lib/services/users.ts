@@ -1,9 +1,11 @@
 import bcrypt from 'bcryptjs';
-import { UniqueConstraintError } from 'sequelize';
-import { User } from '@/db/models';
+import { Op, UniqueConstraintError } from 'sequelize';
+import { PasswordResetToken, User } from '@/db/models';
 import { db } from '@/db';
-import { ConflictError } from '@/lib/api/errors';
-import type { SignUpInput } from '@/lib/validations/user';
+import { ApiError, ConflictError, ValidationError } from '@/lib/api/errors';
+import { TOO_MANY_ATTEMPTS, verifyCredentials } from '@/lib/auth/credentials';
+import type { PasswordChangeInput, SignUpInput } from '@/lib/validations/user';
+import { recordAudit } from './audit';
 
 /** Creates an account; an e-mail already in use is a 409. */
 export async function createUser(input: SignUpInput) {
@@ -15,4 +17,28 @@ export async function createUser(input: SignUpInput) {
     if (error instanceof UniqueConstraintError) throw new ConflictError('An account with this e-mail already exists. Sign in instead.');
     throw error;
   }
+}
+
+/**
+ * Changes a signed-in user's password after checking the current one (wrong guesses count
+ * towards the sign-in limit of that e-mail and address). Every session, this one included, ends;
+ * open reset links stop working; the change is audited in the same transaction.
+ * @throws ValidationError naming currentPassword when it is wrong; ApiError 429 when blocked.
+ */
+export async function changePassword(user: { id: number; email: string }, input: PasswordChangeInput, address: string): Promise<void> {
+  let verified;
+  try {
+    verified = await verifyCredentials(user.email, input.currentPassword, address);
+  } catch (error) {
+    if (error instanceof Error && error.message === TOO_MANY_ATTEMPTS) throw new ApiError(429, 'Too many wrong passwords. Wait 15 minutes and try again.');
+    throw error;
+  }
+  if (!verified || Number(verified.id) !== user.id) throw new ValidationError([{ path: 'currentPassword', message: 'This is not your current password.' }]);
+  const passwordHash = await bcrypt.hash(input.newPassword, 10);
+  await db().transaction(async (transaction) => {
+    await User.update({ passwordHash }, { where: { id: user.id }, transaction });
+    await User.increment('sessionEpoch', { by: 1, where: { id: user.id }, transaction });
+    await PasswordResetToken.update({ usedAt: new Date() }, { where: { userId: user.id, usedAt: { [Op.is]: null } }, transaction });
+    await recordAudit({ actorId: user.id, studyId: null, action: 'account.password-change', details: {} }, transaction);
+  });
 }

@@ -19,3 +19,16 @@ export const signUpSchema = z.strictObject({
   password: passwordSchema,
 });
 export type SignUpInput = z.infer<typeof signUpSchema>;
+
+/** Changing one's password while signed in: the current one proves it is really them. */
+export const passwordChangeSchema = z.strictObject({
+  currentPassword: z.string().min(1, 'Enter your current password.').max(200),
+  newPassword: passwordSchema,
+});
+export type PasswordChangeInput = z.infer<typeof passwordChangeSchema>;
+
+export const passwordChangeFormSchema = passwordChangeSchema
+  .extend({ confirm: z.string() })
+  .refine((v) => v.newPassword === v.confirm, { path: ['confirm'], message: 'The two passwords differ.' })
+  .refine((v) => v.newPassword !== v.currentPassword, { path: ['newPassword'], message: 'Choose a password different from the current one.' });
+export type PasswordChangeFormInput = z.infer<typeof passwordChangeFormSchema>;

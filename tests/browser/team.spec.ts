@@ -112,6 +112,47 @@ test('a forgotten password is reset through the mailed link, and the request pag
   await guest.goto(link!);
   await expect(guest.getByRole('heading', { name: 'This link cannot be used' })).toBeVisible();
   await guest.screenshot(shot('reset-link-used'));
+
+  // The session that was open before the reset has ended.
+  await page.goto('/studies');
+  await expect(page.getByRole('heading', { name: 'Sign in' })).toBeVisible();
+});
+
+test('a signed-in user changes their password on the account page, is signed out everywhere, and signs in with the new one', async ({ page, browser }) => {
+  const email = `changer-${Date.now()}@harbourlight.example.org`;
+  await page.goto('/sign-up');
+  await page.getByLabel('Name').fill('Sol Marden');
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill('first-password-2026');
+  await page.getByRole('button', { name: 'Create account' }).click();
+  await expect(page.getByRole('heading', { name: 'Your studies' })).toBeVisible();
+  // a second device, signed in as well
+  const other = await (await browser.newContext()).newPage();
+  await other.goto('/sign-in');
+  await other.getByLabel('E-mail').fill(email);
+  await other.getByLabel('Password').fill('first-password-2026');
+  await other.getByRole('button', { name: 'Sign in' }).click();
+  await expect(other.getByRole('heading', { name: 'Your studies' })).toBeVisible();
+
+  await page.getByRole('link', { name: 'Account' }).click();
+  await page.getByLabel('Current password').fill('not-my-password');
+  await page.getByLabel('New password', { exact: true }).fill('second-password-2026');
+  await page.getByLabel('New password again').fill('second-password-2026');
+  await page.getByRole('button', { name: 'Change password' }).click();
+  await expect(page.getByText('This is not your current password.')).toBeVisible();
+  await page.getByLabel('Current password').fill('first-password-2026');
+  await page.getByRole('button', { name: 'Change password' }).click();
+  await expect(page.getByText('Password changed')).toBeVisible();
+  await page.screenshot(shot('account-password-changed'));
+
+  await other.goto('/studies');
+  await expect(other.getByRole('heading', { name: 'Sign in' })).toBeVisible();
+  await page.getByRole('button', { name: 'Sign in again' }).click();
+  await expect(page.getByRole('heading', { name: 'Sign in' })).toBeVisible();
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill('second-password-2026');
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await expect(page.getByRole('heading', { name: 'Your studies' })).toBeVisible();
 });
 
 test('a withdrawn invitation link says so instead of failing', async ({ page, browser }) => {

@@ -1,5 +1,6 @@
 import type { Metadata } from 'next';
 import { redirect } from 'next/navigation';
+import { ChangePasswordForm } from '@/components/team/change-password-form';
 import { NoticeSettingsForm } from '@/components/team/notice-settings-form';
 import { getPageUser } from '@/lib/auth/session';
 
@@ -13,10 +14,11 @@ export default async function AccountPage() {
       <div>
         <h1>Your account</h1>
         <p className="mt-1 text-sm text-ink-soft">
-          Signed in as {user.name} ({user.email}). To change your password, sign out and use &ldquo;Forgot your password?&rdquo; on the sign-in page.
+          Signed in as {user.name} ({user.email}).
         </p>
       </div>
       <NoticeSettingsForm email={user.email} />
+      <ChangePasswordForm />
     </div>
   );
 }

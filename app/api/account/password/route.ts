@@ -1,0 +1,15 @@
+import { NextResponse } from 'next/server';
+import { route } from '@/lib/api/handler';
+import { readJson } from '@/lib/api/read-json';
+import { clientAddress } from '@/lib/auth/options';
+import { requireUser } from '@/lib/auth/session';
+import { changePassword } from '@/lib/services/users';
+import { passwordChangeSchema } from '@/lib/validations/user';
+
+/** Changes the signed-in user's password; every session ends, so the reply asks to sign in again. */
+export const PUT = route(async (request) => {
+  const user = await requireUser(request);
+  const input = await readJson(request, passwordChangeSchema);
+  await changePassword(user, input, clientAddress(Object.fromEntries(request.headers)));
+  return NextResponse.json({ message: 'Your password has been changed, and every session has ended. Sign in with the new password.' });
+});
