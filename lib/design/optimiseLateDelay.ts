@@ -24,6 +24,8 @@ const scratch: ZoneConstants = { a: 0, b: 0, p: 1, span: 0 };
  *   D* = d + [ln(2β/x) − ln(1 + βe^(−(k−K)d))] / K   (β = 1 for the exponential model).
  * For quasi-hyperbolic with β ≤ x the zone starts at D = d and the vertex can fall below it;
  * then C is largest as D → d⁺ and D* = d is returned with the limiting gap product.
+ * For the exponential model (β = 1 > x) the vertex always lies inside a non-empty zone, and
+ * with m = e^(−(k−K)d) − 1 it reads D* = D_lower − ln(1 + m/2)/K, C* = x²·e^(−Kd)·m²/4.
  *
  * Hyperboloid, power-delay, exponential-power (numerical). C′ > 0 at D_lower (where B = 0,
  * B′ > 0) and C′ < 0 at D_upper (where A = 0, A′ < 0), so C′ = f_K′(D)·B − A·f_K′(D − d)
@@ -54,7 +56,7 @@ export function optimiseLateDelay(input: PairInput): LateDelayOptimum | null {
   if ((s !== undefined && !(s > 0 && s < Infinity)) || (beta !== undefined && !(beta > 0 && beta <= 1))) return invalid(input);
   const id = model.id;
   if (id === 'hyperbolic') return d === 0 ? null : hyperbolicOptimum(x, d, k, K);
-  if (id === 'exponential') return d === 0 ? null : presentBiasOptimum(x, d, k, K, 1);
+  if (id === 'exponential') return d === 0 ? null : exponentialOptimum(x, d, k, K);
   if (id === 'quasi-hyperbolic') return d === 0 ? null : presentBiasOptimum(x, d, k, K, beta ?? 1);
   if (id === 'hyperboloid' || id === 'power-delay' || id === 'exponential-power') {
     return d === 0 ? null : numericalOptimum(id, s ?? 1, x, d, k, K);
@@ -79,6 +81,24 @@ function hyperbolicOptimum(x: number, d: number, k: number, K: number): LateDela
   const p = (xc1 + Math.sqrt(xc1 * (1 - a * c))) / (x + a);
   const gapProduct = (1 / p - a) * (x - 1 / (p - c));
   return { lower, upper, lateDelay: (p - 1) / K, gapProduct };
+}
+
+/**
+ * The β = 1 case of presentBiasOptimum, to the last bit, with emptiness (k·d > K·d) tested before
+ * any logarithm: about half of all random rate pairs give an empty zone, and each Math.log,
+ * expm1, log1p or exp is a library call costing more than the validation and arithmetic of a
+ * whole hyperbolic solve.
+ */
+function exponentialOptimum(x: number, d: number, k: number, K: number): LateDelayOptimum | null {
+  const kd = k * d;
+  if (!(kd > K * d)) return null;
+  const lnR = -Math.log(x);
+  const lower = d + lnR / K;
+  const upper = (kd + lnR) / K;
+  // m = e^y − 1 with y = (K − k)d < 0: no cancellation near the emptiness boundary
+  const m = Math.expm1((K - k) * d);
+  const lateDelay = lower - Math.log1p(0.5 * m) / K;
+  return { lower, upper, lateDelay, gapProduct: 0.25 * x * x * Math.exp(-K * d) * m * m };
 }
 
 function presentBiasOptimum(x: number, d: number, k: number, K: number, beta: number): LateDelayOptimum | null {

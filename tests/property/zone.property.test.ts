@@ -157,6 +157,16 @@ describe('optimal late delay properties', () => {
     );
   });
 
+  it('the exponential optimum is the quasi-hyperbolic one with β = 1, to the last bit', () => {
+    fc.assert(
+      fc.property(pair(fc.constant<ModelSpec>({ id: 'exponential' })), (input) => {
+        // the same closed form on two code paths (the exponential one skips ln β and tests emptiness first)
+        expect(optimiseLateDelay(input)).toEqual(optimiseLateDelay({ ...input, model: { id: 'quasi-hyperbolic', presentBias: 1 } }));
+      }),
+      { numRuns: 500 },
+    );
+  });
+
   it('closed forms agree with the function-value Brent maximiser to its sqrt(eps) limit', () => {
     fc.assert(
       fc.property(pair(fc.constantFrom<ModelSpec>({ id: 'hyperbolic' }, { id: 'exponential' }, { id: 'quasi-hyperbolic', presentBias: 0.9 })), (input) => {
