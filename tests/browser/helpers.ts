@@ -20,6 +20,16 @@ export async function signInAs(page: Page, role: DemoRole) {
   return account;
 }
 
+/** Makes a fresh account through the sign-up page (so the demo passwords stay as they are) and waits for the study list. */
+export async function signUpFresh(page: Page, name: string, email: string, password: string) {
+  await page.goto('/sign-up');
+  await page.getByLabel('Name').fill(name);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Create account' }).click();
+  await expect(page.getByRole('heading', { name: 'Your studies' })).toBeVisible();
+}
+
 /** Opens the seeded demo study from the study list. */
 export async function openDemoStudy(page: Page) {
   await page.goto('/studies');

@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test';
-import { openDemoStudy, shot, signInAs } from './helpers';
+import { openDemoStudy, shot, signInAs, signUpFresh } from './helpers';
 
 test('the demo owner invites an address, and the invitee joins through the mailed link with the invited role', async ({ page, browser }) => {
   test.setTimeout(120_000);
@@ -70,13 +70,7 @@ test('the demo owner invites an address, and the invitee joins through the maile
 test('a forgotten password is reset through the mailed link, and the request page answers the same for any address', async ({ page, browser }) => {
   test.setTimeout(120_000);
   const email = `resetter-${Date.now()}@harbourlight.example.org`;
-  // A fresh account made through the sign-up page, so the demo passwords stay as they are.
-  await page.goto('/sign-up');
-  await page.getByLabel('Name').fill('Ren Aldous');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill('first-password-2026');
-  await page.getByRole('button', { name: 'Create account' }).click();
-  await expect(page.getByRole('heading', { name: 'Your studies' })).toBeVisible();
+  await signUpFresh(page, 'Ren Aldous', email, 'first-password-2026');
 
   const guest = await (await browser.newContext()).newPage();
   await guest.goto('/sign-in');
@@ -120,12 +114,7 @@ test('a forgotten password is reset through the mailed link, and the request pag
 
 test('a signed-in user changes their password on the account page, is signed out everywhere, and signs in with the new one', async ({ page, browser }) => {
   const email = `changer-${Date.now()}@harbourlight.example.org`;
-  await page.goto('/sign-up');
-  await page.getByLabel('Name').fill('Sol Marden');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill('first-password-2026');
-  await page.getByRole('button', { name: 'Create account' }).click();
-  await expect(page.getByRole('heading', { name: 'Your studies' })).toBeVisible();
+  await signUpFresh(page, 'Sol Marden', email, 'first-password-2026');
   // a second device, signed in as well
   const other = await (await browser.newContext()).newPage();
   await other.goto('/sign-in');
