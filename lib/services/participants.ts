@@ -49,7 +49,8 @@ export async function serveProbeItemsJson(version: ServedVersion, participantId:
   }
   const responsesHash = contentHash(responses);
   const servedAt = new Date();
-  const reply: ProbeItemsReply = { ...served, designHash: version.hash, servedAt: servedAt.toISOString() };
+  // Object.assign, not a spread plus fields: the latter is slow in Node 20's V8 (see pairItems).
+  const reply: ProbeItemsReply = Object.assign({}, served, { designHash: version.hash, servedAt: servedAt.toISOString() });
   const json = JSON.stringify(reply);
   const row = [version.studyId, version.id, participantId, responsesHash, JSON.stringify(responses), json, served.flag];
   try {
