@@ -25,7 +25,7 @@ const INSERT_BY_USER = `INSERT INTO participants (${COLUMNS}) VALUES (?, ?, ?, ?
 const READ_BACK = 'SELECT responses_hash, design_version_id, result FROM participants WHERE study_id = ? AND participant_id = ?';
 const ER_DUP_ENTRY = 1062;
 
-/** A DATETIME(3) literal in UTC, as Sequelize writes dates with the pool's +00:00 time zone. */
+/** A DATETIME literal in UTC, as Sequelize writes dates with the pool's +00:00 time zone (the column keeps whole seconds). */
 function sqlDate(date: Date): string {
   return date.toISOString().slice(0, 23).replace('T', ' ');
 }
