@@ -39,6 +39,26 @@ export function db(): Sequelize {
   return holder.switchbackSequelize;
 }
 
+/** What a driver-level statement answers: rows for a SELECT, counts for a write. */
+export type RawResult = Record<string, unknown>[] & { affectedRows?: number; insertId?: number | bigint };
+
+/**
+ * One statement straight on a pooled driver connection, with the driver's own `?` placeholders
+ * (it escapes values while writing the packet). For the probe API's hot path, where Sequelize's
+ * replacement escaping, query object and result mapping cost more than the statement itself.
+ * Errors are the driver's own (`errno`, `code`); `isDatabaseUnavailable` reads those codes too.
+ * Not for statements inside a transaction: use Sequelize there.
+ */
+export async function rawQuery(sql: string, values: readonly unknown[]): Promise<RawResult> {
+  const manager = db().connectionManager;
+  const connection = await manager.getConnection({ type: 'write' });
+  try {
+    return await (connection as unknown as { query(sql: string, values: readonly unknown[]): Promise<RawResult> }).query(sql, values);
+  } finally {
+    manager.releaseConnection(connection);
+  }
+}
+
 /** Closes the pool (tests and scripts call this before exiting). */
 export async function closeDb(): Promise<void> {
   if (holder.switchbackSequelize) {

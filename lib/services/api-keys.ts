@@ -51,35 +51,55 @@ export async function listApiKeys(studyId: number) {
   return rows.map((k) => apiKeyJson(k, (k as unknown as { creator: User | null }).creator));
 }
 
-/** Revokes a key at once (in this process; other processes stop accepting it within the cache's TTL). */
+/**
+ * Revokes a key. It is refused at once everywhere: this process drops it from its cache once
+ * the revocation is committed, and every process's probe-items insert reads the key's revoked
+ * state in the same statement (serveProbeItems), so a cached key cannot serve another participant.
+ */
 export async function revokeApiKey(actorId: number, studyId: number, rawKeyId: string) {
   const id = Number(rawKeyId);
   if (!Number.isSafeInteger(id) || id <= 0) throw new NotFoundError('API key not found.');
   db();
-  return db().transaction(async (transaction) => {
-    const key = await ApiKey.findOne({ where: { id, studyId }, transaction, lock: transaction.LOCK.UPDATE });
-    if (!key) throw new NotFoundError('API key not found.');
-    if (!key.revokedAt) {
-      await key.update({ revokedAt: new Date(), revokedBy: actorId }, { transaction });
-      await recordAudit({ actorId, studyId, action: 'api-key.revoke', details: { keyId: key.id, name: key.name, prefix: key.prefix } }, transaction);
+  const key = await db().transaction(async (transaction) => {
+    const row = await ApiKey.findOne({ where: { id, studyId }, transaction, lock: transaction.LOCK.UPDATE });
+    if (!row) throw new NotFoundError('API key not found.');
+    if (!row.revokedAt) {
+      await row.update({ revokedAt: new Date(), revokedBy: actorId }, { transaction });
+      await recordAudit({ actorId, studyId, action: 'api-key.revoke', details: { keyId: row.id, name: row.name, prefix: row.prefix } }, transaction);
     }
-    keyCache.delete(key.secretHash);
-    return apiKeyJson(key, null);
+    return row;
   });
+  // After the commit: a lookup that read the row before it would otherwise cache it as active.
+  forgetApiKey(key.secretHash);
+  return apiKeyJson(key, null);
 }
 
-type CachedKey = { id: number; studyId: number; designVersionId: number; revoked: boolean; expires: number };
+export type CachedKey = { id: number; studyId: number; designVersionId: number; revoked: boolean };
 
 /**
  * Key lookups by hashed secret, cached in this process for KEY_CACHE_MS so the hot path of the
- * probe-items API does not query the database for every request. A key revoked through this
- * process is dropped from the cache at once; another process notices within the TTL.
+ * probe-items API does not query the database for every request. The cache only saves the
+ * lookup: whether a key is revoked is read again by the statement that records a participant
+ * (serveProbeItems), so a key revoked through another process serves nobody; within the TTL
+ * such a key can still be told 422 (bad responses) or 429 instead of 401. `generation` makes a
+ * lookup that raced with a revocation in this process skip the cache.
  */
-const keyCache = new Map<string, CachedKey | null>();
-const keyExpiry = new Map<string, number>();
+const keyCache = new Map<string, { key: CachedKey | null; expires: number }>();
+let generation = 0;
 export const KEY_CACHE_MS = 10_000;
+const KEY_CACHE_LIMIT = 10_000;
 const LAST_USED_EVERY_MS = 60_000;
 const lastUsedWritten = new Map<number, number>();
+
+function forgetApiKey(secretHash: string): void {
+  generation++;
+  keyCache.delete(secretHash);
+}
+
+/** Marks a cached key revoked after the database refused it (revoked through another process). */
+export function markApiKeyRevoked(key: CachedKey): void {
+  key.revoked = true;
+}
 
 /**
  * The API key of a request (`Authorization: Bearer <key>`) for `studyId`. Missing, unknown or
@@ -91,24 +111,25 @@ export async function requireApiKey(request: NextRequest, studyId: number): Prom
   if (!match) throw new UnauthorizedError('Send the study\'s API key as "Authorization: Bearer <key>".');
   const hash = hashSecret(match[1]);
   const now = Date.now();
-  let key = (keyExpiry.get(hash) ?? 0) > now ? keyCache.get(hash) : undefined;
+  const hit = keyCache.get(hash);
+  let key = hit && hit.expires > now ? hit.key : undefined;
   if (key === undefined) {
+    const startedAt = generation;
     db();
     const row = await ApiKey.findOne({ where: { secretHash: hash }, attributes: ['id', 'studyId', 'designVersionId', 'revokedAt'] });
-    key = row ? { id: row.id, studyId: row.studyId, designVersionId: row.designVersionId, revoked: row.revokedAt !== null, expires: now + KEY_CACHE_MS } : null;
-    keyCache.set(hash, key);
-    keyExpiry.set(hash, now + KEY_CACHE_MS);
-    if (keyCache.size > 10_000) {
-      keyCache.clear();
-      keyExpiry.clear();
+    key = row ? { id: row.id, studyId: row.studyId, designVersionId: row.designVersionId, revoked: row.revokedAt !== null } : null;
+    if (startedAt === generation) {
+      if (keyCache.size >= KEY_CACHE_LIMIT) keyCache.clear();
+      keyCache.set(hash, { key, expires: now + KEY_CACHE_MS });
     }
   }
   if (!key || key.revoked) throw new UnauthorizedError('This API key is unknown or has been revoked.');
   if (key.studyId !== studyId) throw new NotFoundError('Study not found.');
   if (now - (lastUsedWritten.get(key.id) ?? 0) > LAST_USED_EVERY_MS) {
     lastUsedWritten.set(key.id, now);
+    const id = key.id;
     // Written at most once a minute per key, outside the request's critical path.
-    ApiKey.update({ lastUsedAt: new Date(now) }, { where: { id: key.id } }).catch(() => lastUsedWritten.delete(key.id));
+    ApiKey.update({ lastUsedAt: new Date(now) }, { where: { id } }).catch(() => lastUsedWritten.delete(id));
   }
   return key;
 }

@@ -131,16 +131,20 @@ export function readExportOptions(request: Request): ExportOptions {
   return parsed.data;
 }
 
-const versionCache = new Map<number, DesignVersion>();
+/** What the probe-items API needs of a frozen version, as a plain object. */
+export type FrozenVersionRef = { id: number; studyId: number; hash: string; content: FrozenDesign };
+
+const versionCache = new Map<number, FrozenVersionRef>();
 
 /** A frozen version by id, cached in this process (frozen content never changes). */
-export async function frozenVersionById(id: number): Promise<DesignVersion> {
+export async function frozenVersionById(id: number): Promise<FrozenVersionRef> {
   const hit = versionCache.get(id);
   if (hit) return hit;
   db();
   const version = await DesignVersion.findByPk(id);
   if (!version) throw new NotFoundError('The design version of this key no longer exists.');
+  const ref = { id: version.id, studyId: version.studyId, hash: version.hash, content: version.content };
   if (versionCache.size > 256) versionCache.clear();
-  versionCache.set(id, version);
-  return version;
+  versionCache.set(id, ref);
+  return ref;
 }

@@ -1,7 +1,7 @@
 // The probe-items API on the real MariaDB: every error status, idempotency, the 409, and 50
 // parallel requests for one participant creating one record.
 import { beforeAll, describe, expect, it } from 'vitest';
-import { AuditEvent, Participant } from '@/db/models';
+import { ApiKey, AuditEvent, Participant } from '@/db/models';
 import { POST as probeItems } from '@/app/api/v1/studies/[id]/probe-items/route';
 import { GET as openapi } from '@/app/api/v1/openapi.json/route';
 import { POST as createKey } from '@/app/api/studies/[id]/api-keys/route';
@@ -83,6 +83,28 @@ describe('the probe-items API', () => {
     expect((await ask(other, other.secret, { participantId: 'R-2', responses: other.responses })).status).toBe(401);
     const actions = (await AuditEvent.findAll({ where: { studyId: other.study.id } })).map((e) => e.action);
     expect(actions).toEqual(expect.arrayContaining(['api-key.create', 'api-key.revoke']));
+  });
+
+  it('refuses a key revoked by another process at once, although this process still has it cached', async () => {
+    const other = await setUp('Key revoked elsewhere study');
+    expect((await ask(other, other.secret, { participantId: 'E-1', responses: other.responses })).status).toBe(200);
+    // what another server process's revoke leaves behind: the row changed, this process's cache not
+    await ApiKey.update({ revokedAt: new Date() }, { where: { id: other.key.id } });
+    expect((await ask(other, other.secret, { participantId: 'E-2', responses: other.responses })).status).toBe(401);
+    expect((await ask(other, other.secret, { participantId: 'E-1', responses: other.responses })).status).toBe(401);
+    expect(await Participant.count({ where: { studyId: other.study.id, participantId: 'E-2' } })).toBe(0);
+  });
+
+  it('records the participant with the key, the served time and the reply it sent', async () => {
+    const reply = await ask(s, s.secret, { participantId: 'P-record', responses: s.responses });
+    expect(reply.status).toBe(200);
+    const stored = await Participant.findOne({ where: { studyId: s.study.id, participantId: 'P-record' } });
+    expect(stored?.apiKeyId).toBe(s.key.id);
+    expect(stored?.source).toBe('api');
+    expect(stored?.designVersionId).toBe(s.version.id);
+    // created_at keeps whole seconds; the same instant in UTC, not shifted by a time zone
+    expect(Math.abs(stored!.createdAt.getTime() - Date.parse(reply.body.servedAt as string))).toBeLessThan(1000);
+    expect(stored?.result).toEqual(reply.body);
   });
 
   it("answers 404 for a key of another study", async () => {

@@ -59,12 +59,15 @@ export function pairItems(
   const rounding: PairRoundingEntry[] = [];
   for (const { pairId, role, D } of pairs) {
     const Dr = Math.max(roundDelay(D, options.delayUnit), dr + roundDelay(1, options.delayUnit));
-    const base = { block: 'probe' as const, role, set: options.set, pairId, magnitude: null, soonerAmount: S, laterAmount: L };
-    items.push({ ...base, id: `${pairId}-far`, view: 'far', soonerDelay: dr, laterDelay: Dr });
-    items.push({ ...base, id: `${pairId}-near`, view: 'near', soonerDelay: 0, laterDelay: Dr - dr });
-    const common = { model: spec.model, kSmall: rates.kSmall, kLarge: rates.kLarge };
-    const exactPattern = predictPattern({ ...common, ratio: spec.ratio, soonDelay: d, lateDelay: D });
-    const roundedPattern = predictPattern({ ...common, ratio: S / L, soonDelay: dr, lateDelay: Dr });
+    // Whole literals rather than `{ ...base, id, ... }`: in Node 20's V8, adding fields to a
+    // spread copy costs microseconds per field, and the probe API builds these per request.
+    const { set } = options;
+    items.push({ block: 'probe', role, set, pairId, magnitude: null, soonerAmount: S, laterAmount: L, id: `${pairId}-far`, view: 'far', soonerDelay: dr, laterDelay: Dr });
+    items.push({ block: 'probe', role, set, pairId, magnitude: null, soonerAmount: S, laterAmount: L, id: `${pairId}-near`, view: 'near', soonerDelay: 0, laterDelay: Dr - dr });
+    const { model } = spec;
+    const { kSmall, kLarge } = rates;
+    const exactPattern = predictPattern({ model, kSmall, kLarge, ratio: spec.ratio, soonDelay: d, lateDelay: D });
+    const roundedPattern = predictPattern({ model, kSmall, kLarge, ratio: S / L, soonDelay: dr, lateDelay: Dr });
     rounding.push({
       pairId,
       role,

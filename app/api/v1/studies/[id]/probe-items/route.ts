@@ -5,7 +5,7 @@ import { readJson } from '@/lib/api/read-json';
 import { requireApiKey } from '@/lib/services/api-keys';
 import { frozenVersionById } from '@/lib/services/item-bank';
 import { probeRateLimiter } from '@/lib/services/item-bank-rate-limit';
-import { serveProbeItems } from '@/lib/services/participants';
+import { serveProbeItemsJson } from '@/lib/services/participants';
 import { probeItemsRequestSchema } from '@/lib/validations/item-bank';
 
 /** A participant's personalised probe block from their calibration responses (Bearer API key). */
@@ -19,5 +19,7 @@ export const POST = route<{ id: string }>(async (request, { params }) => {
   const body = await readJson(request, probeItemsRequestSchema);
   const version = await frozenVersionById(key.designVersionId);
   if (version.studyId !== key.studyId) throw new ApiError(500, 'API key and design version disagree.');
-  return NextResponse.json(await serveProbeItems(version, body.participantId, body.responses, { source: 'api', apiKeyId: key.id }));
+  // The reply's JSON text as stored with the participant: built once, sent as is.
+  const json = await serveProbeItemsJson(version, body.participantId, body.responses, { source: 'api', key });
+  return new NextResponse(json, { headers: { 'content-type': 'application/json' } });
 });
