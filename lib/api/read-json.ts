@@ -1,6 +1,6 @@
 import type { z } from 'zod';
 import { ApiError, ValidationError } from './errors';
-import { zodIssues } from './handler';
+import { zodIssues } from './error-reply';
 
 export const MAX_BODY_BYTES = 1_000_000;
 
@@ -9,7 +9,13 @@ export const MAX_BODY_BYTES = 1_000_000;
  * wrong types or unknown fields (schemas are strict) → 422 naming the fields.
  */
 export async function readJson<S extends z.ZodType>(request: Request, schema: S): Promise<z.infer<S>> {
-  const text = await readBodyText(request, MAX_BODY_BYTES, 'The request body is larger than 1 MB.');
+  return parseJsonText(await readBodyText(request, MAX_BODY_BYTES, BODY_TOO_LARGE), schema);
+}
+
+export const BODY_TOO_LARGE = 'The request body is larger than 1 MB.';
+
+/** Parses a body already read as text: malformed JSON → 400, schema failures → 422 naming the fields. */
+export function parseJsonText<S extends z.ZodType>(text: string, schema: S): z.infer<S> {
   let data: unknown;
   try {
     data = text.length ? JSON.parse(text) : undefined;
