@@ -1,5 +1,4 @@
 import { createHash, randomBytes } from 'node:crypto';
-import type { NextRequest } from 'next/server';
 import { ApiKey, User } from '@/db/models';
 import { db } from '@/db';
 import { NotFoundError, UnauthorizedError } from '@/lib/api/errors';
@@ -83,16 +82,22 @@ export type CachedKey = { id: number; studyId: number; designVersionId: number; 
  * (serveProbeItems), so a key revoked through another process serves nobody; within the TTL
  * such a key can still be told 422 (bad responses) or 429 instead of 401. `generation` makes a
  * lookup that raced with a revocation in this process skip the cache.
+ *
+ * The cache lives on globalThis: in production one process holds two copies of this module (Next's
+ * bundle, which revokes keys, and the one scripts/serve.mjs loads to answer the probe API), and a
+ * revocation through either must reach the cache the other reads.
  */
-const keyCache = new Map<string, { key: CachedKey | null; expires: number }>();
-let generation = 0;
+type KeyCacheState = { keys: Map<string, { key: CachedKey | null; expires: number }>; generation: number; lastUsedWritten: Map<number, number> };
+const cacheHolder = globalThis as unknown as { switchbackApiKeyCache?: KeyCacheState };
+const cache = (cacheHolder.switchbackApiKeyCache ??= { keys: new Map(), generation: 0, lastUsedWritten: new Map() });
+const keyCache = cache.keys;
+const lastUsedWritten = cache.lastUsedWritten;
 export const KEY_CACHE_MS = 10_000;
 const KEY_CACHE_LIMIT = 10_000;
 const LAST_USED_EVERY_MS = 60_000;
-const lastUsedWritten = new Map<number, number>();
 
 function forgetApiKey(secretHash: string): void {
-  generation++;
+  cache.generation++;
   keyCache.delete(secretHash);
 }
 
@@ -102,11 +107,12 @@ export function markApiKeyRevoked(key: CachedKey): void {
 }
 
 /**
- * The API key of a request (`Authorization: Bearer <key>`) for `studyId`. Missing, unknown or
- * revoked → 401; a valid key of another study → 404 (the study does not leak).
+ * The API key sent in an Authorization header value (`Bearer <key>`, null when the header is
+ * missing) for `studyId`. Missing, unknown or revoked → 401; a valid key of another study → 404
+ * (the study does not leak).
  */
-export async function requireApiKey(request: NextRequest, studyId: number): Promise<CachedKey> {
-  const header = request.headers.get('authorization') ?? '';
+export async function requireApiKey(authorization: string | null, studyId: number): Promise<CachedKey> {
+  const header = authorization ?? '';
   const match = /^Bearer\s+(\S+)$/i.exec(header);
   if (!match) throw new UnauthorizedError('Send the study\'s API key as "Authorization: Bearer <key>".');
   const hash = hashSecret(match[1]);
@@ -114,11 +120,11 @@ export async function requireApiKey(request: NextRequest, studyId: number): Prom
   const hit = keyCache.get(hash);
   let key = hit && hit.expires > now ? hit.key : undefined;
   if (key === undefined) {
-    const startedAt = generation;
+    const startedAt = cache.generation;
     db();
     const row = await ApiKey.findOne({ where: { secretHash: hash }, attributes: ['id', 'studyId', 'designVersionId', 'revokedAt'] });
     key = row ? { id: row.id, studyId: row.studyId, designVersionId: row.designVersionId, revoked: row.revokedAt !== null } : null;
-    if (startedAt === generation) {
+    if (startedAt === cache.generation) {
       if (keyCache.size >= KEY_CACHE_LIMIT) keyCache.clear();
       keyCache.set(hash, { key, expires: now + KEY_CACHE_MS });
     }
