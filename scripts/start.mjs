@@ -1,12 +1,13 @@
 // `npm start` (production build) and `npm run dev` (`--dev`, hot reload): one command brings up
 // the private MariaDB, migrates and seeds it, starts local services, builds when sources changed,
-// and runs Next on 127.0.0.1:$PORT (3000). Ctrl-C or the app exiting stops everything again.
+// and runs the app on 127.0.0.1:$PORT (3000): `next dev`, or scripts/serve.mjs over the build.
+// Ctrl-C or the app exiting stops everything again.
 import { existsSync, readdirSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { readEnvFile, startDatabase, stopDatabase } from '../db/server.mjs';
 import { demoAccounts, demoGroup } from '../db/seeders/demo-accounts.mjs';
-import { spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
+import { spawnNode, spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const dev = process.argv.includes('--dev');
@@ -111,9 +112,16 @@ async function main() {
     writeFileSync(BUILD_MARK, 'FOR=app\n');
   }
 
-  const args = dev ? ['next', 'dev', '-H', '127.0.0.1', '-p', port] : ['next', 'start', '-H', '127.0.0.1', '-p', port];
-  log(`$ npx ${args.join(' ')}`);
-  child = spawnNpx(args, { env });
+  // Production: scripts/serve.mjs, Next plus the probe-items API answered directly (see DEVELOPERS.md).
+  if (dev) {
+    const args = ['next', 'dev', '-H', '127.0.0.1', '-p', port];
+    log(`$ npx ${args.join(' ')}`);
+    child = spawnNpx(args, { env });
+  } else {
+    const args = ['scripts/serve.mjs', '-H', '127.0.0.1', '-p', port];
+    log(`$ node ${args.join(' ')}`);
+    child = spawnNode(args, { env, cwd: ROOT });
+  }
   const exited = waitForExit(child);
   exited.then((code) => {
     if (!shuttingDown) log(`The app exited (${code}).`);

@@ -66,6 +66,11 @@ export function spawnNpx(args, { env = process.env, stdio = 'inherit', cwd } = {
   return spawn('npx', ['--no-install', ...args], { env, stdio, cwd, detached: true });
 }
 
+/** Spawns `node <args>` with this Node binary, in its own process group like spawnNpx. */
+export function spawnNode(args, { env = process.env, stdio = 'inherit', cwd } = {}) {
+  return spawn(process.execPath, args, { env, stdio, cwd, detached: true });
+}
+
 /** Resolves with the exit code of a child (signals map to 128 + n like a shell). */
 export function waitForExit(child) {
   if (child.exitCode !== null) return Promise.resolve(child.exitCode);

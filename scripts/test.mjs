@@ -13,7 +13,7 @@ import { closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, write
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { startDatabase, stopDatabase } from '../db/server.mjs';
-import { ensureChromium, spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
+import { ensureChromium, spawnNode, spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const ARTIFACTS = path.join(ROOT, 'tests', 'artifacts');
@@ -163,7 +163,8 @@ async function main({ mode, extra }) {
       await step(`server on ${baseUrl}`, async () => {
         mkdirSync(ARTIFACTS, { recursive: true });
         const out = openSync(SERVER_LOG, 'w');
-        server = spawnNpx(['next', 'start', '-H', '127.0.0.1', '-p', port], { env, stdio: ['ignore', out, out] });
+        // The production server (Next plus the probe-items API answered directly), as `npm start` runs it.
+        server = spawnNode(['scripts/serve.mjs', '-H', '127.0.0.1', '-p', port], { env, stdio: ['ignore', out, out], cwd: ROOT });
         closeSync(out);
         say(`server output: ${path.relative(ROOT, SERVER_LOG)}`);
         try {

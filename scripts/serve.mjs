@@ -1,0 +1,65 @@
+// The production server that scripts/start.mjs and scripts/test.mjs run instead of `next start`:
+// the same Next app (`next({ dev: false })` over the build in .next, or NEXT_DIST_DIR), on one
+// node:http server, except that POST /api/v1/studies/{id}/probe-items is answered directly by
+// lib/server/direct-api.ts (the survey-facing hot path; Next's own request handling costs more
+// than the endpoint). Everything else, this endpoint's other methods included, goes to Next.
+//
+//   node scripts/serve.mjs [-H 127.0.0.1] [-p 3000]      (the port defaults to PORT, else 3000)
+//
+// SIGTERM or SIGINT closes the listener and Next, then exits.
+import { createServer } from 'node:http';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
+
+function parseArgs(argv) {
+  let hostname = '127.0.0.1';
+  let port = process.env.PORT || '3000';
+  for (let i = 0; i < argv.length; i++) {
+    if (argv[i] === '-H' || argv[i] === '--hostname') hostname = argv[++i];
+    else if (argv[i] === '-p' || argv[i] === '--port') port = argv[++i];
+    else throw new Error(`unknown option ${argv[i]} (usage: node scripts/serve.mjs [-H host] [-p port])`);
+  }
+  return { hostname, port: Number(port) };
+}
+
+const { hostname, port } = parseArgs(process.argv.slice(2));
+// As `next start` does: this server only ever serves a production build.
+process.env.NODE_ENV = 'production';
+
+const { default: next } = await import('next');
+const app = next({ dev: false, dir: ROOT, hostname, port });
+const handle = app.getRequestHandler();
+await app.prepare(); // runs instrumentation.ts's register(), as `next start` does
+// Loaded through tsx (the `@/` alias resolves from tsconfig.json): a module copy of its own beside
+// Next's bundle, sharing the Sequelize pool and the API-key cache through globalThis.
+const { tsImport } = await import('tsx/esm/api');
+const { answerDirect } = await tsImport('../lib/server/direct-api.ts', import.meta.url);
+
+const server = createServer((request, response) => {
+  if (answerDirect(request, response)) return;
+  handle(request, response);
+});
+
+let closing = null;
+function close(code) {
+  closing ??= (async () => {
+    const forced = setTimeout(() => process.exit(code), 5_000);
+    forced.unref();
+    await new Promise((resolve) => server.close(() => resolve()));
+    await app.close().catch(() => {});
+    process.exit(code);
+  })();
+  server.closeIdleConnections?.();
+}
+process.on('SIGTERM', () => close(0));
+process.on('SIGINT', () => close(0));
+
+server.on('error', (error) => {
+  console.error(`[switchback] the server could not listen on ${hostname}:${port}: ${error.message}`);
+  process.exit(1);
+});
+server.listen(port, hostname, () => {
+  console.log(`[switchback] serving ${path.relative(process.cwd(), ROOT) || '.'} on http://${hostname}:${port} (probe-items API answered directly)`);
+});
