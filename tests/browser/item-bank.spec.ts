@@ -45,6 +45,8 @@ test('the demo operator creates an API key, downloads the item bank and sees a p
   const studyId = new URL(studyUrl).pathname.split('/')[2];
   const reply = await page.request.post(`/api/v1/studies/${studyId}/probe-items`, { headers: { Authorization: `Bearer ${secret}` }, data: { participantId, responses } });
   expect(reply.status()).toBe(200);
+  // answered by the production server's direct path (scripts/serve.mjs), not through Next
+  expect(reply.headers()['x-switchback-path']).toBe('direct');
   const body = await reply.json();
   expect(body.items.length).toBeGreaterThan(2);
 
@@ -54,6 +56,18 @@ test('the demo operator creates an API key, downloads the item bank and sees a p
   await page.getByRole('button', { name: participantId }).click();
   await expect(page.getByRole('table', { name: `Items served to ${participantId}` }).getByTestId('item-row').first()).toBeVisible();
   await page.screenshot(shot('item-bank-participants'));
+
+  // Revoked through the app (Next's module copy), the key is refused at once by the direct path
+  // (its own module copy, same process): 401 even for a body it would otherwise answer 422.
+  const { keys } = (await (await page.request.get(`/api/studies/${studyId}/api-keys`)).json()) as { keys: Array<{ id: number; name: string }> };
+  const keyId = keys.find((k) => k.name === keyName)!.id;
+  const replay = await page.request.post(`/api/v1/studies/${studyId}/probe-items`, { headers: { Authorization: `Bearer ${secret}` }, data: { participantId, responses } });
+  expect(await replay.json()).toEqual(body); // the same items again, and the key freshly cached by the direct path
+  expect((await page.request.delete(`/api/studies/${studyId}/api-keys/${keyId}`)).status()).toBe(200);
+  const invalid = await page.request.post(`/api/v1/studies/${studyId}/probe-items`, { headers: { Authorization: `Bearer ${secret}` }, data: { participantId: `${participantId}-b`, responses: { nothing: 'maybe' } } });
+  expect([invalid.status(), invalid.headers()['x-switchback-path']]).toEqual([401, 'direct']);
+  const valid = await page.request.post(`/api/v1/studies/${studyId}/probe-items`, { headers: { Authorization: `Bearer ${secret}` }, data: { participantId: `${participantId}-c`, responses } });
+  expect(valid.status()).toBe(401);
 });
 
 test('the demo operator fills in the answer sheet offline, serves the batch and downloads the item sets as CSV', async ({ page }) => {

@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { GET as health } from '@/app/api/health/route';
 import { GET as listStudies } from '@/app/api/studies/route';
 import { startDatabase, stopDatabase } from '@/db/server.mjs';
+import { handleProbeItems } from '@/lib/services/probe-endpoint';
 import { ctx, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
 
 let user: TestUser;
@@ -27,6 +28,10 @@ describe.skipIf(Boolean(process.env.TEST_DB_HOST))('when the database goes away'
     expect(during.status).toBe(503);
     expect(await during.json()).toEqual({ error: 'database unavailable' });
     expect((await health()).status).toBe(503);
+    // the probe-items API (Next route and the production server's direct path alike): a key not
+    // cached yet has to be looked up, and the lookup finds no database
+    const probe = await handleProbeItems({ studyId: '1', authorization: 'Bearer sbk_outage_key', readBody: async () => '{}' });
+    expect([probe.status, probe.headers['Retry-After'], JSON.parse(probe.body)]).toEqual([503, '5', { error: 'database unavailable' }]);
 
     await startDatabase({ instance: 'test', log: () => {} });
     let after = 0;
