@@ -1,0 +1,277 @@
+import type { LateDelayOptimum } from './optimiseLateDelay';
+
+/** The models whose optimal late delay has no closed form. */
+export type NumericalModelId = 'hyperboloid' | 'power-delay' | 'exponential-power';
+
+const LOG_MAX = Math.log(Number.MAX_VALUE);
+
+/**
+ * Zone and optimal late delay for the hyperboloid, power-delay and exponential-power models
+ * (inputs already validated, d > 0); null when the zone is empty.
+ *
+ * The bounds are the closed forms of zoneBounds.ts, computed with the same expressions as
+ * reversalZone. The optimum is the root of ψ(t) = d ln C/dt in t = ln(D − d): see slopeRoot.
+ */
+export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: number, k: number, K: number): LateDelayOptimum | null {
+  let lower: number;
+  let upper: number;
+  let lowGap: number; // D_lower − d
+  let tLow: number; // ln(D_lower − d)
+  let farSoon: number; // x·f_k(d)
+  let start: number;
+  if (id === 'hyperboloid') {
+    // a = r^(1/s) − 1 (expm1 keeps it accurate for x near 1), b = a + (a + 1)·k·d, p = 1
+    const a = Math.expm1(-Math.log(x) / s);
+    const span = (a + 1) * k * d;
+    if (!(span > K * d)) return null;
+    lowGap = a / K;
+    lower = d + lowGap;
+    upper = (a + span) / K;
+    if (!(upper > lower)) return null;
+    tLow = Math.log(lowGap);
+    farSoon = x * Math.pow(1 + k * d, -s);
+    // f_K(delay) = m at delay = (m^(−1/s) − 1)/K, where f″/f′² = (s + 1)/(s·m)
+    const m = 0.5 * (x + farSoon);
+    start = startingPoint(Math.expm1(-Math.log(m) / s) / K, d, x, m, (s + 1) / (s * m));
+  } else {
+    // a = (1 − x)/x or ln r, b = a + k·d^s (as zoneConstants writes them), p = 1/s; d^s also gives f_k(d)
+    const ds = Math.pow(d, s);
+    const power = id === 'power-delay';
+    const a = power ? (1 - x) / x : -Math.log(x);
+    const b = power ? (1 - x + k * ds) / x : k * ds + a;
+    if (s === 1 && !(b - a > K * d)) return null;
+    const p = 1 / s;
+    tLow = p * Math.log(a / K);
+    lowGap = Math.exp(tLow);
+    lower = d + lowGap;
+    upper = Math.pow(b / K, p);
+    if (!(upper > lower)) return null;
+    farSoon = x * (power ? 1 / (1 + k * ds) : Math.exp(-k * ds));
+    // f_K(delay) = m where u = K·delay^s is (1 − m)/m (power-delay) or −ln m; with u′/u = s/delay
+    // and u″/u′² = (s − 1)/(s·u), f″/f′² is 2/m − (s − 1)/(s·u·m²), respectively (1 − (s − 1)/(s·u))/m
+    const m = 0.5 * (x + farSoon);
+    const u = power ? (1 - m) / m : -Math.log(m);
+    const curvature = power ? 2 / m - (s - 1) / (s * u * m * m) : (1 - (s - 1) / (s * u)) / m;
+    start = startingPoint(Math.exp(p * Math.log(u / K)), d, x, m, curvature);
+  }
+  // upper is Infinity when the bound overflows a double (tiny s); the search then stops at the largest double
+  const tHigh = upper < Infinity ? Math.log(upper - d) : LOG_MAX;
+  zone.id = id;
+  zone.s = s;
+  zone.x = x;
+  zone.d = d;
+  zone.K = K;
+  zone.farSoon = farSoon;
+  zone.lowGap = lowGap;
+  zone.upper = upper;
+  zone.tLow = tLow;
+  zone.tHigh = tHigh;
+  slopeRoot(start > tLow && start < tHigh ? start : 0.5 * (tLow + tHigh));
+  return { lower, upper, lateDelay: d + state.nearDelay, gapProduct: state.far * state.near };
+}
+
+/**
+ * ln(D₀ − d) for a first point D₀ close to the optimum. C′ = 0 reads f′(D)·B = f′(D − d)·A. With
+ * d small against the scale on which f changes, expanding f and f′ at D − d to first order in d
+ * gives f′·(x + x·f_k(d) − 2f) = d·(f′² − f″·(x − f)), whose root lies a distance
+ * (d/2)·(1 − f″·(x − m)/f′²) below the delay e_m where f = m = (x + x·f_k(d))/2 (the optimum as
+ * d → 0, where C ≈ (f − x·f_k(d))(x − f)). `curvature` is f″/f′² at e_m. Returns NaN when the
+ * expansion overshoots below 0; the caller then starts from the middle.
+ */
+function startingPoint(midDelay: number, d: number, x: number, m: number, curvature: number): number {
+  return Math.log(midDelay - 0.5 * d * (1 - curvature * (x - m)));
+}
+
+/** The solve in hand: model, inputs, x·f_k(d), D_lower − d, D_upper and the bracket ends in t. */
+const zone = { id: 'hyperboloid' as NumericalModelId, s: 1, x: 0.5, d: 1, K: 1, farSoon: 0, lowGap: 0, upper: 0, tLow: 0, tHigh: 0 };
+/** Gaps at the returned point (module scratch keeps the solver allocation-free). */
+const state = { nearDelay: 0, far: 0, near: 0 };
+/** f and f⁽ⁿ⁾/f for n = 1…4, derivatives in t, of f_K at D (far) and at D − d (near). */
+const far = new Float64Array(5);
+const near = new Float64Array(5);
+/** ψ and its first three derivatives in t at the last evaluated point. */
+const psi = new Float64Array(4);
+
+/**
+ * Root of ψ(t) = d ln C/dt, t = ln(D − d), between t_L = ln(D_lower − d) and t_U = ln(D_upper − d).
+ *
+ * ψ = (ln A)′ + (ln B)′ has a simple pole of residue +1 at t_L, where B vanishes, and of residue −1
+ * at t_U, where A vanishes, so it falls from +∞ to −∞ across the zone: a guaranteed bracket. The
+ * steps are taken on Ψ = ψ·(t − t_L)(t_U − t), which has the same roots inside the zone but no
+ * poles, and is close to linear (exactly so when the discount function is linear between the
+ * bounds). Each step is Householder's third-order step on Ψ (quartic convergence; analytic ψ′, ψ″
+ * and ψ‴), taken inside the bracket [lo, hi] that shrinks to the evaluated point on the side given
+ * by the sign of ψ; a step leaving the bracket, or not halving the step before last, is replaced by
+ * bisection (the safeguard of Press et al. 2007, Numerical Recipes 3rd ed., §9.4, "rtsafe").
+ *
+ * Stops once a step is at most 1e-5·min(1, distance to the nearer pole): a fourth-order step
+ * that small leaves an error of order 1e-20, as a Newton step of 1e-10 does. The returned point
+ * is that last step taken, with D − d and both gaps carried to it by Taylor series to third order
+ * (the derivatives are at hand), so no evaluation is spent on it. Leaves the gaps in `state`.
+ */
+function slopeRoot(start: number): void {
+  const tLow = zone.tLow;
+  const tHigh = zone.tHigh;
+  let lo = tLow;
+  let hi = tHigh;
+  let t = start;
+  let step = hi - lo;
+  let stepBefore = step;
+  for (let iter = 0; iter < 200; iter++) {
+    const e = evaluate(t);
+    const g = psi[0];
+    // ψ is not finite only when a gap underflows to 0 (every discount factor below 1e-308):
+    // the criterion is flat zero there and any point of the zone is as good
+    if (g === 0 || !Number.isFinite(g)) return;
+    if (g > 0) lo = t;
+    else hi = t;
+    // Ψ = ψ·w with w = (t − t_L)(t_U − t): w′ = t_L + t_U − 2t, w″ = −2, w‴ = 0
+    const w = (t - tLow) * (tHigh - t);
+    const w1 = tLow + tHigh - 2 * t;
+    const G = g * w;
+    const G1 = psi[1] * w + g * w1;
+    const G2 = psi[2] * w + 2 * psi[1] * w1 - 2 * g;
+    const G3 = psi[3] * w + 3 * psi[2] * w1 - 6 * psi[1];
+    const delta = (3 * G * (2 * G1 * G1 - G * G2)) / (6 * G1 * G1 * G1 - G * (6 * G1 * G2 - G * G3));
+    if (Math.abs(delta) <= 1e-5 * Math.min(1, t - tLow, tHigh - t)) {
+      // converged: move to t − δ (kept inside the bracket, which rounding could otherwise leave)
+      const h = t - Math.min(hi, Math.max(lo, t - delta));
+      const h2 = 0.5 * h * h;
+      const h3 = (h2 * h) / 3;
+      // the gaps are moved by their own small increments, keeping whatever accuracy they have
+      state.nearDelay = e * (1 - h + h2 - h3);
+      state.far -= far[0] * (far[1] * h - far[2] * h2 + far[3] * h3);
+      state.near += near[0] * (near[1] * h - near[2] * h2 + near[3] * h3);
+      return;
+    }
+    let next = t - delta;
+    if (!(next > lo && next < hi) || 2 * Math.abs(delta) > stepBefore) next = 0.5 * (lo + hi);
+    if (hi - lo <= 1e-10) return;
+    stepBefore = step;
+    step = Math.abs(next - t);
+    t = next;
+  }
+  throw new Error('optimiseLateDelay: the slope root did not converge in 200 steps');
+}
+
+/**
+ * Fills `far`, `near` and `psi` at t, and the gaps at t in `state`; returns D − d = e^t.
+ *
+ * With α_n = A⁽ⁿ⁾/A and β_n = B⁽ⁿ⁾/B (derivatives in t), the log-derivatives of each gap are
+ * (ln A)′ = α1, (ln A)″ = α2 − α1², (ln A)‴ = α3 − 3α1α2 + 2α1³ and
+ * (ln A)⁗ = α4 − 4α1α3 − 3α2² + 12α1²α2 − 6α1⁴; ψ⁽ⁿ⁾ = (ln A)⁽ⁿ⁺¹⁾ + (ln B)⁽ⁿ⁺¹⁾.
+ */
+function evaluate(t: number): number {
+  const { id, s, x, d, K, farSoon } = zone;
+  const e = Math.exp(t);
+  const D = d + e;
+  let A: number;
+  let B: number;
+  if (id === 'hyperboloid') {
+    // ln f = −s·ln q with q = 1 + K·delay; dq/dt = K·e. Both gaps are differences of two values of
+    // f, so each is taken as one ratio of q's instead of a difference of powers:
+    // A = f(D) − f(D_upper) = x·f_k(d)·((q_upper/q)^s − 1), B = f(D_lower − d) − f(D − d) = x·(1 − (q_lower/q_near)^s),
+    // where q_upper/q = 1 + K(D_upper − D)/q and q_near/q_lower = 1 + K(e − (D_lower − d))/q_lower
+    const q = 1 + K * D;
+    const qNear = 1 + K * e;
+    const upper = zone.upper;
+    // (an upper bound beyond the largest double leaves only the difference of powers)
+    A = upper < Infinity ? farSoon * Math.expm1(s * Math.log1p((K * (upper - D)) / q)) : Math.pow(q, -s) - farSoon;
+    const lowGap = zone.lowGap;
+    const nearRatio = -s * Math.log1p((K * (e - lowGap)) / (1 + K * lowGap));
+    B = -x * Math.expm1(nearRatio);
+    // f(D − d) = x − B loses digits only when B is most of x
+    hyperboloidAt(far, s, farSoon + A, (K * e) / q, (1 + K * d) / q);
+    hyperboloidAt(near, s, B < 0.5 * x ? x - B : x * Math.exp(nearRatio), (K * e) / qNear, 1 / qNear);
+  } else {
+    // u = K·delay^s, so ln u has derivatives s·ρ, s·ρ(1 − ρ), … with ρ = e/D at the far point
+    // and simply s, 0, 0, 0 at the near point (delay = e^t)
+    const uFar = K * Math.pow(D, s);
+    const uNear = K * Math.exp(s * t);
+    const rho = e / D;
+    const s2 = s * s;
+    if (id === 'power-delay') {
+      powerDelayAt(far, s, uFar, rho, d / D);
+      const f = 1 / (1 + uNear);
+      const s1 = uNear * f;
+      const sf = s1 * f;
+      store(near, f, -s1 * s, -sf * s2, -sf * (1 - 2 * s1) * s2 * s, -sf * (1 - 6 * sf) * s2 * s2);
+    } else {
+      exponentialPowerAt(far, s, uFar, rho, d / D);
+      const u = -uNear;
+      store(near, Math.exp(u), u * s, u * s2, u * s2 * s, u * s2 * s2);
+    }
+    A = far[0] - farSoon;
+    B = x - near[0];
+  }
+  state.nearDelay = e;
+  state.far = A;
+  state.near = B;
+  const c = far[0] / A;
+  const a1 = c * far[1];
+  const a2 = c * far[2];
+  const a3 = c * far[3];
+  const a4 = c * far[4];
+  const cNear = -near[0] / B;
+  const b1 = cNear * near[1];
+  const b2 = cNear * near[2];
+  const b3 = cNear * near[3];
+  const b4 = cNear * near[4];
+  const a11 = a1 * a1;
+  const b11 = b1 * b1;
+  psi[0] = a1 + b1;
+  psi[1] = a2 - a11 + b2 - b11;
+  psi[2] = a3 - 3 * a1 * a2 + 2 * a11 * a1 + b3 - 3 * b1 * b2 + 2 * b11 * b1;
+  psi[3] = a4 - 4 * a1 * a3 - 3 * a2 * a2 + 12 * a11 * a2 - 6 * a11 * a11 + b4 - 4 * b1 * b3 - 3 * b2 * b2 + 12 * b11 * b2 - 6 * b11 * b11;
+  return e;
+}
+
+/**
+ * Stores f and f⁽ⁿ⁾/f = Y_n(l1, …, l4), the complete Bell polynomials of the derivatives l_n of ln f
+ * (Faà di Bruno's formula for f = exp(ln f)).
+ */
+function store(out: Float64Array, f: number, l1: number, l2: number, l3: number, l4: number): void {
+  const l11 = l1 * l1;
+  out[0] = f;
+  out[1] = l1;
+  out[2] = l2 + l11;
+  out[3] = l3 + 3 * l1 * l2 + l11 * l1;
+  out[4] = l4 + 4 * l1 * l3 + 3 * l2 * l2 + 6 * l11 * l2 + l11 * l11;
+}
+
+// A logarithm m = ln(c + e^t) has m′ = ρ = e^t/(c + e^t) and ρ′ = ρ(1 − ρ), so
+// m″ = ρ(1 − ρ), m‴ = m″(1 − 2ρ), m⁗ = m″(1 − 6ρ(1 − ρ)); `rest` is 1 − ρ, passed in without cancellation.
+
+/** Hyperboloid: ln f = −s·m with m = ln(1 + K·delay), ρ = K·e/q. */
+function hyperboloidAt(out: Float64Array, s: number, f: number, rho: number, rest: number): void {
+  const m2 = rho * rest;
+  store(out, f, -s * rho, -s * m2, -s * m2 * (1 - 2 * rho), -s * m2 * (1 - 6 * m2));
+}
+
+/**
+ * Power-delay: f = 1/(1 + u), ln f = −softplus(m) with m = ln u, m′ = s·ρ. The derivatives of
+ * softplus are σ = u/(1 + u) = 1 − f, σ′ = σf, σ″ = σf(1 − 2σ), σ‴ = σf(1 − 6σf).
+ */
+function powerDelayAt(out: Float64Array, s: number, u: number, rho: number, rest: number): void {
+  const f = 1 / (1 + u);
+  const m1 = s * rho;
+  const m2 = m1 * rest;
+  const m3 = m2 * (1 - 2 * rho);
+  const m4 = m2 * (1 - 6 * rho * rest);
+  const s1 = u * f;
+  const s2 = s1 * f;
+  const s3 = s2 * (1 - 2 * s1);
+  const s4 = s2 * (1 - 6 * s2);
+  const m11 = m1 * m1;
+  store(out, f, -s1 * m1, -(s1 * m2 + s2 * m11), -(s1 * m3 + 3 * s2 * m1 * m2 + s3 * m11 * m1), -(s1 * m4 + s2 * (4 * m1 * m3 + 3 * m2 * m2) + 6 * s3 * m11 * m2 + s4 * m11 * m11));
+}
+
+/** Exponential-power: ln f = −u with u = e^m, m = ln(K·delay^s), so u⁽ⁿ⁾/u = Y_n(m′, …, m⁗). */
+function exponentialPowerAt(out: Float64Array, s: number, u: number, rho: number, rest: number): void {
+  const m1 = s * rho;
+  const m2 = m1 * rest;
+  const m3 = m2 * (1 - 2 * rho);
+  const m4 = m2 * (1 - 6 * rho * rest);
+  const m11 = m1 * m1;
+  store(out, Math.exp(-u), -u * m1, -u * (m2 + m11), -u * (m3 + 3 * m1 * m2 + m11 * m1), -u * (m4 + 4 * m1 * m3 + 3 * m2 * m2 + 6 * m11 * m2 + m11 * m11));
+}
