@@ -18,7 +18,7 @@ export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: 
   let lowGap: number; // D_lower − d
   let tLow: number; // ln(D_lower − d)
   let farSoon: number; // x·f_k(d)
-  let start: number;
+  let startDelay: number;
   if (id === 'hyperboloid') {
     // a = r^(1/s) − 1 (expm1 keeps it accurate for x near 1), b = a + (a + 1)·k·d, p = 1
     const a = Math.expm1(-Math.log(x) / s);
@@ -29,10 +29,11 @@ export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: 
     upper = (a + span) / K;
     if (!(upper > lower)) return null;
     tLow = Math.log(lowGap);
-    farSoon = x * Math.pow(1 + k * d, -s);
+    // x·f_k(d) enters the hyperboloid gaps only as a factor (see evaluate), so ln and exp do
+    farSoon = x * Math.exp(-s * Math.log1p(k * d));
     // f_K(delay) = m at delay = (m^(−1/s) − 1)/K, where f″/f′² = (s + 1)/(s·m)
     const m = 0.5 * (x + farSoon);
-    start = startingPoint(Math.expm1(-Math.log(m) / s) / K, d, x, m, (s + 1) / (s * m));
+    startDelay = startingDelay(Math.expm1(-Math.log(m) / s) / K, d, x, m, (s + 1) / (s * m));
   } else {
     // a = (1 − x)/x or ln r, b = a + k·d^s (as zoneConstants writes them), p = 1/s; d^s also gives f_k(d)
     const ds = Math.pow(d, s);
@@ -52,7 +53,7 @@ export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: 
     const m = 0.5 * (x + farSoon);
     const u = power ? (1 - m) / m : -Math.log(m);
     const curvature = power ? 2 / m - (s - 1) / (s * u * m * m) : (1 - (s - 1) / (s * u)) / m;
-    start = startingPoint(Math.exp(p * Math.log(u / K)), d, x, m, curvature);
+    startDelay = startingDelay(Math.exp(p * Math.log(u / K)), d, x, m, curvature);
   }
   // upper is Infinity when the bound overflows a double (tiny s); the search then stops at the largest double
   const tHigh = upper < Infinity ? Math.log(upper - d) : LOG_MAX;
@@ -66,24 +67,27 @@ export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: 
   zone.upper = upper;
   zone.tLow = tLow;
   zone.tHigh = tHigh;
-  slopeRoot(start > tLow && start < tHigh ? start : 0.5 * (tLow + tHigh));
+  zone.nearLow = 1 / (1 + K * lowGap);
+  const start = Math.log(startDelay);
+  if (start > tLow && start < tHigh) slopeRoot(start, startDelay);
+  else slopeRoot(0.5 * (tLow + tHigh), Math.exp(0.5 * (tLow + tHigh)));
   return { lower, upper, lateDelay: d + state.nearDelay, gapProduct: state.far * state.near };
 }
 
 /**
- * ln(D₀ − d) for a first point D₀ close to the optimum. C′ = 0 reads f′(D)·B = f′(D − d)·A. With
+ * D₀ − d for a first point D₀ close to the optimum. C′ = 0 reads f′(D)·B = f′(D − d)·A. With
  * d small against the scale on which f changes, expanding f and f′ at D − d to first order in d
  * gives f′·(x + x·f_k(d) − 2f) = d·(f′² − f″·(x − f)), whose root lies a distance
  * (d/2)·(1 − f″·(x − m)/f′²) below the delay e_m where f = m = (x + x·f_k(d))/2 (the optimum as
- * d → 0, where C ≈ (f − x·f_k(d))(x − f)). `curvature` is f″/f′² at e_m. Returns NaN when the
- * expansion overshoots below 0; the caller then starts from the middle.
+ * d → 0, where C ≈ (f − x·f_k(d))(x − f)). `curvature` is f″/f′² at e_m. When the expansion
+ * lands outside the zone the caller starts from the middle instead.
  */
-function startingPoint(midDelay: number, d: number, x: number, m: number, curvature: number): number {
-  return Math.log(midDelay - 0.5 * d * (1 - curvature * (x - m)));
+function startingDelay(midDelay: number, d: number, x: number, m: number, curvature: number): number {
+  return midDelay - 0.5 * d * (1 - curvature * (x - m));
 }
 
 /** The solve in hand: model, inputs, x·f_k(d), D_lower − d, D_upper and the bracket ends in t. */
-const zone = { id: 'hyperboloid' as NumericalModelId, s: 1, x: 0.5, d: 1, K: 1, farSoon: 0, lowGap: 0, upper: 0, tLow: 0, tHigh: 0 };
+const zone = { id: 'hyperboloid' as NumericalModelId, s: 1, x: 0.5, d: 1, K: 1, farSoon: 0, lowGap: 0, nearLow: 0, upper: 0, tLow: 0, tHigh: 0 };
 /** Gaps at the returned point (module scratch keeps the solver allocation-free). */
 const state = { nearDelay: 0, far: 0, near: 0 };
 /** f and f⁽ⁿ⁾/f for n = 1…4, derivatives in t, of f_K at D (far) and at D − d (near). */
@@ -109,7 +113,7 @@ const psi = new Float64Array(4);
  * is that last step taken, with D − d and both gaps carried to it by Taylor series to third order
  * (the derivatives are at hand), so no evaluation is spent on it. Leaves the gaps in `state`.
  */
-function slopeRoot(start: number): void {
+function slopeRoot(start: number, startDelay: number): void {
   const tLow = zone.tLow;
   const tHigh = zone.tHigh;
   let lo = tLow;
@@ -118,7 +122,7 @@ function slopeRoot(start: number): void {
   let step = hi - lo;
   let stepBefore = step;
   for (let iter = 0; iter < 200; iter++) {
-    const e = evaluate(t);
+    const e = evaluate(t, iter === 0 ? startDelay : Math.exp(t));
     const g = psi[0];
     // ψ is not finite only when a gap underflows to 0 (every discount factor below 1e-308):
     // the criterion is flat zero there and any point of the zone is as good
@@ -155,15 +159,14 @@ function slopeRoot(start: number): void {
 }
 
 /**
- * Fills `far`, `near` and `psi` at t, and the gaps at t in `state`; returns D − d = e^t.
+ * Fills `far`, `near` and `psi` at t, with e = e^t = D − d, and the gaps at t in `state`; returns e.
  *
  * With α_n = A⁽ⁿ⁾/A and β_n = B⁽ⁿ⁾/B (derivatives in t), the log-derivatives of each gap are
  * (ln A)′ = α1, (ln A)″ = α2 − α1², (ln A)‴ = α3 − 3α1α2 + 2α1³ and
  * (ln A)⁗ = α4 − 4α1α3 − 3α2² + 12α1²α2 − 6α1⁴; ψ⁽ⁿ⁾ = (ln A)⁽ⁿ⁺¹⁾ + (ln B)⁽ⁿ⁺¹⁾.
  */
-function evaluate(t: number): number {
+function evaluate(t: number, e: number): number {
   const { id, s, x, d, K, farSoon } = zone;
-  const e = Math.exp(t);
   const D = d + e;
   let A: number;
   let B: number;
@@ -177,8 +180,8 @@ function evaluate(t: number): number {
     const upper = zone.upper;
     // (an upper bound beyond the largest double leaves only the difference of powers)
     A = upper < Infinity ? farSoon * Math.expm1(s * Math.log1p((K * (upper - D)) / q)) : Math.pow(q, -s) - farSoon;
-    const lowGap = zone.lowGap;
-    const nearRatio = -s * Math.log1p((K * (e - lowGap)) / (1 + K * lowGap));
+    const lowGap = zone.lowGap; // q_lower = 1 + K·lowGap, and zone.nearLow = 1/q_lower
+    const nearRatio = -s * Math.log1p(K * (e - lowGap) * zone.nearLow);
     B = -x * Math.expm1(nearRatio);
     // f(D − d) = x − B loses digits only when B is most of x
     hyperboloidAt(far, s, farSoon + A, (K * e) / q, (1 + K * d) / q);
