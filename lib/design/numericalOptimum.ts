@@ -31,9 +31,13 @@ export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: 
     tLow = Math.log(lowGap);
     // x·f_k(d) enters the hyperboloid gaps only as a factor (see evaluate), so ln and exp do
     farSoon = x * Math.exp(-s * Math.log1p(k * d));
-    // f_K(delay) = m at delay = (m^(−1/s) − 1)/K, where f″/f′² = (s + 1)/(s·m)
+    // f_K(delay) = m where q = 1 + K·delay = m^(−1/s); f′ = −s·r·m, f″ = −(s + 1)r·f′, f‴ = −(s + 2)r·f″ with r = K/q
     const m = 0.5 * (x + farSoon);
-    startDelay = startingDelay(Math.expm1(-Math.log(m) / s) / K, d, x, m, (s + 1) / (s * m));
+    const qm1 = Math.expm1(-Math.log(m) / s);
+    const r = K / (1 + qm1);
+    const f1 = -s * r * m;
+    const f2 = -(s + 1) * r * f1;
+    startDelay = startingDelay(qm1 / K, d, x - m, f1, f2, -(s + 2) * r * f2);
   } else {
     // a = (1 − x)/x or ln r, b = a + k·d^s (as zoneConstants writes them), p = 1/s; d^s also gives f_k(d)
     const ds = Math.pow(d, s);
@@ -48,12 +52,20 @@ export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: 
     upper = Math.pow(b / K, p);
     if (!(upper > lower)) return null;
     farSoon = x * (power ? 1 / (1 + k * ds) : Math.exp(-k * ds));
-    // f_K(delay) = m where u = K·delay^s is (1 − m)/m (power-delay) or −ln m; with u′/u = s/delay
-    // and u″/u′² = (s − 1)/(s·u), f″/f′² is 2/m − (s − 1)/(s·u·m²), respectively (1 − (s − 1)/(s·u))/m
+    // f_K(delay) = m where u = K·delay^s is (1 − m)/m (power-delay) or −ln m; the derivatives of f
+    // there follow from u′ = s·u/delay, u″ = (s − 1)u′/delay, u‴ = (s − 2)u″/delay as in evaluate
     const m = 0.5 * (x + farSoon);
     const u = power ? (1 - m) / m : -Math.log(m);
-    const curvature = power ? 2 / m - (s - 1) / (s * u * m * m) : (1 - (s - 1) / (s * u)) / m;
-    startDelay = startingDelay(Math.exp(p * Math.log(u / K)), d, x, m, curvature);
+    const mid = Math.exp(p * Math.log(u / K));
+    const u1 = (s * u) / mid;
+    const u2 = ((s - 1) * u1) / mid;
+    const u3 = ((s - 2) * u2) / mid;
+    const u11 = u1 * u1;
+    const mm = power ? m * m : m;
+    const f1 = -u1 * mm;
+    const f2 = power ? (2 * u11 * m - u2) * mm : (u11 - u2) * m;
+    const f3 = power ? (6 * u1 * u2 * m - 6 * u11 * u1 * mm - u3) * mm : (3 * u1 * u2 - u3 - u11 * u1) * m;
+    startDelay = startingDelay(mid, d, x - m, f1, f2, f3);
   }
   // upper is Infinity when the bound overflows a double (tiny s); the search then stops at the largest double
   const tHigh = upper < Infinity ? Math.log(upper - d) : LOG_MAX;
@@ -69,27 +81,39 @@ export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: 
   zone.tHigh = tHigh;
   zone.nearLow = 1 / (1 + K * lowGap);
   const start = Math.log(startDelay);
-  if (start > tLow && start < tHigh) slopeRoot(start, startDelay);
-  else slopeRoot(0.5 * (tLow + tHigh), Math.exp(0.5 * (tLow + tHigh)));
-  return { lower, upper, lateDelay: d + state.nearDelay, gapProduct: state.far * state.near };
+  if (!(start > tLow && start < tHigh)) {
+    const middle = 0.5 * (tLow + tHigh);
+    slopeRoot(middle, Math.exp(middle));
+  } else {
+    // the hyperboloid's gaps use D − d alone, so the series value serves as it is; the power models
+    // take K·(D − d)^s as K·e^(st), which must belong to the same e = e^t
+    slopeRoot(start, id === 'hyperboloid' ? startDelay : Math.exp(start));
+  }
+  return { lower, upper, lateDelay: state.lateDelay, gapProduct: state.far * state.near };
 }
 
 /**
- * D₀ − d for a first point D₀ close to the optimum. C′ = 0 reads f′(D)·B = f′(D − d)·A. With
- * d small against the scale on which f changes, expanding f and f′ at D − d to first order in d
- * gives f′·(x + x·f_k(d) − 2f) = d·(f′² − f″·(x − f)), whose root lies a distance
- * (d/2)·(1 − f″·(x − m)/f′²) below the delay e_m where f = m = (x + x·f_k(d))/2 (the optimum as
- * d → 0, where C ≈ (f − x·f_k(d))(x − f)). `curvature` is f″/f′² at e_m. When the expansion
- * lands outside the zone the caller starts from the middle instead.
+ * D₀ − d for a first point D₀ close to the optimum, from a series in the soon delay d.
+ *
+ * With e = D − d, C′ = 0 reads G = f′(e + d)·(x − f(e)) − f′(e)·(f(e + d) − x·f_k(d)) = 0. As
+ * d → 0, C → (f − x·f_k(d))(x − f), largest where f = m = (x + x·f_k(d))/2, at e = e_m. Expanding
+ * f(e + d) and f′(e + d) in d gives G = P + d·Q + (d²/2)·R + O(d³) with P = f′·(x + x·f_k(d) − 2f),
+ * Q = f″(x − f) − f′², R = f‴(x − f) − f′f″. At e_m, P = 0, P′ = −2f′², P″ = −6f′f″ and
+ * Q′ = f‴(x − f) − 3f′f″, so e = e_m + Δ1 + Δ2 with Δ1 = −d·Q/P′ and
+ * Δ2 = −(P″Δ1²/2 + d·Q′Δ1 + d²R/2)/P′, all at e_m. `xm` is x − m, f1…f3 are f′, f″, f‴ at e_m.
+ * When the series lands outside the zone the caller starts from the middle instead.
  */
-function startingDelay(midDelay: number, d: number, x: number, m: number, curvature: number): number {
-  return midDelay - 0.5 * d * (1 - curvature * (x - m));
+function startingDelay(midDelay: number, d: number, xm: number, f1: number, f2: number, f3: number): number {
+  const slope2 = 2 * f1 * f1; // −P′
+  const first = (d * (f2 * xm - f1 * f1)) / slope2;
+  const second = (-3 * f1 * f2 * first * first + d * (f3 * xm - 3 * f1 * f2) * first + 0.5 * d * d * (f3 * xm - f1 * f2)) / slope2;
+  return midDelay + first + second;
 }
 
 /** The solve in hand: model, inputs, x·f_k(d), D_lower − d, D_upper and the bracket ends in t. */
 const zone = { id: 'hyperboloid' as NumericalModelId, s: 1, x: 0.5, d: 1, K: 1, farSoon: 0, lowGap: 0, nearLow: 0, upper: 0, tLow: 0, tHigh: 0 };
 /** Gaps at the returned point (module scratch keeps the solver allocation-free). */
-const state = { nearDelay: 0, far: 0, near: 0 };
+const state = { lateDelay: 0, far: 0, near: 0 };
 /** f and f⁽ⁿ⁾/f for n = 1…4, derivatives in t, of f_K at D (far) and at D − d (near). */
 const far = new Float64Array(5);
 const near = new Float64Array(5);
@@ -140,12 +164,13 @@ function slopeRoot(start: number, startDelay: number): void {
     if (Math.abs(delta) <= 1e-5 * Math.min(1, t - tLow, tHigh - t)) {
       // converged: move to t − δ (kept inside the bracket, which rounding could otherwise leave)
       const h = t - Math.min(hi, Math.max(lo, t - delta));
-      const h2 = 0.5 * h * h;
-      const h3 = (h2 * h) / 3;
-      // the gaps are moved by their own small increments, keeping whatever accuracy they have
-      state.nearDelay = e * (1 - h + h2 - h3);
-      state.far -= far[0] * (far[1] * h - far[2] * h2 + far[3] * h3);
-      state.near += near[0] * (near[1] * h - near[2] * h2 + near[3] * h3);
+      const D = state.lateDelay;
+      const lateDelay = zone.d + e * (1 - h + 0.5 * h * h - (h * h * h) / 6);
+      // Each gap is moved by its own small Taylor increment, to the late delay as rounded for the
+      // caller (D and D − d of that double), so that the gap product belongs to the returned delay.
+      state.lateDelay = lateDelay;
+      state.far += far[0] * taylorStep(far, shift((lateDelay - D) / e, h));
+      state.near -= near[0] * taylorStep(near, shift((lateDelay - zone.d - e) / e, h));
       return;
     }
     let next = t - delta;
@@ -159,7 +184,21 @@ function slopeRoot(start: number, startDelay: number): void {
 }
 
 /**
- * Fills `far`, `near` and `psi` at t, with e = e^t = D − d, and the gaps at t in `state`; returns e.
+ * The shift η in t that multiplies e = e^t by 1 + y, i.e. e^(−η) = 1 + y: η = −ln(1 + y) by its series
+ * (for |y| ≤ 1e-4 the error, about y⁴/4, is below 3e-17). A larger y arises only when e is within a
+ * few units in the last place of D; the step h itself is used then.
+ */
+function shift(y: number, h: number): number {
+  return Math.abs(y) <= 1e-4 ? -y * (1 - y * (0.5 - y / 3)) : h;
+}
+
+/** (f(t − η) − f(t))/f from v = [f, f′/f, f″/f, f‴/f]: −η·v1 + η²/2·v2 − η³/6·v3 (the next term is below 1e-20). */
+function taylorStep(v: Float64Array, eta: number): number {
+  return eta * (-v[1] + eta * (0.5 * v[2] - (eta * v[3]) / 6));
+}
+
+/**
+ * Fills `far`, `near` and `psi` at t, with e = e^t = D − d, and D and the gaps at t in `state`; returns e.
  *
  * With α_n = A⁽ⁿ⁾/A and β_n = B⁽ⁿ⁾/B (derivatives in t), the log-derivatives of each gap are
  * (ln A)′ = α1, (ln A)″ = α2 − α1², (ln A)‴ = α3 − 3α1α2 + 2α1³ and
@@ -207,7 +246,7 @@ function evaluate(t: number, e: number): number {
     A = far[0] - farSoon;
     B = x - near[0];
   }
-  state.nearDelay = e;
+  state.lateDelay = D;
   state.far = A;
   state.near = B;
   const c = far[0] / A;
