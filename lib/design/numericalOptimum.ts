@@ -1,3 +1,4 @@
+import { exponentialPowerDerivatives, hyperboloidDerivatives, powerDelayDerivatives, storeDerivatives } from './discountDerivatives';
 import type { LateDelayOptimum } from './optimiseLateDelay';
 
 /** The models whose optimal late delay has no closed form. */
@@ -126,16 +127,15 @@ const psi = new Float64Array(4);
  * ψ = (ln A)′ + (ln B)′ has a simple pole of residue +1 at t_L, where B vanishes, and of residue −1
  * at t_U, where A vanishes, so it falls from +∞ to −∞ across the zone: a guaranteed bracket. The
  * steps are taken on Ψ = ψ·(t − t_L)(t_U − t), which has the same roots inside the zone but no
- * poles, and is close to linear (exactly so when the discount function is linear between the
- * bounds). Each step is Householder's third-order step on Ψ (quartic convergence; analytic ψ′, ψ″
+ * poles, and is close to linear (exactly so, 2t − t_L − t_U negated, when both gaps are linear in t). Each step is Householder's third-order step on Ψ (quartic convergence; analytic ψ′, ψ″
  * and ψ‴), taken inside the bracket [lo, hi] that shrinks to the evaluated point on the side given
  * by the sign of ψ; a step leaving the bracket, or not halving the step before last, is replaced by
  * bisection (the safeguard of Press et al. 2007, Numerical Recipes 3rd ed., §9.4, "rtsafe").
  *
  * Stops once a step is at most 1e-5·min(1, distance to the nearer pole): a fourth-order step
  * that small leaves an error of order 1e-20, as a Newton step of 1e-10 does. The returned point
- * is that last step taken, with D − d and both gaps carried to it by Taylor series to third order
- * (the derivatives are at hand), so no evaluation is spent on it. Leaves the gaps in `state`.
+ * is that last step taken; D − d and both gaps are carried to it by Taylor series to third order
+ * (the derivatives are at hand), so no evaluation is spent on it. Leaves D and the gaps in `state`.
  */
 function slopeRoot(start: number, startDelay: number): void {
   const tLow = zone.tLow;
@@ -223,8 +223,8 @@ function evaluate(t: number, e: number): number {
     const nearRatio = -s * Math.log1p(K * (e - lowGap) * zone.nearLow);
     B = -x * Math.expm1(nearRatio);
     // f(D − d) = x − B loses digits only when B is most of x
-    hyperboloidAt(far, s, farSoon + A, (K * e) / q, (1 + K * d) / q);
-    hyperboloidAt(near, s, B < 0.5 * x ? x - B : x * Math.exp(nearRatio), (K * e) / qNear, 1 / qNear);
+    hyperboloidDerivatives(far, s, farSoon + A, (K * e) / q, (1 + K * d) / q);
+    hyperboloidDerivatives(near, s, B < 0.5 * x ? x - B : x * Math.exp(nearRatio), (K * e) / qNear, 1 / qNear);
   } else {
     // u = K·delay^s, so ln u has derivatives s·ρ, s·ρ(1 − ρ), … with ρ = e/D at the far point
     // and simply s, 0, 0, 0 at the near point (delay = e^t)
@@ -233,15 +233,15 @@ function evaluate(t: number, e: number): number {
     const rho = e / D;
     const s2 = s * s;
     if (id === 'power-delay') {
-      powerDelayAt(far, s, uFar, rho, d / D);
+      powerDelayDerivatives(far, s, uFar, rho, d / D);
       const f = 1 / (1 + uNear);
       const s1 = uNear * f;
       const sf = s1 * f;
-      store(near, f, -s1 * s, -sf * s2, -sf * (1 - 2 * s1) * s2 * s, -sf * (1 - 6 * sf) * s2 * s2);
+      storeDerivatives(near, f, -s1 * s, -sf * s2, -sf * (1 - 2 * s1) * s2 * s, -sf * (1 - 6 * sf) * s2 * s2);
     } else {
-      exponentialPowerAt(far, s, uFar, rho, d / D);
+      exponentialPowerDerivatives(far, s, uFar, rho, d / D);
       const u = -uNear;
-      store(near, Math.exp(u), u * s, u * s2, u * s2 * s, u * s2 * s2);
+      storeDerivatives(near, Math.exp(u), u * s, u * s2, u * s2 * s, u * s2 * s2);
     }
     A = far[0] - farSoon;
     B = x - near[0];
@@ -266,54 +266,4 @@ function evaluate(t: number, e: number): number {
   psi[2] = a3 - 3 * a1 * a2 + 2 * a11 * a1 + b3 - 3 * b1 * b2 + 2 * b11 * b1;
   psi[3] = a4 - 4 * a1 * a3 - 3 * a2 * a2 + 12 * a11 * a2 - 6 * a11 * a11 + b4 - 4 * b1 * b3 - 3 * b2 * b2 + 12 * b11 * b2 - 6 * b11 * b11;
   return e;
-}
-
-/**
- * Stores f and f⁽ⁿ⁾/f = Y_n(l1, …, l4), the complete Bell polynomials of the derivatives l_n of ln f
- * (Faà di Bruno's formula for f = exp(ln f)).
- */
-function store(out: Float64Array, f: number, l1: number, l2: number, l3: number, l4: number): void {
-  const l11 = l1 * l1;
-  out[0] = f;
-  out[1] = l1;
-  out[2] = l2 + l11;
-  out[3] = l3 + 3 * l1 * l2 + l11 * l1;
-  out[4] = l4 + 4 * l1 * l3 + 3 * l2 * l2 + 6 * l11 * l2 + l11 * l11;
-}
-
-// A logarithm m = ln(c + e^t) has m′ = ρ = e^t/(c + e^t) and ρ′ = ρ(1 − ρ), so
-// m″ = ρ(1 − ρ), m‴ = m″(1 − 2ρ), m⁗ = m″(1 − 6ρ(1 − ρ)); `rest` is 1 − ρ, passed in without cancellation.
-
-/** Hyperboloid: ln f = −s·m with m = ln(1 + K·delay), ρ = K·e/q. */
-function hyperboloidAt(out: Float64Array, s: number, f: number, rho: number, rest: number): void {
-  const m2 = rho * rest;
-  store(out, f, -s * rho, -s * m2, -s * m2 * (1 - 2 * rho), -s * m2 * (1 - 6 * m2));
-}
-
-/**
- * Power-delay: f = 1/(1 + u), ln f = −softplus(m) with m = ln u, m′ = s·ρ. The derivatives of
- * softplus are σ = u/(1 + u) = 1 − f, σ′ = σf, σ″ = σf(1 − 2σ), σ‴ = σf(1 − 6σf).
- */
-function powerDelayAt(out: Float64Array, s: number, u: number, rho: number, rest: number): void {
-  const f = 1 / (1 + u);
-  const m1 = s * rho;
-  const m2 = m1 * rest;
-  const m3 = m2 * (1 - 2 * rho);
-  const m4 = m2 * (1 - 6 * rho * rest);
-  const s1 = u * f;
-  const s2 = s1 * f;
-  const s3 = s2 * (1 - 2 * s1);
-  const s4 = s2 * (1 - 6 * s2);
-  const m11 = m1 * m1;
-  store(out, f, -s1 * m1, -(s1 * m2 + s2 * m11), -(s1 * m3 + 3 * s2 * m1 * m2 + s3 * m11 * m1), -(s1 * m4 + s2 * (4 * m1 * m3 + 3 * m2 * m2) + 6 * s3 * m11 * m2 + s4 * m11 * m11));
-}
-
-/** Exponential-power: ln f = −u with u = e^m, m = ln(K·delay^s), so u⁽ⁿ⁾/u = Y_n(m′, …, m⁗). */
-function exponentialPowerAt(out: Float64Array, s: number, u: number, rho: number, rest: number): void {
-  const m1 = s * rho;
-  const m2 = m1 * rest;
-  const m3 = m2 * (1 - 2 * rho);
-  const m4 = m2 * (1 - 6 * rho * rest);
-  const m11 = m1 * m1;
-  store(out, Math.exp(-u), -u * m1, -u * (m2 + m11), -u * (m3 + 3 * m1 * m2 + m11 * m1), -u * (m4 + 4 * m1 * m3 + 3 * m2 * m2 + 6 * m11 * m2 + m11 * m11));
 }

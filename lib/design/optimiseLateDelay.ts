@@ -27,17 +27,18 @@ export type LateDelayOptimum = { lower: number; upper: number; lateDelay: number
  * Hyperboloid, power-delay, exponential-power (numerical). What is solved is C′ = 0 in
  * t = ln(D − d), as the root of ψ = d ln C/dt = A′/A + B′/B. B vanishes at D_lower and A at
  * D_upper, so ψ runs from +∞ to −∞ across the zone: the zone itself is a guaranteed bracket.
- * The first point expands C′ = 0 to first order in d about the delay where f_K is halfway
+ * The first point expands C′ = 0 to second order in d about the delay where f_K is halfway
  * between x·f_k(d) and x (the exact optimum as d → 0). Each step is Householder's third-order
  * step (analytic derivatives up to ψ‴) on ψ·(t − t_L)(t_U − t), which has the same root but not
  * ψ's poles at the zone's ends; the bracket is kept by narrowing it to every evaluated point
  * on the side the sign of ψ gives, and by bisecting whenever a step would leave it or fails to
  * halve the step before last (Press et al. 2007, Numerical Recipes §9.4). It stops once a step
  * is at most 1e-5 in t (less near a pole): a fourth-order step that small leaves an error of
- * order 1e-20, so D* is exact to rounding, far inside 1e-10 relative. Typically one or two
- * evaluations. (A function-value maximiser such as Brent's cannot place a smooth maximum
- * better than ~1.5e-8 relative, so the tests hold this root against Brent's maximiser, fmin's
- * bisection and the closed forms.) See numericalOptimum.ts.
+ * order 1e-20, so D* is exact to rounding, far inside 1e-10 relative; the gaps are carried to
+ * the returned delay by Taylor series. Typically one evaluation, sometimes two. (A
+ * function-value maximiser such as Brent's cannot place a smooth maximum better than ~1.5e-8
+ * relative, so the tests hold this root against Brent's maximiser, fmin's bisection, the
+ * closed forms and a 40-digit bisection in mathjs.) See numericalOptimum.ts.
  *
  * Bounds are the closed forms of reversalZone.
  *
