@@ -10,8 +10,11 @@ const LOG_MAX = Math.log(Number.MAX_VALUE);
  * Zone and optimal late delay for the hyperboloid, power-delay and exponential-power models
  * (inputs already validated, d > 0); null when the zone is empty.
  *
- * The bounds are the closed forms of zoneBounds.ts, computed with the same expressions as
- * reversalZone. The optimum is the root of ψ(t) = d ln C/dt in t = ln(D − d): see slopeRoot.
+ * The bounds are the closed forms of zoneBounds.ts, written out here so that d^s and ln x serve
+ * twice; they are reversalZone's expressions, except that the power models' lower bound is
+ * d + exp(p·ln(a/K)) (its logarithm is needed anyway), which may differ from reversalZone's
+ * d + (a/K)^p in the last bits. The optimum is the root of ψ(t) = d ln C/dt in t = ln(D − d):
+ * see slopeRoot.
  */
 export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: number, k: number, K: number): LateDelayOptimum | null {
   let lower: number;
