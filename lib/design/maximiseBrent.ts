@@ -22,7 +22,7 @@ const GOLDEN = 0.3819660112501051; // (3 − √5)/2
  *
  * Function values alone locate a smooth maximum only to about sqrt(machine epsilon) ≈ 1.5e-8
  * relative, because f changes by O(δ²) there; callers that need the argument to 1e-10 solve
- * f′ = 0 with findRoot instead (optimiseLateDelay does).
+ * f′ = 0 with a bracketed root finder instead (optimiseLateDelay does, with its own).
  *
  * @throws DesignInputError for non-finite or unordered bounds, or a non-positive tolerance
  * @example maximiseBrent((x) => -(x - 1) * (x - 1), { lower: 0, upper: 3 }).argmax // ≈ 1

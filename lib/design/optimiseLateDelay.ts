@@ -1,12 +1,9 @@
-import { zoneConstants, type ZoneConstants } from './zoneBounds';
+import { numericalOptimum } from './numericalOptimum';
 import { checkPairInput } from './validate';
-import type { ModelId, PairInput } from './types';
+import type { PairInput } from './types';
 
 /** The reversal zone and the late delay (days) inside it with the largest gap product A·B. */
 export type LateDelayOptimum = { lower: number; upper: number; lateDelay: number; gapProduct: number };
-
-const LOG_MAX = Math.log(Number.MAX_VALUE);
-const scratch: ZoneConstants = { a: 0, b: 0, p: 1, span: 0 };
 
 /**
  * The late delay D* that maximises the gap product C(D) = A(D)·B(D) inside the reversal zone.
@@ -27,13 +24,21 @@ const scratch: ZoneConstants = { a: 0, b: 0, p: 1, span: 0 };
  * For the exponential model (β = 1 > x) the vertex always lies inside a non-empty zone, and
  * with m = e^(−(k−K)d) − 1 it reads D* = D_lower − ln(1 + m/2)/K, C* = x²·e^(−Kd)·m²/4.
  *
- * Hyperboloid, power-delay, exponential-power (numerical). C′ > 0 at D_lower (where B = 0,
- * B′ > 0) and C′ < 0 at D_upper (where A = 0, A′ < 0), so C′ = f_K′(D)·B − A·f_K′(D − d)
- * changes sign on the zone: a guaranteed bracket. The root is found in t = ln(D − d) by
- * Newton steps with analytic C″ kept inside the shrinking bracket by bisection (Press et al.
- * 2007, Numerical Recipes §9.4), to 1e-10 in t, i.e. 1e-10 relative in D. (A function-value
- * maximiser such as Brent's cannot place a smooth maximum better than ~1.5e-8 relative, so the
- * tests hold this root against Brent's maximiser, fmin's bisection and the closed forms.)
+ * Hyperboloid, power-delay, exponential-power (numerical). What is solved is C′ = 0 in
+ * t = ln(D − d), as the root of ψ = d ln C/dt = A′/A + B′/B. B vanishes at D_lower and A at
+ * D_upper, so ψ runs from +∞ to −∞ across the zone: the zone itself is a guaranteed bracket.
+ * The first point expands C′ = 0 to second order in d about the delay where f_K is halfway
+ * between x·f_k(d) and x (the exact optimum as d → 0). Each step is Householder's third-order
+ * step (analytic derivatives up to ψ‴) on ψ·(t − t_L)(t_U − t), which has the same root but not
+ * ψ's poles at the zone's ends; the bracket is kept by narrowing it to every evaluated point
+ * on the side the sign of ψ gives, and by bisecting whenever a step would leave it or fails to
+ * halve the step before last (Press et al. 2007, Numerical Recipes §9.4). It stops once a step
+ * is at most 1e-5 in t (less near a pole): a fourth-order step that small leaves an error of
+ * order 1e-20, so D* is exact to rounding, far inside 1e-10 relative; the gaps are carried to
+ * the returned delay by Taylor series. Typically one evaluation, sometimes two. (A
+ * function-value maximiser such as Brent's cannot place a smooth maximum better than ~1.5e-8
+ * relative, so the tests hold this root against Brent's maximiser, fmin's bisection, the
+ * closed forms and a 40-digit bisection in mathjs.) See numericalOptimum.ts.
  *
  * Bounds are the closed forms of reversalZone.
  *
@@ -130,115 +135,4 @@ function presentBiasOptimum(x: number, d: number, k: number, K: number, beta: nu
   }
   const far = beta * (Math.exp(-K * lateDelay) - x * Math.exp(-k * d));
   return { lower, upper, lateDelay, gapProduct: far * (x - nearFactor) };
-}
-
-function numericalOptimum(id: ModelId, s: number, x: number, d: number, k: number, K: number): LateDelayOptimum | null {
-  const cst = zoneConstants(id, x, d, k, s, 1, scratch);
-  const p = cst.p;
-  if (p === 1 && !(cst.span > K * d)) return null;
-  const tLow = p * Math.log(cst.a / K);
-  const lower = d + Math.exp(tLow);
-  const upper = p === 1 ? cst.b / K : Math.pow(cst.b / K, p);
-  if (!(upper > lower)) return null;
-  const tHigh = Math.min(LOG_MAX, p * Math.log(cst.b / K) + Math.log1p(-d / upper));
-  const farSoon = x * (id === 'hyperboloid' ? Math.pow(1 + k * d, -s) : id === 'power-delay' ? 1 / (1 + k * Math.pow(d, s)) : Math.exp(-k * Math.pow(d, s)));
-  const t = slopeRoot(id, s, x, d, K, farSoon, tLow, tHigh);
-  const lateDelay = d + Math.exp(t);
-  return { lower, upper, lateDelay, gapProduct: slope.far * slope.near };
-}
-
-/** Results of the last slope evaluation (module scratch keeps the hot loop allocation-free). */
-const slope = { value: 0, derivative: 0, far: 0, near: 0 };
-
-/**
- * Root of φ(t) = (ln C)′(d + e^t) on [lo, hi] with φ(lo) > 0 > φ(hi): Newton steps on φ, replaced by
- * bisection whenever a step would leave the shrinking bracket (Press et al. 2007, Numerical
- * Recipes 3rd ed., §9.4, "rtsafe"). Stops when a step moves t by less than 1e-10, i.e. D by
- * less than 1e-10 relative. Leaves the gaps of the returned point in `slope`.
- */
-function slopeRoot(id: ModelId, s: number, x: number, d: number, K: number, farSoon: number, lo: number, hi: number): number {
-  // The bracket is guaranteed by the algebra (C′ > 0 at D_lower, < 0 at D_upper), so the ends
-  // are not evaluated; φ has poles there anyway.
-  let t = 0.5 * (lo + hi);
-  for (let iter = 0; iter < 200; iter++) {
-    evaluateSlope(id, s, x, d, K, farSoon, t);
-    const h = slope.value;
-    // h is not finite only when a gap underflows to 0 (every discount factor below 1e-308):
-    // the criterion is flat zero there and any point of the zone is as good
-    if (h === 0 || !Number.isFinite(h)) return t;
-    if (h > 0) lo = t;
-    else hi = t;
-    const dx = h / slope.derivative;
-    if (Math.abs(dx) <= 1e-10) {
-      // converged: a last Newton step this small may touch the bracket end through rounding
-      t = Math.min(hi, Math.max(lo, t - dx));
-      evaluateSlope(id, s, x, d, K, farSoon, t);
-      return t;
-    }
-    let next = t - dx;
-    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (hi - lo <= 1e-10) {
-      evaluateSlope(id, s, x, d, K, farSoon, next);
-      return next;
-    }
-    t = next;
-  }
-  throw new Error('optimiseLateDelay: the slope root did not converge in 200 steps');
-}
-
-/**
- * φ(D) = (ln C)′ = f1′/A − f2′/B and dφ/dt = φ′(D)·e^t at D = d + e^t, with f1 = f_K(D),
- * f2 = f_K(D − d), A = f1 − x·f_k(d), B = x − f2, so φ′ = f1″/A − (f1′/A)² − f2″/B − (f2′/B)².
- * Inside the zone φ has the sign of C′ (C > 0), so the bracket from C′ carries over.
- */
-function evaluateSlope(id: ModelId, s: number, x: number, d: number, K: number, farSoon: number, t: number): void {
-  const e = Math.exp(t);
-  const D = d + e;
-  let f1: number, g1: number, h1: number, f2: number, g2: number, h2: number; // f, f′, f″ at D and at e
-  if (id === 'hyperboloid') {
-    // f = q^(−s), f′ = −sK·f/q, f″ = s(s + 1)K²·f/q², q = 1 + K·delay
-    const q1 = 1 + K * D;
-    const q2 = 1 + K * e;
-    f1 = Math.pow(q1, -s);
-    f2 = Math.pow(q2, -s);
-    g1 = (-s * K * f1) / q1;
-    g2 = (-s * K * f2) / q2;
-    h1 = ((s + 1) * K * -g1) / q1;
-    h2 = ((s + 1) * K * -g2) / q2;
-  } else {
-    // u = K·delay^s, u′ = s·u/delay, u″ = s(s − 1)·u/delay²
-    const u1 = K * Math.pow(D, s);
-    const u2 = K * Math.exp(s * t);
-    const v1 = (s * u1) / D;
-    const v2 = (s * u2) / e;
-    const w1 = ((s - 1) * v1) / D;
-    const w2 = ((s - 1) * v2) / e;
-    if (id === 'power-delay') {
-      // f = 1/(1 + u), f′ = −u′f², f″ = −u″f² + 2u′²f³
-      f1 = 1 / (1 + u1);
-      f2 = 1 / (1 + u2);
-      g1 = -v1 * f1 * f1;
-      g2 = -v2 * f2 * f2;
-      h1 = (-w1 + 2 * v1 * v1 * f1) * f1 * f1;
-      h2 = (-w2 + 2 * v2 * v2 * f2) * f2 * f2;
-    } else {
-      // f = e^(−u), f′ = −u′f, f″ = (u′² − u″)f
-      f1 = Math.exp(-u1);
-      f2 = Math.exp(-u2);
-      g1 = -v1 * f1;
-      g2 = -v2 * f2;
-      h1 = (v1 * v1 - w1) * f1;
-      h2 = (v2 * v2 - w2) * f2;
-    }
-  }
-  const far = f1 - farSoon;
-  const near = x - f2;
-  slope.far = far;
-  slope.near = near;
-  // Newton runs on the log-derivative φ = (ln C)′ = f1′/A − f2′/B, which has the same root as C′
-  // inside the zone but is far closer to linear in t, so few steps are needed
-  const ra = g1 / far;
-  const rb = g2 / near;
-  slope.value = ra - rb;
-  slope.derivative = (h1 / far - ra * ra - h2 / near - rb * rb) * e;
 }

@@ -1,7 +1,8 @@
 import type { ModelId } from './types';
 
 /**
- * Closed-form zone bounds shared by reversalZone, optimiseLateDelay and reversibleShare.
+ * Closed-form zone bounds shared by reversalZone and reversibleShare (numericalOptimum, behind
+ * optimiseLateDelay, writes the same expressions out for its three models).
  *
  * Every model's bounds take the form
  *   D_lower = d + (a / K)^p   (near gap B = 0: f_K(D − d) = x)

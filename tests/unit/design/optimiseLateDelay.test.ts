@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { all, create, type BigNumber } from 'mathjs';
 import { fmin } from './secondOpinion';
 const { bisect, nelderMead } = fmin;
 import { optimiseLateDelay, preferenceGaps, reversalZone, type ModelSpec, type PairInput } from '@/lib/design';
@@ -102,6 +103,79 @@ describe('optimal late delay: second opinions from fmin', () => {
         // second opinion: fmin.nelderMead; allow 1e-12 relative for rounding in C
         expect(o.gapProduct).toBeGreaterThanOrEqual(-r.fx * (1 - 1e-12));
         expect(o.gapProduct).toBeCloseTo(gapProduct(input, o.lateDelay), 15);
+      }
+    });
+  }
+});
+
+describe('optimal late delay: a 40-digit reference from mathjs BigNumber', () => {
+  // second opinion: mathjs (decimal.js underneath) at 40 significant digits, bisecting the sign of
+  // C′(D) = f_K′(D)·B − f_K′(D − d)·A in ln(D − d) until the bracket is below 1e-30 of its width
+  const big = create(all, { number: 'BigNumber', precision: 40 });
+  const num = (v: number): BigNumber => big.bignumber(v);
+  const one = num(1);
+  // f and f′ at delay z: hyperboloid (1 + rz)^(−s); power-delay 1/(1 + r·z^s); exponential-power exp(−r·z^s)
+  const factor = (model: ModelSpec, rate: BigNumber, z: BigNumber): [BigNumber, BigNumber] => {
+    const s = num(model.sensitivity ?? 1);
+    if (model.id === 'hyperboloid') {
+      const q = one.plus(rate.times(z));
+      const f = q.pow(s.neg());
+      return [f, s.times(rate).times(f).div(q).neg()];
+    }
+    const u = rate.times(z.pow(s));
+    const du = s.times(u).div(z);
+    if (model.id === 'power-delay') {
+      const f = one.div(one.plus(u));
+      return [f, du.times(f).times(f).neg()];
+    }
+    const f = u.neg().exp();
+    return [f, du.times(f).neg()];
+  };
+  const reference = (input: PairInput, lower: number, upper: number) => {
+    const x = num(input.ratio);
+    const d = num(input.soonDelay);
+    const K = num(input.kLarge);
+    const farSoon = x.times(factor(input.model, num(input.kSmall), d)[0]);
+    const gaps = (D: BigNumber) => {
+      const [f1, g1] = factor(input.model, K, D);
+      const [f2, g2] = factor(input.model, K, D.minus(d));
+      return { far: f1.minus(farSoon), near: x.minus(f2), g1, g2 };
+    };
+    const rising = (t: BigNumber) => {
+      const g = gaps(d.plus(t.exp()));
+      return g.g1.times(g.near).minus(g.g2.times(g.far)).isPositive();
+    };
+    let lo = num(Math.log(lower - input.soonDelay) + 1e-9);
+    let hi = num(Math.log(upper - input.soonDelay) - 1e-9);
+    for (let i = 0; i < 110; i++) {
+      const mid = lo.plus(hi).div(2);
+      if (rising(mid)) lo = mid;
+      else hi = mid;
+    }
+    return {
+      lateDelay: d.plus(lo.exp()),
+      gapProduct: (D: number) => {
+        const g = gaps(num(D));
+        return g.far.times(g.near);
+      },
+    };
+  };
+  const relative = (value: number, exact: BigNumber) => Math.abs(num(value).div(exact).minus(1).toNumber());
+
+  for (const model of [
+    { id: 'hyperboloid', sensitivity: 0.6 },
+    { id: 'power-delay', sensitivity: 0.7 },
+    { id: 'exponential-power', sensitivity: 0.5 },
+  ] as ModelSpec[]) {
+    it(`${model.id}: the optimal late delay and its gap product match the 40-digit values to 1e-13`, () => {
+      for (const s of settings) {
+        const input = { model, ...s };
+        const o = optimiseLateDelay(input)!;
+        const exact = reference(input, o.lower, o.upper);
+        // these zones are wide (width over a twentieth of D_upper), so D* and C carry only a few
+        // roundings (about 1e-15 relative): 1e-13 is honest, and a thousand times inside 1e-10
+        expect(relative(o.lateDelay, exact.lateDelay), `${model.id} ${JSON.stringify(s)}`).toBeLessThan(1e-13);
+        expect(relative(o.gapProduct, exact.gapProduct(o.lateDelay)), `${model.id} ${JSON.stringify(s)}`).toBeLessThan(1e-13);
       }
     });
   }
