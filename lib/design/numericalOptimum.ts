@@ -1,3 +1,4 @@
+import { discountAt } from './discountFactor';
 import { exponentialPowerDerivatives, hyperboloidDerivatives, powerDelayDerivatives, storeDerivatives } from './discountDerivatives';
 import type { LateDelayOptimum } from './optimiseLateDelay';
 
@@ -80,6 +81,7 @@ export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: 
   zone.K = K;
   zone.farSoon = farSoon;
   zone.lowGap = lowGap;
+  zone.lower = lower;
   zone.upper = upper;
   zone.tLow = tLow;
   zone.tHigh = tHigh;
@@ -114,8 +116,8 @@ function startingDelay(midDelay: number, d: number, xm: number, f1: number, f2: 
   return midDelay + first + second;
 }
 
-/** The solve in hand: model, inputs, x·f_k(d), D_lower − d, D_upper and the bracket ends in t. */
-const zone = { id: 'hyperboloid' as NumericalModelId, s: 1, x: 0.5, d: 1, K: 1, farSoon: 0, lowGap: 0, nearLow: 0, upper: 0, tLow: 0, tHigh: 0 };
+/** The solve in hand: model, inputs, x·f_k(d), the zone and the bracket ends in t. */
+const zone = { id: 'hyperboloid' as NumericalModelId, s: 1, x: 0.5, d: 1, K: 1, farSoon: 0, lowGap: 0, nearLow: 0, lower: 0, upper: 0, tLow: 0, tHigh: 0 };
 /** Gaps at the returned point (module scratch keeps the solver allocation-free). */
 const state = { lateDelay: 0, far: 0, near: 0 };
 /** f and f⁽ⁿ⁾/f for n = 1…4, derivatives in t, of f_K at D (far) and at D − d (near). */
@@ -130,15 +132,17 @@ const psi = new Float64Array(4);
  * ψ = (ln A)′ + (ln B)′ has a simple pole of residue +1 at t_L, where B vanishes, and of residue −1
  * at t_U, where A vanishes, so it falls from +∞ to −∞ across the zone: a guaranteed bracket. The
  * steps are taken on Ψ = ψ·(t − t_L)(t_U − t), which has the same roots inside the zone but no
- * poles, and is close to linear (exactly so, 2t − t_L − t_U negated, when both gaps are linear in t). Each step is Householder's third-order step on Ψ (quartic convergence; analytic ψ′, ψ″
- * and ψ‴), taken inside the bracket [lo, hi] that shrinks to the evaluated point on the side given
- * by the sign of ψ; a step leaving the bracket, or not halving the step before last, is replaced by
- * bisection (the safeguard of Press et al. 2007, Numerical Recipes 3rd ed., §9.4, "rtsafe").
+ * poles, and is close to linear (exactly t_L + t_U − 2t when both gaps are linear in t). Each step
+ * is Householder's third-order step on Ψ (quartic convergence; analytic ψ′, ψ″ and ψ‴), taken
+ * inside the bracket [lo, hi] that shrinks to the evaluated point on the side given by the sign
+ * of ψ; a step leaving the bracket, or not halving the step before last, is replaced by bisection
+ * (the safeguard of Press et al. 2007, Numerical Recipes 3rd ed., §9.4, "rtsafe").
  *
- * Stops once a step is at most 1e-5·min(1, distance to the nearer pole): a fourth-order step
- * that small leaves an error of order 1e-20, as a Newton step of 1e-10 does. The returned point
- * is that last step taken; D − d and both gaps are carried to it by Taylor series to third order
- * (the derivatives are at hand), so no evaluation is spent on it. Leaves D and the gaps in `state`.
+ * Stops once a step is at most 1e-5·min(1, distance to the nearer pole), or a few units in the
+ * last place of t if that is larger: a fourth-order step that small leaves an error of order
+ * 1e-20, as a Newton step of 1e-10 does. The returned point is that last step taken; D − d and
+ * both gaps are carried to it by Taylor series to third order (the derivatives are at hand), so
+ * no evaluation is spent on it. Leaves D and the gaps in `state`.
  */
 function slopeRoot(start: number, startDelay: number): void {
   const tLow = zone.tLow;
@@ -151,9 +155,20 @@ function slopeRoot(start: number, startDelay: number): void {
   for (let iter = 0; iter < 200; iter++) {
     const e = evaluate(t, iter === 0 ? startDelay : Math.exp(t));
     const g = psi[0];
-    // ψ is not finite only when a gap underflows to 0 (every discount factor below 1e-308):
-    // the criterion is flat zero there and any point of the zone is as good
-    if (g === 0 || !Number.isFinite(g)) return;
+    if (g === 0) return; // on the root itself
+    if (!Number.isFinite(g)) {
+      // ψ is not finite only when the far gap is lost to underflow (f_K(D) below the smallest
+      // double, as for exponential-power with K·D^s > 745), which happens from some D upwards:
+      // the optimum lies below t. If f_K is lost at the zone's lower end already, the criterion
+      // is zero everywhere and any point of the zone is as good.
+      if (!(discountAt(zone.id, zone.K, zone.s, 1, zone.lower) > zone.farSoon)) return;
+      hi = t;
+      if (hi - lo <= 1e-10) return;
+      stepBefore = step;
+      step = hi - 0.5 * (lo + hi);
+      t = 0.5 * (lo + hi);
+      continue;
+    }
     if (g > 0) lo = t;
     else hi = t;
     // Ψ = ψ·w with w = (t − t_L)(t_U − t): w′ = t_L + t_U − 2t, w″ = −2, w‴ = 0
@@ -164,7 +179,9 @@ function slopeRoot(start: number, startDelay: number): void {
     const G2 = psi[2] * w + 2 * psi[1] * w1 - 2 * g;
     const G3 = psi[3] * w + 3 * psi[2] * w1 - 6 * psi[1];
     const delta = (3 * G * (2 * G1 * G1 - G * G2)) / (6 * G1 * G1 * G1 - G * (6 * G1 * G2 - G * G3));
-    if (Math.abs(delta) <= 1e-5 * Math.min(1, t - tLow, tHigh - t)) {
+    // (in zones narrower than about 1e-10 in t the pole distance falls below the spacing of
+    // doubles near t, and a step below a few units in the last place of t counts as converged)
+    if (Math.abs(delta) <= Math.max(1e-5 * Math.min(1, t - tLow, tHigh - t), 8 * Number.EPSILON * Math.abs(t))) {
       // converged: move to t − δ (kept inside the bracket, which rounding could otherwise leave)
       const h = t - Math.min(hi, Math.max(lo, t - delta));
       const D = state.lateDelay;
@@ -178,7 +195,12 @@ function slopeRoot(start: number, startDelay: number): void {
     }
     let next = t - delta;
     if (!(next > lo && next < hi) || 2 * Math.abs(delta) > stepBefore) next = 0.5 * (lo + hi);
-    if (hi - lo <= 1e-10) return;
+    if (hi - lo <= 1e-10) {
+      // the bracket is down to 1e-10 in t (zones narrower than that, or steps lost in rounding):
+      // the search ends with one evaluation at the step taken
+      evaluate(next, Math.exp(next));
+      return;
+    }
     stepBefore = step;
     step = Math.abs(next - t);
     t = next;
@@ -220,8 +242,8 @@ function evaluate(t: number, e: number): number {
     const q = 1 + K * D;
     const qNear = 1 + K * e;
     const upper = zone.upper;
-    // (an upper bound beyond the largest double leaves only the difference of powers)
-    A = upper < Infinity ? farSoon * Math.expm1(s * Math.log1p((K * (upper - D)) / q)) : Math.pow(q, -s) - farSoon;
+    // (an upper bound beyond the largest double, or x·f_k(d) lost to underflow, leaves only the difference of powers)
+    A = upper < Infinity && farSoon > 0 ? farSoon * Math.expm1(s * Math.log1p((K * (upper - D)) / q)) : Math.pow(q, -s) - farSoon;
     const lowGap = zone.lowGap; // q_lower = 1 + K·lowGap, and zone.nearLow = 1/q_lower
     const nearRatio = -s * Math.log1p(K * (e - lowGap) * zone.nearLow);
     B = -x * Math.expm1(nearRatio);

@@ -179,6 +179,18 @@ describe('optimal late delay: a 40-digit reference from mathjs BigNumber', () =>
       }
     });
   }
+
+  it('finds the optimum when the far discount factor underflows over most of the zone', () => {
+    // exponential-power with K·D^s > 745 above D ≈ 300: f_K(D) is 0 in doubles over three quarters of
+    // the zone (190.5, 597.6), and x·f_k(d) underflows too; C is representable only near D_lower
+    const input: PairInput = { model: { id: 'exponential-power', sensitivity: 1.597 }, ratio: 0.4055, soonDelay: 186.11, kSmall: 0.55, kLarge: 0.0854 };
+    const o = optimiseLateDelay(input)!;
+    const exact = reference(input, o.lower, o.upper);
+    expect(o.gapProduct).toBeGreaterThan(0);
+    // f_K(D*) ≈ 1e-162 is still a normal double; exp of an argument near 370 adds ~370 eps: 1e-12 is honest
+    expect(relative(o.lateDelay, exact.lateDelay)).toBeLessThan(1e-12);
+    expect(relative(o.gapProduct, exact.gapProduct(o.lateDelay))).toBeLessThan(1e-12);
+  });
 });
 
 describe('optimal late delay: edges', () => {
