@@ -1,5 +1,5 @@
 import bcrypt from 'bcryptjs';
-import { Op } from 'sequelize';
+import { Op, type Transaction } from 'sequelize';
 import { PasswordResetToken, User } from '@/db/models';
 import { db } from '@/db';
 import { ApiError } from '@/lib/api/errors';
@@ -79,11 +79,18 @@ export async function completePasswordReset(input: PasswordResetInput): Promise<
     const row = await PasswordResetToken.findOne({ where: { tokenHash: hashToken(input.token) }, transaction, lock: transaction.LOCK.UPDATE });
     const state = stateOf(row);
     if (!row || state !== 'valid') throw new ApiError(410, STATE_MESSAGES[state as Exclude<ResetTokenState, 'valid'>]);
-    const now = new Date();
-    await User.update({ passwordHash }, { where: { id: row.userId }, transaction });
-    // every session signed in before the reset ends, on every device
-    await User.increment('sessionEpoch', { by: 1, where: { id: row.userId }, transaction });
-    await PasswordResetToken.update({ usedAt: now }, { where: { userId: row.userId, usedAt: { [Op.is]: null } }, transaction });
-    await recordAudit({ actorId: row.userId, studyId: null, action: 'account.password-reset', details: {} }, transaction);
+    await storeNewPassword(row.userId, passwordHash, 'account.password-reset', transaction);
   });
+}
+
+/**
+ * Inside the caller's transaction: sets a user's new password hash, ends every session signed in
+ * before (on every device), spends the user's open reset links, and audits the change as `action`.
+ * Shared by the reset link and the change on the account page.
+ */
+export async function storeNewPassword(userId: number, passwordHash: string, action: 'account.password-reset' | 'account.password-change', transaction: Transaction): Promise<void> {
+  await User.update({ passwordHash }, { where: { id: userId }, transaction });
+  await User.increment('sessionEpoch', { by: 1, where: { id: userId }, transaction });
+  await PasswordResetToken.update({ usedAt: new Date() }, { where: { userId, usedAt: { [Op.is]: null } }, transaction });
+  await recordAudit({ actorId: userId, studyId: null, action, details: {} }, transaction);
 }

@@ -1,11 +1,11 @@
 import bcrypt from 'bcryptjs';
-import { Op, UniqueConstraintError } from 'sequelize';
-import { PasswordResetToken, User } from '@/db/models';
+import { UniqueConstraintError } from 'sequelize';
+import { User } from '@/db/models';
 import { db } from '@/db';
 import { ApiError, ConflictError, ValidationError } from '@/lib/api/errors';
 import { TOO_MANY_ATTEMPTS, verifyCredentials } from '@/lib/auth/credentials';
 import type { PasswordChangeInput, SignUpInput } from '@/lib/validations/user';
-import { recordAudit } from './audit';
+import { storeNewPassword } from './password-reset';
 
 /** Creates an account; an e-mail already in use is a 409. */
 export async function createUser(input: SignUpInput) {
@@ -35,10 +35,5 @@ export async function changePassword(user: { id: number; email: string }, input:
   }
   if (!verified || Number(verified.id) !== user.id) throw new ValidationError([{ path: 'currentPassword', message: 'This is not your current password.' }]);
   const passwordHash = await bcrypt.hash(input.newPassword, 10);
-  await db().transaction(async (transaction) => {
-    await User.update({ passwordHash }, { where: { id: user.id }, transaction });
-    await User.increment('sessionEpoch', { by: 1, where: { id: user.id }, transaction });
-    await PasswordResetToken.update({ usedAt: new Date() }, { where: { userId: user.id, usedAt: { [Op.is]: null } }, transaction });
-    await recordAudit({ actorId: user.id, studyId: null, action: 'account.password-change', details: {} }, transaction);
-  });
+  await db().transaction((transaction) => storeNewPassword(user.id, passwordHash, 'account.password-change', transaction));
 }
