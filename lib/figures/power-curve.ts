@@ -72,9 +72,9 @@ export function powerCurveSvg(series: readonly PowerSeries[], options: PowerFigu
   parts.push(
     `<text transform="translate(18 ${MARGIN.top + innerH / 2}) rotate(-90)" font-size="13" text-anchor="middle" fill="#1f2933">Power (share of replicates with p &lt; α)</text>`,
   );
-  series.forEach((s, i) => {
+  const sorted = series.map((s) => [...s.points].sort((a, b) => a.n - b.n));
+  sorted.forEach((points, i) => {
     const colour = COLOURS[i % COLOURS.length];
-    const points = [...s.points].sort((a, b) => a.n - b.n);
     parts.push(`<path d="${band(points) ?? ''}" fill="${colour}" fill-opacity="0.18" stroke="none"/>`);
     parts.push(`<path d="${curve(points) ?? ''}" fill="none" stroke="${colour}" stroke-width="2.2"${i % 2 ? ' stroke-dasharray="7 3"' : ''}/>`);
     for (const p of points) parts.push(`<circle cx="${x(p.n)}" cy="${y(p.power)}" r="3" fill="${colour}"/>`);
@@ -94,8 +94,7 @@ export function powerCurveSvg(series: readonly PowerSeries[], options: PowerFigu
   ];
   const overlap = ({ lx, ly }: { lx: number; ly: number }) => {
     let hits = 0;
-    for (const s of series) {
-      const points = [...s.points].sort((a, b) => a.n - b.n);
+    for (const points of sorted) {
       for (let k = 0; k + 1 < points.length; k++) {
         // sample each segment so a line crossing the box between two points still counts
         for (let f = 0; f <= 1; f += 0.1) {
@@ -109,7 +108,8 @@ export function powerCurveSvg(series: readonly PowerSeries[], options: PowerFigu
     }
     return hits;
   };
-  const { lx, ly } = corners.reduce((best, c) => (overlap(c) < overlap(best) ? c : best), corners[0]);
+  const hits = corners.map(overlap);
+  const { lx, ly } = corners[hits.indexOf(Math.min(...hits))]; // the first of the freest
   if (series.length > 0) {
     parts.push(`<rect x="${lx - 6}" y="${ly - 6}" width="${boxW}" height="${boxH}" fill="#ffffff" fill-opacity="0.9" stroke="#e5e7eb"/>`);
   }
