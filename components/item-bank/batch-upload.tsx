@@ -37,24 +37,23 @@ export function BatchUpload({ studyId, versions }: { studyId: number; versions: 
     if (!file) return;
     const input = { designVersionId: versionId, csv: await file.text() };
     setCsvError(null);
-    setResults(
-      await serve
-        .mutateAsync(input)
-        .then((r) => {
-          setSent(input);
-          return r;
-        })
-        .catch(() => null),
-    );
+    try {
+      setResults(await serve.mutateAsync(input));
+      setSent(input);
+    } catch {
+      setResults(null); // serve.error says why
+    }
   };
+  // the file names carry the study and the version's hash, as the item-bank exports do
+  const stem = `${studyId}-${version?.hash.slice(0, 12) ?? versionId}`;
   const downloadSheet = () => {
-    saveText(`${Papa.unparse([['participantId', ...calibrationIds]])}\r\n`, `switchback-answer-sheet-${studyId}-${version?.hash.slice(0, 12) ?? versionId}.csv`, 'text/csv');
+    saveText(`${Papa.unparse([['participantId', ...calibrationIds]])}\r\n`, `switchback-answer-sheet-${stem}.csv`, 'text/csv');
   };
   const downloadCsv = async () => {
     if (!sent) return;
     setCsvError(null);
     try {
-      saveText(await fetchBatchCsv(studyId, sent), `switchback-batch-${studyId}-${version?.hash.slice(0, 12) ?? versionId}.csv`, 'text/csv');
+      saveText(await fetchBatchCsv(studyId, sent), `switchback-batch-${stem}.csv`, 'text/csv');
     } catch (error) {
       setCsvError(error instanceof Error ? error.message : 'The CSV could not be made.');
     }
@@ -105,7 +104,7 @@ export function BatchUpload({ studyId, versions }: { studyId: number; versions: 
             <Button variant="secondary" onClick={downloadCsv} data-testid="batch-csv">
               Download the item sets (CSV)
             </Button>
-            <Button variant="secondary" onClick={() => saveText(JSON.stringify(results, null, 2), `switchback-batch-${studyId}-${version?.hash.slice(0, 12) ?? versionId}.json`, 'application/json')}>
+            <Button variant="secondary" onClick={() => saveText(JSON.stringify(results, null, 2), `switchback-batch-${stem}.json`, 'application/json')}>
               Download the item sets (JSON)
             </Button>
           </div>
