@@ -13,11 +13,13 @@ export class ApiClientError extends Error {
 /** fetch for our JSON API: throws ApiClientError for non-2xx replies, returns parsed JSON (or null for 204). */
 export async function apiFetch<T>(url: string, init: RequestInit & { json?: unknown } = {}): Promise<T> {
   const { json, headers, ...rest } = init;
+  // Every write declares JSON, even without a body: the server refuses other types (cross-site protection).
+  const writes = (rest.method ?? 'GET').toUpperCase() !== 'GET';
   let response: Response;
   try {
     response = await fetch(url, {
       ...rest,
-      headers: { Accept: 'application/json', ...(json !== undefined ? { 'Content-Type': 'application/json' } : {}), ...headers },
+      headers: { Accept: 'application/json', ...(json !== undefined || writes ? { 'Content-Type': 'application/json' } : {}), ...headers },
       body: json !== undefined ? JSON.stringify(json) : rest.body,
     });
   } catch {

@@ -7,6 +7,7 @@ import { pathToFileURL } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { apiPermissions, type Access, type Method } from '@/lib/auth/permissions';
 import { ROLES, roleAtLeast, type Role } from '@/lib/auth/roles';
+import { CROSS_SITE_MESSAGE } from '@/lib/server/http/same-origin';
 import { ctx, makeStudyWithTeam, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
 
 const METHODS: Method[] = ['GET', 'POST', 'PUT', 'PATCH', 'DELETE'];
@@ -40,11 +41,12 @@ function paramsFor(pattern: string, studyId: number): { url: string; params: Rec
   return { url, params };
 }
 
-type Handler = (request: unknown, context: unknown) => Promise<Response>;
+type Handler = ((request: unknown, context: unknown) => Promise<Response>) & { bodyTypes?: string[] };
 
 async function call(handler: Handler, user: TestUser | null, method: Method, url: string, params: Record<string, string | string[]>) {
   const withBody = method === 'POST' || method === 'PUT' || method === 'PATCH';
-  const request = await requestAs(user, method, url, withBody ? { json: {} } : {});
+  const type = handler.bodyTypes?.[0] ?? 'application/json';
+  const request = await requestAs(user, method, url, withBody ? { body: type === 'application/json' ? '{}' : '', headers: { 'content-type': type } } : {});
   const response = await handler(request, ctx(params));
   return response.status;
 }
@@ -99,6 +101,51 @@ describe('the permission matrix', () => {
         if (roleAtLeast(role, access)) expect([401, 403], `${role} may ${method} ${pattern} (got ${status})`).not.toContain(status);
         else expect(status, `${role} must be refused ${method} ${pattern}`).toBe(403);
       }
+    });
+  }
+
+  // Cross-site protection: every state-changing route a session cookie authorises refuses, with a
+  // 403 JSON error, what a page on another origin (another port or subdomain of the same host) could
+  // send: a foreign Origin, no Origin and no Sec-Fetch-Site, or a form's body type. The caller is the
+  // study's owner (or a signed-in outsider on routes outside studies), so no role check can be the
+  // reason for the 403; the check runs before the handler, so nothing is changed either.
+  const writes = cases.filter(({ pattern, method, access }) => method !== 'GET' && access !== 'api-key' && !pattern.startsWith('/api/auth/'));
+  const hostile: Array<{ label: string; headers: Record<string, string> }> = [
+    { label: 'another port of the same host', headers: { origin: 'http://127.0.0.1:3130', 'content-type': 'application/json' } },
+    { label: 'a subdomain', headers: { origin: 'http://lab.127.0.0.1.example.org:3100', 'content-type': 'application/json' } },
+    { label: 'an opaque origin', headers: { origin: 'null', 'content-type': 'application/json' } },
+    { label: 'no Origin and no Sec-Fetch-Site', headers: { origin: '', 'content-type': 'application/json' } },
+    { label: 'no Origin and Sec-Fetch-Site same-site', headers: { origin: '', 'sec-fetch-site': 'same-site', 'content-type': 'application/json' } },
+    { label: 'an HTML form body', headers: { 'content-type': 'application/x-www-form-urlencoded' } },
+    { label: 'a text/plain form body', headers: { 'content-type': 'text/plain' } },
+    { label: 'a multipart form body', headers: { 'content-type': 'multipart/form-data; boundary=x' } },
+    { label: 'no body type', headers: { 'content-type': '' } },
+  ];
+
+  it('finds state-changing routes to protect', () => {
+    expect(writes.length).toBeGreaterThanOrEqual(20);
+  });
+
+  for (const { file, pattern, method, access } of writes) {
+    it(`${method} ${pattern} refuses cross-site requests with a 403 JSON error`, async () => {
+      const handler = ((await import(pathToFileURL(file).href)) as Record<string, Handler>)[method];
+      const { study, team, outsider } = await makeStudyWithTeam(`Cross-site ${method} ${pattern}`);
+      const { url, params } = paramsFor(pattern, study.id);
+      const caller = access === 'public' || access === 'signed-in' ? outsider : team.owner;
+      for (const { label, headers } of hostile) {
+        const request = await requestAs(caller, method, url, { body: '{}', headers });
+        for (const [name, value] of Object.entries(headers)) if (value === '') request.headers.delete(name);
+        const response = await handler(request, ctx(params));
+        expect(response.status, `${label}: ${method} ${pattern}`).toBe(403);
+        expect(response.headers.get('content-type')).toContain('application/json');
+        expect(((await response.json()) as { error: string }).error).toContain('cross-site protection');
+      }
+      // Without Origin, a browser's Sec-Fetch-Site: same-origin is enough for the origin check.
+      const request = await requestAs(caller, method, url, { body: '{}', headers: { 'sec-fetch-site': 'same-origin', 'content-type': handler.bodyTypes?.[0] ?? 'application/json' } });
+      request.headers.delete('origin');
+      const response = await handler(request, ctx(params));
+      const body = (await response.json().catch(() => ({}))) as { error?: string };
+      expect(body.error ?? '', `${method} ${pattern} with Sec-Fetch-Site: same-origin`).not.toBe(CROSS_SITE_MESSAGE);
     });
   }
 

@@ -47,7 +47,11 @@ export async function requestAs(
   path: string,
   options: { json?: unknown; body?: string; headers?: Record<string, string> } = {},
 ): Promise<NextRequest> {
-  const headers: Record<string, string> = { ...options.headers };
+  // A browser page of the app sends its own Origin with every write, and the server requires it
+  // (cross-site protection); writes declare JSON unless a test says otherwise.
+  const writes = method !== 'GET' && method !== 'HEAD';
+  // Host as the browser sends it (NextRequest's own URL says "localhost" for 127.0.0.1).
+  const headers: Record<string, string> = { host: new URL(BASE).host, ...(writes ? { origin: BASE, 'content-type': 'application/json' } : {}), ...options.headers };
   if (user) {
     const token = await encode({ token: { sub: String(user.id), email: user.email, name: user.name, epoch: user.sessionEpoch ?? 0 }, secret: process.env.NEXTAUTH_SECRET! });
     headers.cookie = `next-auth.session-token=${token}`;

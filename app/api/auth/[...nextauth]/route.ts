@@ -1,6 +1,22 @@
 import NextAuth from 'next-auth';
+import type { NextRequest } from 'next/server';
+import { errorResponse } from '@/lib/api/handler';
 import { authOptions } from '@/lib/auth/options';
+import { ForbiddenError } from '@/lib/api/errors';
+import { CROSS_SITE_MESSAGE, isSameOrigin } from '@/lib/server/http/same-origin';
 
 const handler = NextAuth(authOptions);
 
-export { handler as GET, handler as POST };
+/**
+ * next-auth's own POSTs (sign-in, sign-out) carry its double-submit CSRF token, but a page on
+ * another port of the same host receives the same cookies and so could read that token from its
+ * own requests. They are therefore also refused unless they come from this origin. They keep their
+ * form body type (next-auth's client posts application/x-www-form-urlencoded), so only the origin
+ * is checked here.
+ */
+async function POST(request: NextRequest, context: { params: Promise<{ nextauth: string[] }> }) {
+  if (!isSameOrigin(request, new URL(request.url))) return errorResponse(new ForbiddenError(CROSS_SITE_MESSAGE));
+  return handler(request, context);
+}
+
+export { handler as GET, POST };

@@ -15,4 +15,4 @@ export const POST = route<{ id: string }>(async (request, { params }) => {
   const fit = fitPilotCsv(await readPilotText(request));
   if (!fit.ok) throw new ApiError(422, fit.message, fit.issues.map((i) => ({ path: `line ${i.line}: ${i.field}`, message: i.message })));
   return NextResponse.json(fit);
-});
+}, { bodyTypes: ['text/csv'] });
