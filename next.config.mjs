@@ -6,6 +6,10 @@ const nextConfig = {
   distDir: process.env.NEXT_DIST_DIR || '.next',
   poweredByHeader: false,
   reactStrictMode: true,
+  // Build assets skip proxy.ts (which sets every other reply's security headers).
+  async headers() {
+    return [{ source: '/_next/static/:path*', headers: [{ key: 'X-Content-Type-Options', value: 'nosniff' }] }];
+  },
 };
 
 export default nextConfig;

@@ -35,9 +35,11 @@ await app.prepare(); // runs instrumentation.ts's register(), as `next start` do
 // Loaded through tsx (the `@/` alias resolves from tsconfig.json): a module copy of its own beside
 // Next's bundle, sharing the Sequelize pool and the API-key cache through globalThis.
 const { tsImport } = await import('tsx/esm/api');
-const { answerDirect } = await tsImport('../lib/server/direct-api.ts', import.meta.url);
+const { answerDirect, refuseMalformedPath } = await tsImport('../lib/server/direct-api.ts', import.meta.url);
 
 const server = createServer((request, response) => {
+  // A path no route can decode gets 400 here, on both paths (proxy.ts does the same under `next dev`).
+  if (refuseMalformedPath(request, response)) return;
   if (answerDirect(request, response)) return;
   handle(request, response);
 });

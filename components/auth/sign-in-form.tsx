@@ -8,6 +8,7 @@ import { useForm } from 'react-hook-form';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
+import { safeCallbackPath } from '@/lib/shared/callback-url';
 import { signInSchema, type SignInInput } from '@/lib/validations/user';
 
 const MESSAGES: Record<string, string> = {
@@ -26,7 +27,7 @@ export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
       setFailure(MESSAGES[result?.error ?? ''] ?? 'Sign-in failed. If the database is starting up, try again in a moment.');
       return;
     }
-    window.location.assign(callbackUrl);
+    window.location.assign(safeCallbackPath(callbackUrl));
   });
 
   return (

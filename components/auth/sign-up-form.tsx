@@ -8,6 +8,7 @@ import { useForm } from 'react-hook-form';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
+import { safeCallbackPath } from '@/lib/shared/callback-url';
 import { ApiClientError, apiFetch } from '@/lib/client/api';
 import { signUpSchema, type SignUpInput } from '@/lib/validations/user';
 
@@ -35,7 +36,7 @@ export function SignUpForm({ callbackUrl, email }: { callbackUrl: string; email?
       setFailure('Your account was created, but signing in failed. Try signing in.');
       return;
     }
-    window.location.assign(callbackUrl);
+    window.location.assign(safeCallbackPath(callbackUrl));
   });
 
   return (

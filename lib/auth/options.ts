@@ -1,6 +1,7 @@
 import type { NextAuthOptions } from 'next-auth';
 import CredentialsProvider from 'next-auth/providers/credentials';
 import { verifyCredentials } from './credentials';
+import { safeRedirectUrl } from '@/lib/shared/callback-url';
 
 /** The caller's address for rate limits: the first X-Forwarded-For hop, X-Real-IP, or "local". */
 export function clientAddress(headers: Record<string, unknown> | undefined): string {
@@ -24,6 +25,10 @@ export const authOptions: NextAuthOptions = {
     }),
   ],
   callbacks: {
+    // Only this app's own pages after signing in or out, never another host (open redirect).
+    async redirect({ url, baseUrl }) {
+      return safeRedirectUrl(url, baseUrl);
+    },
     async jwt({ token, user }) {
       if (user) {
         token.sub = user.id;

@@ -3,6 +3,7 @@ import { ApiError } from '@/lib/api/errors';
 import { errorReply, type PlainReply } from '@/lib/api/error-reply';
 import { BODY_TOO_LARGE, MAX_BODY_BYTES } from '@/lib/api/read-json';
 import { handleProbeItems } from '@/lib/services/probe-endpoint';
+import { MALFORMED_PATH_MESSAGE, dataReplyHeaders, hasMalformedEscape, isHttps } from './http/security-headers';
 
 // The production server (scripts/serve.mjs) answers POST /api/v1/studies/{id}/probe-items here,
 // on node:http, instead of handing it to Next: the survey-facing hot path is measured in
@@ -56,9 +57,20 @@ export function readNodeBody(request: IncomingMessage, maxBytes = MAX_BODY_BYTES
   });
 }
 
-function send(response: ServerResponse, reply: PlainReply): void {
+/** Whether the request came over TLS, here or (as it says) at a proxy in front. */
+function overHttps(request: IncomingMessage): boolean {
+  const forwarded = request.headers['x-forwarded-proto'];
+  return isHttps('encrypted' in request.socket && request.socket.encrypted ? 'https:' : 'http:', typeof forwarded === 'string' ? forwarded : null);
+}
+
+function send(request: IncomingMessage, response: ServerResponse, reply: PlainReply): void {
   if (response.headersSent || response.destroyed) return;
-  const headers: Record<string, string | number> = { ...reply.headers, [DIRECT_PATH_HEADER]: 'direct', 'content-length': Buffer.byteLength(reply.body) };
+  const headers: Record<string, string | number> = {
+    ...dataReplyHeaders({ https: overHttps(request) }),
+    ...reply.headers,
+    [DIRECT_PATH_HEADER]: 'direct',
+    'content-length': Buffer.byteLength(reply.body),
+  };
   // A refused body may still be arriving: close the connection rather than read the rest.
   if (reply.status === 413) headers.connection = 'close';
   response.writeHead(reply.status, headers);
@@ -72,6 +84,19 @@ export function answerDirect(request: IncomingMessage, response: ServerResponse)
   const authorization = request.headers.authorization;
   handleProbeItems({ studyId, authorization: authorization === undefined ? null : authorization, readBody: () => readNodeBody(request) })
     .catch((error: unknown) => errorReply(error))
-    .then((reply) => send(response, reply));
+    .then((reply) => send(request, response, reply));
+  return true;
+}
+
+/**
+ * Answers 400 (JSON, with the security headers) when the request's path holds a malformed
+ * percent-escape, which no route can decode; true when it answered. scripts/serve.mjs calls this
+ * first, so neither the direct path nor Next sees such a path.
+ */
+export function refuseMalformedPath(request: IncomingMessage, response: ServerResponse): boolean {
+  const url = request.url ?? '/';
+  const query = url.indexOf('?');
+  if (!hasMalformedEscape(query === -1 ? url : url.slice(0, query))) return false;
+  send(request, response, { status: 400, headers: { 'content-type': 'application/json' }, body: JSON.stringify({ error: MALFORMED_PATH_MESSAGE }) });
   return true;
 }

@@ -1,4 +1,5 @@
 import type { Metadata } from 'next';
+import { safeCallbackPath } from '@/lib/shared/callback-url';
 import { redirect } from 'next/navigation';
 import { SignInForm } from '@/components/auth/sign-in-form';
 import { getPageUser } from '@/lib/auth/session';
@@ -7,7 +8,7 @@ export const metadata: Metadata = { title: 'Sign in' };
 
 export default async function SignInPage({ searchParams }: { searchParams: Promise<{ callbackUrl?: string }> }) {
   const { callbackUrl } = await searchParams;
-  const safe = callbackUrl?.startsWith('/') && !callbackUrl.startsWith('//') ? callbackUrl : '/studies';
+  const safe = safeCallbackPath(callbackUrl);
   if (await getPageUser()) redirect(safe);
   return <SignInForm callbackUrl={safe} />;
 }
