@@ -1,6 +1,6 @@
 'use client';
 
-import Papa from 'papaparse';
+import { toCsv } from '@/lib/shared/csv';
 import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
@@ -47,7 +47,7 @@ export function BatchUpload({ studyId, versions }: { studyId: number; versions: 
   // the file names carry the study and the version's hash, as the item-bank exports do
   const stem = `${studyId}-${version?.hash.slice(0, 12) ?? versionId}`;
   const downloadSheet = () => {
-    saveText(`${Papa.unparse([['participantId', ...calibrationIds]])}\r\n`, `switchback-answer-sheet-${stem}.csv`, 'text/csv');
+    saveText(toCsv({ columns: ['participantId', ...calibrationIds], rows: [] }), `switchback-answer-sheet-${stem}.csv`, 'text/csv');
   };
   const downloadCsv = async () => {
     if (!sent) return;

@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize';
 import { db } from '@/db';
-import { toSafeCsv } from '@/lib/csv-safety';
+import { toCsv } from '@/lib/shared/csv';
 import { recordAudit } from './audit';
 
 /** One audit event as the audit page and its CSV show it. */
@@ -52,8 +52,8 @@ export function describeDetails(details: Record<string, unknown>): string {
 export async function exportAuditCsv(actorId: number, studyId: number): Promise<string> {
   const events = await listAuditEvents(studyId);
   await recordAudit({ actorId, studyId, action: 'audit.export', details: { rows: events.length } });
-  return toSafeCsv(
-    ['time_utc', 'action', 'actor_name', 'actor_email', 'details'],
-    events.map((e) => [e.at, e.action, e.actorName, e.actorEmail, describeDetails(e.details)]),
-  );
+  return toCsv({
+    columns: ['time_utc', 'action', 'actor_name', 'actor_email', 'details'],
+    rows: events.map((e) => [e.at, e.action, e.actorName, e.actorEmail, describeDetails(e.details)]),
+  });
 }

@@ -1,8 +1,7 @@
 import Papa from 'papaparse';
-import { Parser } from '@json2csv/plainjs';
 import type { DesignVersion } from '@/db/models';
 import { ApiError, ValidationError } from '@/lib/api/errors';
-import { neutraliseRows, restoreCell } from '@/lib/csv-safety';
+import { recordsToCsv, restoreCell } from '@/lib/shared/csv';
 import { BATCH_MAX_ROWS, participantIdSchema } from '@/lib/validations/item-bank';
 import { serveProbeItems, type ProbeItemsReply } from './participants';
 
@@ -53,5 +52,5 @@ export function batchCsv(results: readonly BatchResult[]): string {
       : [{ participantId: r.participantId, status: 'refused', flag: '', kSmall: '', kLarge: '', message: [r.message, ...r.issues.map((i) => `${i.path}: ${i.message}`)].join(' | ') }],
   );
   const fields = ['participantId', 'status', 'flag', 'kSmall', 'kLarge', 'message', 'id', 'block', 'role', 'set', 'view', 'pairId', 'soonerAmount', 'soonerDelay', 'laterAmount', 'laterDelay', 'soonerSide', 'position', 'text'];
-  return `${new Parser({ fields, defaultValue: '' }).parse(neutraliseRows(rows))}\n`;
+  return recordsToCsv({ records: rows, columns: fields });
 }

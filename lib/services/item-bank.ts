@@ -1,8 +1,7 @@
-import { Parser } from '@json2csv/plainjs';
 import { Design, DesignVersion } from '@/db/models';
 import { db } from '@/db';
 import { NotFoundError, ValidationError } from '@/lib/api/errors';
-import { neutraliseRows } from '@/lib/csv-safety';
+import { recordsToCsv } from '@/lib/shared/csv';
 import { DesignInputError, type BankItem } from '@/lib/design';
 import type { Study } from '@/db/models';
 import { exportOptionsSchema, type ExportOptions } from '@/lib/validations/item-bank';
@@ -89,10 +88,7 @@ export function exportFileName(study: { id: number; name: string }, hash: string
 
 /** Items as CSV: a commented header (study, design hash, seed, units), then one row per item, formula-safe. */
 export function itemsCsv(items: readonly BankItem[], headerLines: string[]): string {
-  const parser = new Parser({ fields: [...ITEM_COLUMNS], defaultValue: '' });
-  const safe = neutraliseRows(items.map((i) => ({ ...i })));
-  const comments = headerLines.map((l) => `# ${l.replace(/[\r\n]+/g, ' ')}`).join('\n');
-  return `${comments}\n${parser.parse(safe)}\n`;
+  return recordsToCsv({ records: items, columns: ITEM_COLUMNS, comments: headerLines });
 }
 
 /**

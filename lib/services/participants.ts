@@ -1,9 +1,8 @@
-import { Parser } from '@json2csv/plainjs';
 import { Participant } from '@/db/models';
 import { db, rawQuery } from '@/db';
 import { ConflictError, UnauthorizedError, ValidationError } from '@/lib/api/errors';
 import { contentHash } from '@/lib/canonical-json';
-import { neutraliseRows } from '@/lib/csv-safety';
+import { recordsToCsv, toCsv } from '@/lib/shared/csv';
 import { ItemBankInputError, serveParticipant, type ServedItems } from '@/lib/design';
 import type { FrozenDesign } from '@/lib/validations/design';
 import { markApiKeyRevoked, type CachedKey } from './api-keys';
@@ -123,6 +122,6 @@ export function participantsCsv(participants: ReturnType<typeof participantJson>
       ...item,
     })),
   );
-  if (rows.length === 0) return 'participantId\n';
-  return `${new Parser({ defaultValue: '' }).parse(neutraliseRows(rows))}\n`;
+  if (rows.length === 0) return toCsv({ columns: ['participantId'], rows: [] });
+  return recordsToCsv({ records: rows });
 }

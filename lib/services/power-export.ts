@@ -1,4 +1,4 @@
-import { Parser } from '@json2csv/plainjs';
+import { recordsToCsv } from '@/lib/shared/csv';
 import { figurePng } from '@/lib/figures/png';
 import { powerCurveSvg, type PowerSeries } from '@/lib/figures/power-curve';
 import { PAIR_ROLES } from '@/lib/design/power/types';
@@ -49,7 +49,7 @@ export function runCsv(run: PowerRunDto, result: PowerResultDto): string {
     row.seed = run.spec.seed;
     return row;
   });
-  return new Parser().parse(rows);
+  return recordsToCsv({ records: rows });
 }
 
 /** Everything a reader needs to check a run: spec, design, results, method text, software. */

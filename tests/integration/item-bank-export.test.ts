@@ -23,7 +23,7 @@ describe('item-bank export', () => {
     expect(csv.headers.get('content-disposition')).toContain(`switchback-items-${study.id}-export-study-${version.hash.slice(0, 12)}-seed42.csv`);
     const text = await csv.text();
     expect(text).toContain(`hash ${version.hash} · seed 42`);
-    expect(text.split('\n').find((l) => !l.startsWith('#'))).toBe('"id","block","role","set","view","pairId","magnitude","soonerAmount","soonerDelay","laterAmount","laterDelay","soonerSide","position","text"');
+    expect(text.split('\r\n').find((l) => !l.startsWith('#'))).toBe('id,block,role,set,view,pairId,magnitude,soonerAmount,soonerDelay,laterAmount,laterDelay,soonerSide,position,text');
 
     const json = await exportBank(await requestAs(team.owner, 'GET', `/api/studies/${study.id}/item-bank/${version.id}/export?format=json`), params);
     const body = (await json.json()) as { header: { seed: number; designVersion: { hash: string } }; items: unknown[] };

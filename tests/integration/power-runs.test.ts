@@ -145,7 +145,7 @@ describe('power runs', () => {
     expect(pngInfo(png)).toEqual({ width: 1950, height: 1260, pixelsPerMetre: 11811 });
 
     const csv = await (await download(team.viewer, study.id, a.id, 'format=csv')).text();
-    expect(csv.split('\n')[0]).toMatch(/"n","power","wilson_lower","wilson_upper"/);
+    expect(csv.split('\r\n')[0]).toMatch(/^n,power,wilson_lower,wilson_upper,/);
     expect(csv.trim().split('\n')).toHaveLength(4);
     const json = await (await download(team.viewer, study.id, a.id, 'format=json')).json();
     expect(json.design.hash).toBe(version.hash);

@@ -1,6 +1,6 @@
 import Papa from 'papaparse';
 import { describe, expect, it } from 'vitest';
-import { restoreCell } from '@/lib/csv-safety';
+import { restoreCell } from '@/lib/shared/csv';
 import { amountText, amountUnit, delayText, predictPattern, type BankItem } from '@/lib/design';
 import { ITEM_COLUMNS, itemsCsv } from '@/lib/services/item-bank';
 import { bankFor } from '@/lib/services/item-bank-plan';
@@ -26,7 +26,7 @@ describe('item-bank export', () => {
     for (const content of [design(), design({ mode: 'population', criterion: 'gap-product' }), design({ currency: 'JPY', largeAmount: 10000 })]) {
       const { bank } = bankFor({ hash: HASH, content }, { delayUnit: 'weeks' });
       const csv = itemsCsv(bank.items, ['study 1', `hash ${HASH} seed 7`]);
-      expect(csv.startsWith('# study 1\n# hash')).toBe(true);
+      expect(csv.startsWith('# study 1\r\n# hash')).toBe(true);
       expect(readBack(csv)).toEqual(JSON.parse(JSON.stringify(bank.items)));
     }
   });

@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import Papa from 'papaparse';
-import { neutraliseCell, toSafeCsv } from '@/lib/csv-safety';
+import { neutraliseCell, toCsv } from '@/lib/shared/csv';
+
+const toSafeCsv = (columns: string[], rows: Array<Array<string | number | null>>) => toCsv({ columns, rows });
 
 describe('cells that a spreadsheet would run as formulas are neutralised', () => {
   it.each(['=1+1', '+1', '-2+3', '@SUM(A1)', '\tx', '\rx'])('prefixes %j with an apostrophe', (cell) => {
