@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { nameText } from '@/lib/shared/validations/text';
 import { modelSpecSchema, priorValuesSchema } from './planner';
 
 /**
@@ -26,7 +27,7 @@ export const powerTruthSchema = z.strictObject({
 export const powerRunSpecSchema = z
   .strictObject({
     designVersionId: z.number({ error: 'Choose a frozen design version.' }).int().positive('Choose a frozen design version.'),
-    label: z.string().trim().max(120, 'Keep the label under 120 characters.').default(''),
+    label: nameText({ label: 'The label', min: 0, max: 120, tooLong: 'Keep the label under 120 characters.' }).default(''),
     truth: powerTruthSchema,
     calibration: z.enum(['simulated', 'known']),
     test: z.strictObject({
