@@ -10,7 +10,7 @@ import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { safeCallbackPath } from '@/lib/shared/callback-url';
 import { ApiClientError, apiFetch } from '@/lib/client/api';
-import { signUpSchema, type SignUpInput } from '@/lib/validations/user';
+import { signUpSchema, type SignUpInput } from '@/lib/shared/validations/user';
 
 export function SignUpForm({ callbackUrl, email }: { callbackUrl: string; email?: string }) {
   const [failure, setFailure] = useState<string | null>(null);

@@ -2,24 +2,9 @@
 // participants, batch results, power results, the audit trail, the offline answer sheet) is built
 // here, so every cell — column names and comment lines included — passes the formula guard.
 
-/**
- * Spreadsheet formula injection: a cell whose text starts with = + - @, a tab or a carriage
- * return may be run as a formula when the CSV is opened in a spreadsheet. Such cells get a
- * leading apostrophe, which spreadsheets show as text and hide (common practice, as
- * recommended by OWASP's "CSV Injection" page). Numbers are left alone: they are written as
- * numbers, so a negative number is not a formula.
- *
- * @example neutraliseCell('=1+1') // "'=1+1"
- */
-export function neutraliseCell<T>(value: T): T | string {
-  if (typeof value !== 'string') return value;
-  return /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
-}
+import { neutraliseCell } from './formula-guard';
 
-/** The original text of a neutralised cell (for reading our own exports back). */
-export function restoreCell(value: string): string {
-  return /^'[=+\-@\t\r]/.test(value) ? value.slice(1) : value;
-}
+export { neutraliseCell, restoreCell } from './formula-guard';
 
 /** A cell's value: text, a number, a flag, or empty. */
 export type CsvCell = string | number | boolean | null | undefined;

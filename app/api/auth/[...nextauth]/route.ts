@@ -1,8 +1,8 @@
 import NextAuth from 'next-auth';
 import type { NextRequest } from 'next/server';
-import { errorResponse } from '@/lib/api/handler';
-import { authOptions } from '@/lib/auth/options';
-import { ForbiddenError } from '@/lib/api/errors';
+import { authOptions } from '@/lib/server/auth/options';
+import { ForbiddenError } from '@/lib/server/errors';
+import { errorResponse } from '@/lib/server/http/handler';
 import { CROSS_SITE_MESSAGE, isSameOrigin } from '@/lib/server/http/same-origin';
 
 const handler = NextAuth(authOptions);
