@@ -1,4 +1,4 @@
-import { ForbiddenError } from '@/lib/api/errors';
+import { ForbiddenError } from '@/lib/server/errors';
 
 // Cross-site request forgery: a page on another port or subdomain of the same host is "same-site",
 // so the browser sends it the session cookie (SameSite=Lax does not help), and a plain HTML form
