@@ -32,7 +32,8 @@ export async function up({ context: q }: MigrationParams<QueryInterface>) {
     id,
     study_id: studyRef(),
     design_version_id: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, references: { model: 'design_versions', key: 'id' }, onDelete: 'CASCADE' },
-    participant_id: { type: DataTypes.STRING(128), allowNull: false },
+    // Exact ids (binary collation): "P1" and "p1" are two participants (see 0008).
+    participant_id: { type: 'VARCHAR(128) CHARACTER SET utf8mb4 COLLATE utf8mb4_bin', allowNull: false },
     status: { type: DataTypes.ENUM('started', 'calibrated', 'served', 'completed'), allowNull: false },
     source: { type: DataTypes.ENUM('api', 'page', 'upload'), allowNull: false },
     api_key_id: keyRef(),
@@ -49,7 +50,7 @@ export async function up({ context: q }: MigrationParams<QueryInterface>) {
     id,
     study_id: studyRef(),
     participant_ref: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, references: { model: 'participants', key: 'id' }, onDelete: 'CASCADE' },
-    item_id: { type: DataTypes.STRING(64), allowNull: false },
+    item_id: { type: 'VARCHAR(64) CHARACTER SET utf8mb4 COLLATE utf8mb4_bin', allowNull: false },
     chosen: { type: DataTypes.ENUM('SS', 'LL'), allowNull: false },
     response_ms: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
     side_shown: { type: DataTypes.ENUM('left', 'right'), allowNull: true },
