@@ -22,6 +22,6 @@ export { calibrationItems, type CalibrationItem, type CalibrationOptions, type M
 export { extrapolationWarning, type ExtrapolationWarning } from './extrapolationWarning';
 export { estimateRates, type Choice, type EstimateFlag, type EstimateOptions, type RateEstimate, type RateEstimates } from './estimateRates';
 // Argument checks shared with lib/criteria, so both halves of the core refuse bad input with the same words.
-export { checkDelay, checkInteger, checkLateDelay, checkModel, checkRatio } from './validate';
+export { checkDelay, checkInteger, checkLateDelay, checkModel, checkRatio, MIN_SENSITIVITY } from './validate';
 export * from './power';
 export * from './item-bank';

@@ -44,14 +44,22 @@ export function checkInteger(field: string, v: number, min: number, max: number)
   }
 }
 
-/** Validates a model: known id, s > 0 finite when given, 0 < β ≤ 1 when given. */
+/**
+ * The smallest delay sensitivity s the core computes with. Below it t^s differs from 1 by less
+ * than 1e-5 over every delay up to 25 years (ln 9131 ≈ 9.1), so the delay term carries no
+ * information, and the late-delay optimiser's slope loses its root in rounding (it failed to
+ * converge at s = 1e-100 and below in the schema sweep, tests/unit/security/schema-extremes).
+ */
+export const MIN_SENSITIVITY = 1e-6;
+
+/** Validates a model: known id, s finite and at least MIN_SENSITIVITY when given, 0 < β ≤ 1 when given. */
 export function checkModel(model: ModelSpec): void {
   if (model === null || typeof model !== 'object') {
     throw new DesignInputError('model', 'an object with a model id', model);
   }
   const s = model.sensitivity;
-  if (s !== undefined && !(s > 0 && s < Infinity)) {
-    throw new DesignInputError('model.sensitivity', 'a finite number greater than 0', s);
+  if (s !== undefined && !(s >= MIN_SENSITIVITY && s < Infinity)) {
+    throw new DesignInputError('model.sensitivity', `a finite number of at least ${MIN_SENSITIVITY}`, s);
   }
   const b = model.presentBias;
   if (b !== undefined && !(b > 0 && b <= 1)) {

@@ -33,7 +33,9 @@ export type PriorSetInput = z.input<typeof priorSetSchema>;
 
 export const modelSpecSchema = z.strictObject({
   id: z.enum(MODEL_CHOICES),
-  sensitivity: z.number().positive('Delay sensitivity s must be above 0.').max(5, 'Delay sensitivity s must be at most 5.').optional(),
+  // Below 0.01 the delay term t^s changes by under 10 % from 1 day to 25 years: the model no longer
+  // discounts by delay, and the optimiser's numbers stop being meaningful (planner bound).
+  sensitivity: z.number().min(0.01, 'Delay sensitivity s must be at least 0.01.').max(5, 'Delay sensitivity s must be at most 5.').optional(),
   presentBias: z.number().gt(0, 'Present bias β must be above 0.').max(1, 'Present bias β must be at most 1.').optional(),
 });
 

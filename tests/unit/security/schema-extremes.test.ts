@@ -1,0 +1,163 @@
+// Values a schema accepts must never crash later: for every numeric field of the design, prior
+// and power schemas, the extremes each schema allows (its bounds, and values just inside an open
+// bound) either compute — the design summary, the item bank, a short power simulation — or fail
+// with the core's DesignInputError (a 422 naming the field). Any other throw is a 500 waiting.
+import { describe, expect, it } from 'vitest';
+import { DesignInputError } from '@/lib/design';
+import { createPowerSimulator } from '@/lib/design/power';
+import { bankFor } from '@/lib/shared/item-bank-plan';
+import { computeDesignSummary } from '@/lib/shared/planner/summary';
+import { buildScenario } from '@/lib/shared/power-scenario';
+import { frozenDesignSchema, MODEL_CHOICES, type FrozenDesign } from '@/lib/shared/validations/planner';
+import { powerRunSpecSchema } from '@/lib/shared/validations/power';
+import { design, HASH } from '../item-bank/fixtures';
+
+const TINY = [Number.MIN_VALUE, 1e-300, 1e-12];
+
+/** Extremes per field: what the schema's bounds let through, and a little beyond (the schema must refuse those). */
+const DESIGN_FIELDS: Record<string, number[]> = {
+  'prior.medianSmall': [...TINY, 10],
+  'prior.medianLarge': [...TINY, 10],
+  'prior.sdLogSmall': [0, 5],
+  'prior.sdLogLarge': [0, 5],
+  'prior.correlation': [-0.99, 0.99],
+  'spec.model.sensitivity': [...TINY, 5],
+  'spec.model.presentBias': [...TINY, 1],
+  'spec.ratio': [...TINY, 0.9999999999999999],
+  'spec.largeAmount': [...TINY, 1_000_000],
+  'spec.choiceSensitivity': [...TINY, 1000],
+  'spec.lateDelayLimit': [2, 15, 9131],
+  'spec.soonDelay.days': [0, 1, 365],
+  'spec.probePairs': [1, 20],
+  'spec.lateAnchors': [0, 10],
+  'spec.soonAnchors': [0, 10],
+  'spec.calibration.itemsPerMagnitude': [4, 40],
+  'spec.calibration.minDelay': [1, 9130],
+  'spec.calibration.maxDelay': [2, 9131],
+};
+
+function withField(content: FrozenDesign, path: string, value: number): unknown {
+  const copy = JSON.parse(JSON.stringify(content)) as Record<string, unknown>;
+  const keys = path.split('.');
+  let node = copy as Record<string, unknown>;
+  for (const key of keys.slice(0, -1)) node = node[key] as Record<string, unknown>;
+  node[keys.at(-1)!] = value;
+  if (path === 'spec.soonDelay.days' && value === 365) (copy.spec as { lateDelayLimit: number }).lateDelayLimit = 9131;
+  if (path === 'spec.calibration.minDelay') (copy.spec as { calibration: { maxDelay: number } }).calibration.maxDelay = 9131;
+  return copy;
+}
+
+/** Runs `compute`; returns a description of any throw that is not the core's named input error. */
+function crashOf(compute: () => unknown): string | null {
+  try {
+    compute();
+    return null;
+  } catch (error) {
+    return error instanceof DesignInputError ? null : `${(error as Error).name}: ${(error as Error).message}`;
+  }
+}
+
+const bases: FrozenDesign[] = MODEL_CHOICES.flatMap((id) =>
+  (['personalised', 'population'] as const).map((mode) =>
+    design({ mode, model: { id, ...(id === 'hyperboloid' || id === 'power-delay' || id === 'exponential-power' ? { sensitivity: 0.8 } : {}), ...(id === 'quasi-hyperbolic' ? { presentBias: 0.8 } : {}) } }),
+  ),
+);
+
+describe('schema-accepted extremes never crash the planner or the item bank', () => {
+  for (const [field, values] of Object.entries(DESIGN_FIELDS)) {
+    it(`${field}`, () => {
+      const crashes: string[] = [];
+      for (const base of bases) {
+        for (const value of values) {
+          const parsed = frozenDesignSchema.safeParse(withField(base, field, value));
+          if (!parsed.success) continue; // refused with 422 naming the field: fine
+          const content = parsed.data;
+          const where = `${content.spec.model.id}/${content.spec.mode} ${field}=${value}`;
+          const summary = crashOf(() => computeDesignSummary({ spec: content.spec, prior: content.prior }));
+          if (summary) crashes.push(`summary ${where}: ${summary}`);
+          const bank = crashOf(() => bankFor({ hash: HASH, content }));
+          if (bank) crashes.push(`item bank ${where}: ${bank}`);
+        }
+      }
+      expect(crashes).toEqual([]);
+    });
+  }
+});
+
+describe('all fields at their extremes at once never crash the planner or the item bank', () => {
+  const corners = {
+    low: { ratio: Number.MIN_VALUE, largeAmount: Number.MIN_VALUE, choiceSensitivity: Number.MIN_VALUE, lateDelayLimit: 2, soonDelay: { mode: 'fixed', days: 0 }, probePairs: 1, lateAnchors: 0, soonAnchors: 0, calibration: { itemsPerMagnitude: 4, minDelay: 1, maxDelay: 2 } },
+    high: { ratio: 0.9999999999999999, largeAmount: 1_000_000, choiceSensitivity: 1000, lateDelayLimit: 9131, soonDelay: { mode: 'optimised', min: 0, max: 365 }, probePairs: 20, lateAnchors: 10, soonAnchors: 10, calibration: { itemsPerMagnitude: 40, minDelay: 1, maxDelay: 9131 } },
+  };
+  const priors = {
+    low: { medianSmall: Number.MIN_VALUE, medianLarge: Number.MIN_VALUE, sdLogSmall: 0, sdLogLarge: 0, correlation: -0.99 },
+    high: { medianSmall: 10, medianLarge: 10, sdLogSmall: 5, sdLogLarge: 5, correlation: 0.99 },
+  };
+  for (const [specCorner, spec] of Object.entries(corners)) {
+    for (const [priorCorner, prior] of Object.entries(priors)) {
+      it(`design fields ${specCorner}, prior fields ${priorCorner}`, () => {
+        const crashes: string[] = [];
+        for (const id of MODEL_CHOICES) {
+          for (const s of [0.01, 5]) {
+            for (const mode of ['personalised', 'population'] as const) {
+              for (const criterion of ['gap-product', 'expected-reversal-rate', 'maximin'] as const) {
+                const model = { id, ...(id === 'hyperboloid' || id === 'power-delay' || id === 'exponential-power' ? { sensitivity: s } : {}), ...(id === 'quasi-hyperbolic' ? { presentBias: s === 5 ? 1 : Number.MIN_VALUE } : {}) };
+                const parsed = frozenDesignSchema.safeParse(JSON.parse(JSON.stringify(design({ mode, criterion, model, ...(spec as object) }, prior))));
+                if (!parsed.success) continue;
+                const content = parsed.data;
+                const where = `${id} s=${s} ${mode} ${criterion}`;
+                const summary = crashOf(() => computeDesignSummary({ spec: content.spec, prior: content.prior }));
+                if (summary) crashes.push(`summary ${where}: ${summary}`);
+                const bank = crashOf(() => bankFor({ hash: HASH, content }));
+                if (bank) crashes.push(`item bank ${where}: ${bank}`);
+              }
+            }
+          }
+        }
+        expect(crashes).toEqual([]);
+      });
+    }
+  }
+});
+
+const POWER_FIELDS: Record<string, number[]> = {
+  'truth.gamma': [...TINY, 1000],
+  'truth.lapse': [0, 0.5],
+  'truth.prior.medianSmall': [...TINY, 10],
+  'truth.prior.medianLarge': [...TINY, 10],
+  'truth.prior.sdLogSmall': [0, 5],
+  'truth.model.sensitivity': [...TINY, 5],
+  'truth.model.presentBias': [...TINY, 1],
+  'test.alpha': [...TINY, 0.5],
+};
+
+describe('schema-accepted extremes never crash a power simulation', () => {
+  const content = design({ model: { id: 'hyperboloid', sensitivity: 0.8 } });
+  for (const [field, values] of Object.entries(POWER_FIELDS)) {
+    it(`${field}`, () => {
+      const crashes: string[] = [];
+      for (const value of values) {
+        for (const calibration of ['simulated', 'known'] as const) {
+          const spec: Record<string, unknown> = {
+            designVersionId: 1,
+            truth: { model: { id: 'hyperboloid', sensitivity: 0.8 }, prior: { medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.5 }, gamma: 10, lapse: 0.02 },
+            calibration,
+            test: { kind: 'mcnemar', alpha: 0.05, alternative: 'greater' },
+            sampleSizes: [5, 10],
+            replications: 10,
+            seed: 7,
+          };
+          const keys = field.split('.');
+          let node = spec;
+          for (const key of keys.slice(0, -1)) node = node[key] as Record<string, unknown>;
+          node[keys.at(-1)!] = value;
+          const parsed = powerRunSpecSchema.safeParse(spec);
+          if (!parsed.success) continue;
+          const crash = crashOf(() => createPowerSimulator(buildScenario(parsed.data, content)).run(0, 10));
+          if (crash) crashes.push(`${field}=${value} (${calibration}): ${crash}`);
+        }
+      }
+      expect(crashes).toEqual([]);
+    });
+  }
+});
