@@ -56,7 +56,8 @@ export function RunList() {
                   </Td>
                   <Td className="text-sm">
                     {STATUS_LABELS[run.status]}
-                    {run.status === 'running' || run.status === 'queued' ? ` · ${run.percent} %` : ''}
+                    {run.status === 'running' ? ` · ${run.percent} %` : ''}
+                    {run.status === 'queued' && run.queuePosition !== null ? <span data-testid="queue-position"> · position {run.queuePosition} in the queue</span> : null}
                   </Td>
                   <Td className="text-xs text-ink-soft">
                     {new Date(run.createdAt).toLocaleString('en-GB')}

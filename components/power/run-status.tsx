@@ -20,6 +20,12 @@ function timeLeft(seconds: number | null): string {
   return `about ${Math.round(seconds / 60)} min left`;
 }
 
+/** Where a queued run stands behind the server's cap on simultaneous runs. */
+export function queueText(position: number | null): string {
+  if (position === null) return 'starting…';
+  return position === 1 ? 'waiting for a free slot: next to start' : `waiting for a free slot: number ${position} in the queue`;
+}
+
 /** Progress bar with percent and time left, cancel while running, restart after an interruption. */
 export function RunStatus({ run }: { run: PowerRunDto }) {
   const { study, can } = useStudyContext();
@@ -35,7 +41,7 @@ export function RunStatus({ run }: { run: PowerRunDto }) {
             {STATUS_LABELS[run.status]}: {run.completed.toLocaleString('en')} of {run.total.toLocaleString('en')} replicates
           </span>
           <span data-testid="power-progress-text">
-            {run.percent} % · {run.status === 'queued' ? 'starting…' : timeLeft(run.secondsLeft)}
+            {run.percent} % · {run.status === 'queued' ? queueText(run.queuePosition) : timeLeft(run.secondsLeft)}
           </span>
         </div>
         <div role="progressbar" aria-label="Simulation progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={run.percent} className="h-3 w-full overflow-hidden rounded-full bg-paper-sunk">

@@ -29,3 +29,22 @@ export function serverEnv(): ServerEnv {
   cached = parsed.data;
   return cached;
 }
+
+// Power-run caps (issue: resource exhaustion): each run may use every core, so at most this many
+// run at once in one server process, and at most this many per study; further runs wait, queued,
+// and start by themselves when a slot frees. Read on every scheduling decision (not cached), so a
+// test or an operator's restart with new values takes effect at once.
+const powerLimitsSchema = z.object({
+  POWER_MAX_RUNS_PER_SERVER: z.coerce.number().int().min(1).max(64).default(2),
+  POWER_MAX_RUNS_PER_STUDY: z.coerce.number().int().min(1).max(64).default(1),
+});
+
+/** How many power runs may execute at once: per server process and per study. */
+export function powerRunLimits(): { perServer: number; perStudy: number } {
+  const parsed = powerLimitsSchema.safeParse(process.env);
+  if (!parsed.success) {
+    const problems = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
+    throw new Error(`Switchback configuration is invalid: ${problems}.`);
+  }
+  return { perServer: parsed.data.POWER_MAX_RUNS_PER_SERVER, perStudy: parsed.data.POWER_MAX_RUNS_PER_STUDY };
+}

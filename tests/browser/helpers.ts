@@ -38,3 +38,12 @@ export async function openDemoStudy(page: Page) {
 }
 
 export const shot = (name: string) => ({ path: `tests/artifacts/screens/${name}.png`, fullPage: true });
+
+/**
+ * The headers a page of the app sends with its own writes: the server refuses cookie-authenticated
+ * POST, PUT, PATCH and DELETE requests without this origin and a JSON body type (cross-site
+ * protection), and `page.request` sends neither by itself.
+ */
+export function writeHeaders(page: Page): Record<string, string> {
+  return { origin: new URL(page.url()).origin, 'content-type': 'application/json' };
+}

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import Papa from 'papaparse';
 import { expect, test } from '@playwright/test';
-import { openDemoStudy, shot, signInAs } from './helpers';
+import { openDemoStudy, shot, signInAs, writeHeaders } from './helpers';
 
 test('the demo operator creates an API key, downloads the item bank and sees a participant served through the API', async ({ page }) => {
   await signInAs(page, 'operator');
@@ -63,7 +63,7 @@ test('the demo operator creates an API key, downloads the item bank and sees a p
   const keyId = keys.find((k) => k.name === keyName)!.id;
   const replay = await page.request.post(`/api/v1/studies/${studyId}/probe-items`, { headers: { Authorization: `Bearer ${secret}` }, data: { participantId, responses } });
   expect(await replay.json()).toEqual(body); // the same items again, and the key freshly cached by the direct path
-  expect((await page.request.delete(`/api/studies/${studyId}/api-keys/${keyId}`)).status()).toBe(200);
+  expect((await page.request.delete(`/api/studies/${studyId}/api-keys/${keyId}`, { headers: writeHeaders(page) })).status()).toBe(200);
   const invalid = await page.request.post(`/api/v1/studies/${studyId}/probe-items`, { headers: { Authorization: `Bearer ${secret}` }, data: { participantId: `${participantId}-b`, responses: { nothing: 'maybe' } } });
   expect([invalid.status(), invalid.headers()['x-switchback-path']]).toEqual([401, 'direct']);
   const valid = await page.request.post(`/api/v1/studies/${studyId}/probe-items`, { headers: { Authorization: `Bearer ${secret}` }, data: { participantId: `${participantId}-c`, responses } });

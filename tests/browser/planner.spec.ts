@@ -1,5 +1,5 @@
 import { expect, test, type Page } from '@playwright/test';
-import { openDemoStudy, shot, signInAs } from './helpers';
+import { openDemoStudy, shot, signInAs, writeHeaders } from './helpers';
 
 async function studyUrl(page: Page) {
   await openDemoStudy(page);
@@ -130,13 +130,13 @@ test('the demo viewer sees the planner without edit controls, and the API refuse
   await page.screenshot(shot('planner-viewer'));
 
   const studyId = base.split('/').pop();
-  const write = await page.request.post(`/api/studies/${studyId}/priors`, { data: { name: 'Not allowed', medianSmall: 0.02, medianLarge: 0.01, sdLogSmall: 1, sdLogLarge: 1, correlation: 0 } });
+  const write = await page.request.post(`/api/studies/${studyId}/priors`, { headers: writeHeaders(page), data: { name: 'Not allowed', medianSmall: 0.02, medianLarge: 0.01, sdLogSmall: 1, sdLogLarge: 1, correlation: 0 } });
   expect(write.status()).toBe(403);
   const designs = await (await page.request.get(`/api/studies/${studyId}/designs`)).json();
   const designId = designs.designs[0].id;
-  expect((await page.request.post(`/api/studies/${studyId}/designs/${designId}/freeze`)).status()).toBe(403);
-  expect((await page.request.put(`/api/studies/${studyId}/designs/${designId}`, { data: { spec: designs.designs[0].spec, version: designs.designs[0].version } })).status()).toBe(403);
-  expect((await page.request.delete(`/api/studies/${studyId}/designs/${designId}`)).status()).toBe(403);
+  expect((await page.request.post(`/api/studies/${studyId}/designs/${designId}/freeze`, { headers: writeHeaders(page) })).status()).toBe(403);
+  expect((await page.request.put(`/api/studies/${studyId}/designs/${designId}`, { headers: writeHeaders(page), data: { spec: designs.designs[0].spec, version: designs.designs[0].version } })).status()).toBe(403);
+  expect((await page.request.delete(`/api/studies/${studyId}/designs/${designId}`, { headers: writeHeaders(page) })).status()).toBe(403);
 });
 
 test('a stale design save is refused with an offer to reload, and the typed values are kept', async ({ page }) => {
@@ -149,7 +149,7 @@ test('a stale design save is refused with an offer to reload, and the typed valu
   const designId = page.url().split('/').pop();
   // someone else saves first
   const current = (await (await page.request.get(`/api/studies/${studyId}/designs/${designId}`)).json()).design;
-  const other = await page.request.put(`/api/studies/${studyId}/designs/${designId}`, { data: { spec: { ...current.spec, probePairs: 7 }, version: current.version } });
+  const other = await page.request.put(`/api/studies/${studyId}/designs/${designId}`, { headers: writeHeaders(page), data: { spec: { ...current.spec, probePairs: 7 }, version: current.version } });
   expect(other.status()).toBe(200);
 
   await page.getByLabel('Large amount L').fill('250');

@@ -61,8 +61,8 @@ test.describe('security headers in the browser', () => {
 
     await page.goto(`${base}/designs`);
     await page.getByTestId('design-row').first().getByRole('link').click();
-    await expect(page.getByTestId('gap-chart').locator('svg')).toBeVisible({ timeout: 20_000 });
-    await expect(page.getByTestId('value-chart').locator('svg path').first()).toBeVisible();
+    await expect(page.getByTestId('gap-chart').locator('path').first()).toBeVisible({ timeout: 20_000 });
+    await expect(page.getByTestId('value-chart').locator('path').first()).toBeVisible();
     const fonts = await page.evaluate(async () => {
       await document.fonts.ready;
       return [...document.fonts].filter((f) => f.status === 'loaded').length;

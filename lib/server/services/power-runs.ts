@@ -4,7 +4,7 @@ import { DesignVersion, PowerRun, User } from '@/db/models';
 import { ApiError, ConflictError, NotFoundError, ValidationError } from '@/lib/server/errors';
 import { createPowerSimulator, POWER_ENGINE_VERSION, type PowerSummary } from '@/lib/design/power';
 import { DesignInputError } from '@/lib/design/DesignInputError';
-import { activeRuns, launchRun, markInterruptedRuns, requestCancel, STALE_MS } from '@/lib/server/jobs/power/runner';
+import { activeRuns, launchRun, markInterruptedRuns, queuePositions, requestCancel, STALE_MS } from '@/lib/server/jobs/power/runner';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpec, PowerStatus } from '@/lib/shared/validations/power';
 import { recordAudit } from './audit';
@@ -25,6 +25,8 @@ export type PowerRunDto = {
   percent: number;
   /** estimated seconds left while running (from the pace so far); null otherwise */
   secondsLeft: number | null;
+  /** while queued behind the power-run caps: 1 for the next run to start; null otherwise */
+  queuePosition: number | null;
   message: string | null;
   spec: PowerRunSpec;
   design: { versionId: number; number: number; hash: string; name: string };
@@ -36,7 +38,7 @@ export type PowerRunDto = {
   result: PowerResultDto | null;
 };
 
-function toDto(row: PowerRun, version: DesignVersion, creator: User | null, withResult: boolean): PowerRunDto {
+function toDto(row: PowerRun, version: DesignVersion, creator: User | null, withResult: boolean, positions: Map<number, number>): PowerRunDto {
   const content = json<FrozenDesign>(version.content);
   let secondsLeft: number | null = null;
   if (row.status === 'running' && row.startedAt && row.completed > 0) {
@@ -51,6 +53,7 @@ function toDto(row: PowerRun, version: DesignVersion, creator: User | null, with
     total: row.total,
     percent: row.total > 0 ? Math.floor((100 * row.completed) / row.total) : 0,
     secondsLeft,
+    queuePosition: row.status === 'queued' ? (positions.get(row.id) ?? null) : null,
     message: row.message ?? null,
     spec: json<PowerRunSpec>(row.spec),
     design: { versionId: version.id, number: version.number, hash: version.hash, name: content.spec.name },
@@ -67,7 +70,8 @@ async function withRelations(rows: PowerRun[], withResult: boolean): Promise<Pow
   const versions = new Map((await DesignVersion.findAll({ where: { id: [...new Set(rows.map((r) => r.designVersionId))] } })).map((v) => [v.id, v]));
   const userIds = [...new Set(rows.map((r) => r.createdBy).filter((v): v is number => v !== null))];
   const users = new Map((userIds.length ? await User.findAll({ where: { id: userIds }, attributes: ['id', 'name'] }) : []).map((u) => [u.id, u]));
-  return rows.filter((r) => versions.has(r.designVersionId)).map((r) => toDto(r, versions.get(r.designVersionId)!, r.createdBy ? (users.get(r.createdBy) ?? null) : null, withResult));
+  const positions = queuePositions();
+  return rows.filter((r) => versions.has(r.designVersionId)).map((r) => toDto(r, versions.get(r.designVersionId)!, r.createdBy ? (users.get(r.createdBy) ?? null) : null, withResult, positions));
 }
 
 /** The study's runs, newest first (without the bulky results). */
@@ -124,7 +128,7 @@ export async function createPowerRun(actorId: number, studyId: number, spec: Pow
     await recordAudit({ actorId, studyId, action: 'power-run.start', details: { runId: created.id, designVersionId: version.id, replications: spec.replications } }, transaction);
     return created;
   });
-  void launchRun(row.id);
+  void launchRun(row.id, { studyId });
   return (await withRelations([row], false))[0];
 }
 
@@ -157,7 +161,7 @@ export async function restartPowerRun(actorId: number, studyId: number, runId: n
     if (affected === 0) throw new ConflictError('Only an interrupted, cancelled or failed run can be restarted.');
     await recordAudit({ actorId, studyId, action: 'power-run.restart', details: { runId } }, transaction);
   });
-  void launchRun(runId); // after the commit, so the runner claims the queued row
+  void launchRun(runId, { studyId }); // after the commit, so the runner claims the queued row
   return getPowerRun(studyId, runId);
 }
 

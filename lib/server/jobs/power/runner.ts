@@ -5,11 +5,17 @@ import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpec } from '@/lib/shared/validations/power';
 import { notifyPowerRunFinished } from '@/lib/server/services/notices';
 import { buildScenario, runResult } from '@/lib/shared/power-scenario';
+import { powerRunLimits } from '@/lib/server/env';
 import { runScenario } from './run-scenario';
 
+type RunState = { cancel: boolean; studyId: number };
+type Waiting = { runId: number; studyId: number; workers?: number; done: () => void };
+
 /** Runs executing in this process, with their cancel flags (on globalThis to survive dev reloads). */
-const holder = globalThis as unknown as { switchbackPowerRuns?: Map<number, { cancel: boolean }> };
+const holder = globalThis as unknown as { switchbackPowerRuns?: Map<number, RunState>; switchbackPowerQueue?: Waiting[] };
 export const activeRuns = (holder.switchbackPowerRuns ??= new Map());
+/** Runs saved as queued and waiting here for a free slot, oldest first. */
+const waiting = (holder.switchbackPowerQueue ??= []);
 
 /** How often a running run's heartbeat is written; a run silent for STALE_MS is taken as interrupted. */
 export const HEARTBEAT_MS = 2000;
@@ -19,24 +25,92 @@ function json<T>(value: T | string): T {
   return typeof value === 'string' ? (JSON.parse(value) as T) : value;
 }
 
-/** Asks this process to stop a run before its next chunk. */
+/** Asks this process to stop a run before its next chunk, or drops it from the queue. */
 export function requestCancel(runId: number): void {
   const state = activeRuns.get(runId);
   if (state) state.cancel = true;
+  const index = waiting.findIndex((w) => w.runId === runId);
+  if (index >= 0) waiting.splice(index, 1)[0]!.done();
 }
 
 /**
- * Starts a saved run off the request path: the promise is not awaited by the caller. Progress,
- * heartbeat and the result go to MariaDB; a cancel (here or from another process, seen as a
- * status change) stops it before the next chunk.
+ * Where each run waiting in this process stands: 1 for the next to start. A run that is queued
+ * but not listed here is about to be claimed (or belongs to another process).
  */
-export function launchRun(runId: number, options: { workers?: number } = {}): Promise<void> {
-  if (activeRuns.has(runId)) return Promise.resolve();
-  const state = { cancel: false };
-  activeRuns.set(runId, state);
-  return execute(runId, state, options)
-    .catch((error) => console.error(`[switchback] power run ${runId} could not record its outcome:`, error))
-    .finally(() => activeRuns.delete(runId));
+export function queuePositions(): Map<number, number> {
+  return new Map(waiting.map((w, i) => [w.runId, i + 1]));
+}
+
+/** Whether a run is executing or waiting in this process. */
+export function isHeldHere(runId: number): boolean {
+  return activeRuns.has(runId) || waiting.some((w) => w.runId === runId);
+}
+
+let queueBeat: ReturnType<typeof setInterval> | null = null;
+
+/**
+ * Starts the waiting runs that fit under the caps (powerRunLimits: per server process and per
+ * study), oldest first; a run of a study already at its cap lets later runs of other studies pass.
+ * Waiting runs keep a heartbeat, so no reader takes them for interrupted.
+ */
+function pump(): void {
+  const { perServer, perStudy } = powerRunLimits();
+  for (let i = 0; i < waiting.length && activeRuns.size < perServer; ) {
+    const next = waiting[i]!;
+    const ofStudy = [...activeRuns.values()].filter((r) => r.studyId === next.studyId).length;
+    if (ofStudy >= perStudy) {
+      i += 1;
+      continue;
+    }
+    waiting.splice(i, 1);
+    const state: RunState = { cancel: false, studyId: next.studyId };
+    activeRuns.set(next.runId, state);
+    execute(next.runId, state, { workers: next.workers })
+      .catch((error) => console.error(`[switchback] power run ${next.runId} could not record its outcome:`, error))
+      .finally(() => {
+        activeRuns.delete(next.runId);
+        next.done();
+        pump();
+      });
+  }
+  if (waiting.length > 0 && !queueBeat) {
+    queueBeat = setInterval(() => {
+      const ids = waiting.map((w) => w.runId);
+      if (ids.length === 0) return;
+      PowerRun.update({ heartbeatAt: new Date() }, { where: { id: ids, status: 'queued' } }).catch((error) =>
+        console.warn(`[switchback] queued power runs: heartbeat not written (${error instanceof Error ? error.message : error})`),
+      );
+    }, HEARTBEAT_MS);
+    queueBeat.unref?.();
+  } else if (waiting.length === 0 && queueBeat) {
+    clearInterval(queueBeat);
+    queueBeat = null;
+  }
+}
+
+/**
+ * Queues a saved run in this process and starts it as soon as a slot is free (see pump): the
+ * caller does not await it. Progress, heartbeat and the result go to MariaDB; a cancel (here or
+ * from another process, seen as a status change) stops it before the next chunk. The promise
+ * settles when the run has ended (or left the queue).
+ */
+export function launchRun(runId: number, options: { workers?: number; studyId?: number } = {}): Promise<void> {
+  if (isHeldHere(runId)) return Promise.resolve();
+  return new Promise<void>((resolve) => {
+    const enqueue = (studyId: number) => {
+      if (isHeldHere(runId)) return resolve();
+      waiting.push({ runId, studyId, workers: options.workers, done: resolve });
+      pump();
+    };
+    if (options.studyId !== undefined) return enqueue(options.studyId);
+    db();
+    PowerRun.findByPk(runId, { attributes: ['id', 'studyId'] })
+      .then((row) => (row ? enqueue(row.studyId) : resolve()))
+      .catch((error) => {
+        console.error(`[switchback] power run ${runId} could not be queued:`, error);
+        resolve();
+      });
+  });
 }
 
 async function execute(runId: number, state: { cancel: boolean }, options: { workers?: number }) {
@@ -132,7 +206,7 @@ export async function markInterruptedRuns(staleMs = STALE_MS, where: { id?: numb
   });
   let marked = 0;
   for (const row of rows) {
-    if (activeRuns.has(row.id)) continue;
+    if (isHeldHere(row.id)) continue;
     const [affected] = await PowerRun.update(
       { status: 'interrupted', message: interruptedMessage(row.completed, row.total) },
       { where: { id: row.id, status: { [Op.in]: ['queued', 'running'] } } },
