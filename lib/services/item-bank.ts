@@ -8,7 +8,7 @@ import type { Study } from '@/db/models';
 import { exportOptionsSchema, type ExportOptions } from '@/lib/validations/item-bank';
 import type { FrozenDesign } from '@/lib/validations/design';
 import { recordAudit } from './audit';
-import { bankFor, defaultSeed } from './item-bank-plan';
+import { bankFor, defaultSeed, itemBankId, presentationOf } from './item-bank-plan';
 
 /** Column order of the CSV export; the JSON export's items have exactly these fields. */
 export const ITEM_COLUMNS: ReadonlyArray<keyof BankItem> = [
@@ -66,6 +66,8 @@ export function previewItemBank(study: Study, version: DesignVersion, options: E
       minGap: bank.minGap,
       probeGap: bank.probeGap,
       monthDays: 30,
+      /** the id an API key bound to the same settings reports; send it with calibration answers so a mismatch is refused */
+      itemBankId: itemBankId(version.hash, presentationOf(version.hash, { seed, delayUnit: bank.delayUnit, minGap: bank.minGap })),
     },
     designPoint: bank.designPoint,
     probeRule:
@@ -107,7 +109,7 @@ export async function exportItemBank(actorId: number, study: Study, version: Des
   if (options.format === 'csv') {
     body = itemsCsv(preview.items, [
       `Switchback item bank · study ${study.id} "${study.name}"`,
-      `design version ${version.number} · hash ${version.hash} · seed ${seed}`,
+      `design version ${version.number} · hash ${version.hash} · seed ${seed} · item bank ${preview.header.itemBankId} (gap ${options.minGap})`,
       `mode ${preview.header.mode} · currency ${preview.header.currency} · amounts rounded to ${preview.header.amountUnit} · delays in whole ${preview.header.delayUnit} (a month is 30 days)`,
       preview.probeRule ?? 'Population design: every participant runs these items.',
     ]);
