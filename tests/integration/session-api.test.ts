@@ -10,7 +10,7 @@ import { POST as probeRoute } from '@/app/api/v1/studies/[id]/probe-items/route'
 import { POST as answersRoute, OPTIONS as answersPreflight } from '@/app/api/v1/studies/[id]/stage2-answers/route';
 import { POST as createKey } from '@/app/api/studies/[id]/api-keys/route';
 import { GET as exportRoute } from '@/app/api/studies/[id]/item-bank/[versionId]/export/route';
-import { probeRateLimiter } from '@/lib/services/item-bank-rate-limit';
+import { probeRateLimiter } from '@/lib/server/http/key-rate-limit';
 import { browserRateLimiter } from '@/lib/server/services/session-api';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
 import { answersOf, makeFrozenVersion } from './item-bank-support';

@@ -5,7 +5,7 @@ import { createServer, request as httpRequest, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { POST as createKey } from '@/app/api/studies/[id]/api-keys/route';
-import { answerDirect } from '@/lib/server/direct-api';
+import { answerDirect } from '@/lib/server/http/direct-api';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
 import { answersOf, makeFrozenVersion } from './item-bank-support';
 

@@ -1,5 +1,5 @@
-import type { PlainReply } from '@/lib/api/error-reply';
-import { allowedOriginsOfStudy, type CachedKey } from '@/lib/services/api-keys';
+import type { PlainReply } from '@/lib/server/http/error-reply';
+import { allowedOriginsOfStudy, type CachedKey } from '@/lib/server/services/api-keys';
 
 // Cross-origin access to the participant-session API (/api/v1). No cookies are involved (keys
 // travel in the Authorization header), so credentials are never allowed and an origin is

@@ -1,10 +1,10 @@
 import { NextResponse, type NextRequest } from 'next/server';
-import { toNextResponse } from '@/lib/api/handler';
-import { BODY_TOO_LARGE, MAX_BODY_BYTES, readBodyText } from '@/lib/api/read-json';
+import { toNextResponse } from '@/lib/server/http/handler';
+import { BODY_TOO_LARGE, MAX_BODY_BYTES, readBodyText } from '@/lib/server/http/read-json';
 import type { SessionCall } from '@/lib/server/services/session-api';
 import { studyIdOf } from '@/lib/server/services/session-api';
 import { preflightReply } from './cors';
-import type { PlainReply } from '@/lib/api/error-reply';
+import type { PlainReply } from '@/lib/server/http/error-reply';
 
 type Params = { params: Promise<{ id: string }> };
 

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { participantIdSchema } from '@/lib/validations/item-bank';
+import { participantIdSchema } from '@/lib/shared/validations/item-bank';
 
 /** GET /api/v1/studies/{id}/calibration: for whom, and whether their block is shuffled for them. */
 export const calibrationQuerySchema = z.strictObject({

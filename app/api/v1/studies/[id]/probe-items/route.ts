@@ -1,4 +1,4 @@
-import { handleProbeItems } from '@/lib/services/probe-endpoint';
+import { handleProbeItems } from '@/lib/server/http/probe-endpoint';
 import { sessionPreflight, sessionRoute } from '@/lib/server/http/session-route';
 
 /**
