@@ -11,7 +11,7 @@ import { POST as answersRoute, OPTIONS as answersPreflight } from '@/app/api/v1/
 import { POST as createKey } from '@/app/api/studies/[id]/api-keys/route';
 import { GET as exportRoute } from '@/app/api/studies/[id]/item-bank/[versionId]/export/route';
 import { probeRateLimiter } from '@/lib/server/http/key-rate-limit';
-import { browserRateLimiter } from '@/lib/server/services/session-api';
+import { browserRateLimiter } from '@/lib/server/http/session-endpoints';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
 import { answersOf, makeFrozenVersion } from './item-bank-support';
 

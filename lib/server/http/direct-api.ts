@@ -4,7 +4,7 @@ import { errorReply, type PlainReply } from '@/lib/server/http/error-reply';
 import { BODY_TOO_LARGE, MAX_BODY_BYTES } from '@/lib/server/http/read-json';
 import { handleProbeItems } from '@/lib/server/http/probe-endpoint';
 import { preflightReply } from '@/lib/server/http/cors';
-import { handleCalibration, handleStage2Answers, studyIdOf, type SessionCall } from '@/lib/server/services/session-api';
+import { handleCalibration, handleStage2Answers, studyIdOf, type SessionCall } from '@/lib/server/http/session-endpoints';
 
 // The production server (scripts/serve.mjs) answers the participant-session endpoints that lab
 // software calls for every participant here, on node:http, instead of handing them to Next: the

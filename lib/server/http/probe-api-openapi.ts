@@ -1,4 +1,4 @@
-import { SESSION_TAG_TEXT, sessionPaths, sessionSchemas } from '@/lib/server/services/session-openapi';
+import { SESSION_TAG_TEXT, sessionPaths, sessionSchemas } from '@/lib/server/http/session-openapi';
 
 /**
  * The OpenAPI 3.1 description of the probe-items API, served at /api/v1/openapi.json.

@@ -1,9 +1,10 @@
 import { ValidationError } from '@/lib/server/errors';
 import type { PlainReply } from '@/lib/server/http/error-reply';
 import { parseJsonText } from '@/lib/server/http/read-json';
-import { keyPresentation, requireParticipantToken, sessionEndpoint, versionOfKey, type SessionCall } from '@/lib/server/services/session-api';
+import { keyPresentation, sessionEndpoint, versionOfKey, type SessionCall } from './session-endpoints';
+import { requireParticipantToken } from '@/lib/server/services/session-tokens';
 import { itemBankId } from '@/lib/server/services/item-bank-id';
-import { serveProbeItemsJson } from '../services/participants';
+import { serveProbeItemsJson } from '@/lib/server/services/participants';
 import { probeItemsRequestSchema } from '@/lib/shared/validations/item-bank';
 
 /** One call of the probe-items endpoint (a session-endpoint call: key, origin, token, body). */

@@ -1,8 +1,8 @@
 import { NextResponse, type NextRequest } from 'next/server';
 import { toNextResponse } from '@/lib/server/http/handler';
 import { BODY_TOO_LARGE, MAX_BODY_BYTES, readBodyText } from '@/lib/server/http/read-json';
-import type { SessionCall } from '@/lib/server/services/session-api';
-import { studyIdOf } from '@/lib/server/services/session-api';
+import type { SessionCall } from '@/lib/server/http/session-endpoints';
+import { studyIdOf } from '@/lib/server/http/session-endpoints';
 import { preflightReply } from './cors';
 import type { PlainReply } from '@/lib/server/http/error-reply';
 

@@ -1,4 +1,4 @@
-import { handleStage2Answers } from '@/lib/server/services/session-api';
+import { handleStage2Answers } from '@/lib/server/http/session-endpoints';
 import { sessionPreflight, sessionRoute } from '@/lib/server/http/session-route';
 
 /** A participant's answers to their stage-2 items (Bearer API key). */

@@ -1,16 +1,16 @@
-import { createHash, randomBytes } from 'node:crypto';
-import { rawQuery } from '@/db';
-import { ApiError, ConflictError, ForbiddenError, ValidationError } from '@/lib/server/errors';
+import { ApiError, ForbiddenError, ValidationError } from '@/lib/server/errors';
 import { errorReply, jsonReply, type PlainReply } from '@/lib/server/http/error-reply';
 import { parseJsonText } from '@/lib/server/http/read-json';
 import { createRandom, participantSeed, shuffle } from '@/lib/design';
 import { requireApiKey, type CachedKey } from '@/lib/server/services/api-keys';
 import { bankOrInvalid, frozenVersionById, type FrozenVersionRef } from '@/lib/server/services/item-bank';
-import { itemBankId, presentationOf, type Presentation } from './item-bank-id';
+import { itemBankId, presentationOf, type Presentation } from '@/lib/server/services/item-bank-id';
 import { KeyRateLimiter, probeRateLimiter } from '@/lib/server/http/key-rate-limit';
 import { calibrationQuerySchema, stage2AnswersRequestSchema } from '@/lib/shared/validations/session';
 import { withCors } from '@/lib/server/http/cors';
-import { recordStage2Answers } from './stage2-answers';
+import { recordStage2Answers } from '@/lib/server/services/stage2-answers';
+import { requireParticipantToken, startSession } from '@/lib/server/services/session-tokens';
+
 
 /** One request to a participant-session endpoint, without a framework (the Next routes and serve.mjs build it). */
 export type SessionCall = {
@@ -79,52 +79,6 @@ export async function versionOfKey(key: CachedKey): Promise<FrozenVersionRef> {
   const version = await frozenVersionById(key.designVersionId);
   if (version.studyId !== key.studyId) throw new ApiError(500, 'API key and design version disagree.');
   return version;
-}
-
-function tokenHash(token: string): string {
-  return createHash('sha256').update(token).digest('hex');
-}
-
-const SELECT_SESSION = 'SELECT token_hash, status FROM participant_sessions WHERE study_id = ? AND participant_id = ?';
-
-/**
- * A browser key acts for one participant only with that participant's session token (handed out
- * when their session started): 403 otherwise, so a key copied from a public page can neither act
- * as nor read another participant. Server keys are trusted with every participant of their study.
- */
-export async function requireParticipantToken(key: CachedKey, participantId: string, token: string | null): Promise<void> {
-  if (key.kind !== 'browser') return;
-  const [row] = await rawQuery(SELECT_SESSION, [key.studyId, participantId]);
-  if (!token || !row || typeof row.token_hash !== 'string' || row.token_hash !== tokenHash(token)) {
-    throw new ForbiddenError(`Send participant ${participantId}'s session token (X-Session-Token, from the calibration reply that started the session).`);
-  }
-}
-
-const START_SESSION = `INSERT IGNORE INTO participant_sessions
-  (study_id, design_version_id, participant_id, status, source, api_key_id, started_at, last_activity_at, token_hash)
-  VALUES (?, ?, ?, 'started', 'api', ?, ?, ?, ?)`;
-const TOUCH_SESSION = 'UPDATE participant_sessions SET last_activity_at = ? WHERE study_id = ? AND participant_id = ?';
-
-/**
- * Starts (or resumes) a participant's session when the calibration block is fetched for them.
- * Server key: the row is created once, without a token. Browser key: a new session gets a token
- * (returned once); a session that exists is resumed only with its token, else 409.
- */
-async function startSession(key: CachedKey, version: FrozenVersionRef, participantId: string, token: string | null): Promise<{ sessionToken: string | null }> {
-  const now = new Date();
-  if (key.kind === 'browser' && token) {
-    await requireParticipantToken(key, participantId, token);
-    await rawQuery(TOUCH_SESSION, [now, key.studyId, participantId]);
-    return { sessionToken: null };
-  }
-  const fresh = key.kind === 'browser' ? randomBytes(24).toString('base64url') : null;
-  const result = await rawQuery(START_SESSION, [key.studyId, version.id, participantId, key.id, now, now, fresh ? tokenHash(fresh) : null]);
-  if (Number(result.affectedRows ?? 0) === 1) return { sessionToken: fresh };
-  if (key.kind === 'browser') {
-    throw new ConflictError(`Participant ${participantId}'s session has already started; resume it with its session token (X-Session-Token).`);
-  }
-  await rawQuery(TOUCH_SESSION, [now, key.studyId, participantId]);
-  return { sessionToken: null };
 }
 
 /**
