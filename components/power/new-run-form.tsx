@@ -10,7 +10,7 @@ import { ApiClientError } from '@/lib/client/api';
 import { useVersions, type VersionDto } from '@/lib/client/planner';
 import { useStartPowerRun } from '@/lib/client/power';
 import { MODEL_CHOICES } from '@/lib/validations/design';
-import { parseSampleSizes, POWER_TEST_LABELS, POWER_TESTS, powerRunSpecSchema } from '@/lib/validations/power';
+import { DEFAULT_POWER_TEST, parseSampleSizes, POWER_TEST_LABELS, POWER_TESTS, powerRunSpecSchema } from '@/lib/validations/power';
 
 type Values = Record<string, string>;
 
@@ -40,7 +40,7 @@ function fromVersion(v: VersionDto | undefined, previous: Values): Values {
   };
 }
 
-const DEFAULTS: Values = { label: '', gamma: '10', lapse: '0.02', calibration: 'simulated', test: 'mcnemar', alpha: '0.05', alternative: 'greater', sizes: '20:200:20', replications: '500', seed: '1' };
+const DEFAULTS: Values = { label: '', gamma: '10', lapse: '0.02', calibration: 'simulated', test: DEFAULT_POWER_TEST, alpha: '0.05', alternative: 'greater', sizes: '20:200:20', replications: '500', seed: '1' };
 
 /** Starts a run: the frozen version, the simulated truth (prefilled as the design assumes), the test and the simulation size. */
 export function NewRunForm() {

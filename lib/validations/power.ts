@@ -6,12 +6,20 @@ import { modelSpecSchema, priorValuesSchema } from './design';
  * the calibration treatment, the test, the sample sizes, replications and seed. Shared by the
  * new-run form (zodResolver) and the route handler (readJson).
  */
-export const POWER_TESTS = ['mcnemar', 'sign', 'probes-vs-anchors'] as const;
+export const POWER_TESTS = ['sign', 'sign-flip', 'probes-vs-anchors', 'mcnemar'] as const;
+/** The test a new run starts with: participant level, so a person's several probe pairs count once. */
+export const DEFAULT_POWER_TEST: (typeof POWER_TESTS)[number] = 'sign';
 export const POWER_TEST_LABELS: Record<(typeof POWER_TESTS)[number], string> = {
-  mcnemar: 'Exact McNemar test: LS vs SL among probe pairs',
-  sign: 'Sign test at the participant level',
+  sign: 'Sign test at the participant level (LS − SL per participant)',
+  'sign-flip': 'Sign-flip permutation test at the participant level (sum of LS − SL)',
   'probes-vs-anchors': 'LS rate in probes vs anchors (participant-level sign test)',
+  mcnemar: 'Exact McNemar test, pooled over participants (assumes independent pairs)',
 };
+
+/** The warning the page and the figure carry for a test whose assumption a reviewer would question; null when none. */
+export function testWarning(kind: (typeof POWER_TESTS)[number]): string | null {
+  return kind === 'mcnemar' ? 'Pooled McNemar test assumes independent pairs; a person’s pairs are not, so this power may be optimistic.' : null;
+}
 
 export const MAX_SAMPLE_SIZE = 5000;
 export const MAX_REPLICATIONS = 20000;

@@ -12,8 +12,14 @@ export type MethodTextContext = {
 };
 
 const TESTS = {
-  mcnemar: 'an exact McNemar test on the reversal probes (LS patterns against SL patterns among discordant probe pairs, pooled over participants)',
+  mcnemar:
+    'an exact McNemar test on the reversal probes (LS patterns against SL patterns among discordant probe pairs, pooled over participants). ' +
+    'This pooled test assumes that every probe pair is independent; pairs answered by the same person are not, so with more than one probe pair per participant ' +
+    'its type I error can exceed α and this power can be optimistic; a participant-level test avoids that',
   sign: 'an exact sign test at the participant level (participants with more LS than SL probe patterns against those with fewer; ties dropped)',
+  'sign-flip':
+    'an exact sign-flip permutation test at the participant level (Fisher 1935; Pitman 1937) on the sum over participants of each participant’s count of LS minus SL probe patterns, ' +
+    'so that several probe pairs of one person count as one unit',
   'probes-vs-anchors':
     'an exact sign test at the participant level on the difference between the LS rate among reversal probes and the LS rate among anchor pairs (ties and participants without anchors dropped)',
 } as const;
