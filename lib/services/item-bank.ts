@@ -3,7 +3,7 @@ import { Design, DesignVersion } from '@/db/models';
 import { db } from '@/db';
 import { NotFoundError, ValidationError } from '@/lib/api/errors';
 import { neutraliseRows } from '@/lib/csv-safety';
-import { DesignInputError, type BankItem } from '@/lib/design';
+import { CHOICE_SENSITIVITY_UNIT, DesignInputError, designChoiceModel, type BankItem } from '@/lib/design';
 import type { Study } from '@/db/models';
 import { exportOptionsSchema, type ExportOptions } from '@/lib/validations/item-bank';
 import type { FrozenDesign } from '@/lib/validations/design';
@@ -66,6 +66,7 @@ export function previewItemBank(study: Study, version: DesignVersion, options: E
       minGap: bank.minGap,
       probeGap: bank.probeGap,
       monthDays: 30,
+      choiceModel: { ...designChoiceModel(version.content.spec), unit: CHOICE_SENSITIVITY_UNIT },
     },
     designPoint: bank.designPoint,
     probeRule:
@@ -108,6 +109,7 @@ export async function exportItemBank(actorId: number, study: Study, version: Des
     body = itemsCsv(preview.items, [
       `Switchback item bank · study ${study.id} "${study.name}"`,
       `design version ${version.number} · hash ${version.hash} · seed ${seed}`,
+      `choice model: logistic, sensitivity γ = ${preview.header.choiceModel.sensitivity} ${CHOICE_SENSITIVITY_UNIT}, no lapse (rate estimates use it)`,
       `mode ${preview.header.mode} · currency ${preview.header.currency} · amounts rounded to ${preview.header.amountUnit} · delays in whole ${preview.header.delayUnit} (a month is 30 days)`,
       preview.probeRule ?? 'Population design: every participant runs these items.',
     ]);

@@ -1,5 +1,6 @@
 import { z } from 'zod';
-import { modelSpecSchema, priorValuesSchema } from './design';
+import { designChoiceModel } from '@/lib/design/designChoiceModel';
+import { modelSpecSchema, priorValuesSchema, type FrozenDesign } from './design';
 
 /**
  * A power run's specification, saved with the run: which frozen design, the simulated truth,
@@ -30,6 +31,21 @@ export const powerTruthSchema = z.strictObject({
   gamma: z.number({ error: 'Choice sensitivity γ must be a number.' }).gt(0, 'Choice sensitivity γ must be above 0.').max(1000, 'Choice sensitivity γ must be at most 1000.'),
   lapse: z.number({ error: 'Lapse rate ε must be a number.' }).min(0, 'Lapse rate ε must be 0 or more.').max(0.5, 'Lapse rate ε must be at most 0.5.'),
 });
+
+/**
+ * The truth a new run starts from for a frozen version: the design's model, prior and its one
+ * choice sensitivity γ (designChoiceModel), with a small lapse rate as a planning assumption.
+ * The new-run form shows these values; the user changes them to simulate another truth.
+ */
+export function assumedTruth(content: Pick<FrozenDesign, 'spec' | 'prior'>): PowerTruthValues {
+  const { name: _name, ...prior } = content.prior;
+  return { model: content.spec.model, prior, gamma: designChoiceModel(content.spec).sensitivity, lapse: DEFAULT_LAPSE };
+}
+
+/** Lapse rate ε a new run's truth starts with (common practice: a few per cent of choices at random). */
+export const DEFAULT_LAPSE = 0.02;
+
+export type PowerTruthValues = z.infer<typeof powerTruthSchema>;
 
 export const powerRunSpecSchema = z
   .strictObject({

@@ -1,3 +1,4 @@
+import { designChoiceModel } from '../designChoiceModel';
 import { describeModel, type PowerSummary } from './summarisePower';
 import type { SampleSizeAnswer } from './sampleSizeFor';
 import type { PowerScenario } from './types';
@@ -55,7 +56,7 @@ export function methodText(scenario: PowerScenario, summary: PowerSummary, conte
       : scenario.calibration === 'simulated'
         ? `Each simulated participant first answers the design's calibration block (${spec.calibration.itemsPerMagnitude} items per magnitude, ` +
           `later delays from ${spec.calibration.minDelay} days up to the longest probe delay of the design point, as the item bank exports it); choices follow the truth, ` +
-          `both rates are re-estimated by maximum likelihood under the design's model with the same γ and ε (per unit of each item's later amount), ` +
+          `both rates are re-estimated by maximum likelihood under the design's model and its choice model (γ = ${num(designChoiceModel(spec).sensitivity)} per unit of each item's later amount, no lapse), as the probe-items API estimates them, ` +
           `and the participant's probe block is built from these estimates.`
         : 'Calibration is not simulated: each participant’s probe block is built from their true rates (the rates are treated as known).'
   const probeBlock =
