@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { freeText, nameText } from '@/lib/shared/validations/text';
 
 /**
  * The planner's entities, one zod schema each, shared by forms (zodResolver), route handlers
@@ -23,10 +24,10 @@ export const priorValuesSchema = z.strictObject({
 export type PriorValues = z.infer<typeof priorValuesSchema>;
 
 export const priorSetSchema = z.strictObject({
-  name: z.string().trim().min(1, 'Name the prior set.').max(120),
+  name: nameText({ label: 'The prior set name', min: 1, max: 120, tooShort: 'Name the prior set.' }),
   ...priorValuesSchema.shape,
   source: z.enum(['manual', 'pilot']).default('manual'),
-  notes: z.string().max(2000).default(''),
+  notes: freeText({ label: 'The notes', max: 2000, trim: false }).default(''),
 });
 export type PriorSetInput = z.input<typeof priorSetSchema>;
 
@@ -54,7 +55,7 @@ export const calibrationSchema = z.strictObject({
 /** The fields a user edits on a candidate design. */
 export const designSpecSchema = z
   .strictObject({
-    name: z.string().trim().min(1, 'Name the design.').max(120),
+    name: nameText({ label: 'The design name', min: 1, max: 120, tooShort: 'Name the design.' }),
     priorSetId: z.number().int().positive('Choose a prior set.'),
     model: modelSpecSchema,
     ratio: z.number().gt(0, 'The magnitude ratio S/L must be above 0.').lt(1, 'The magnitude ratio S/L must be below 1.'),
@@ -96,7 +97,7 @@ export const frozenDesignSchema = z.strictObject({
 });
 export type FrozenDesign = z.infer<typeof frozenDesignSchema>;
 
-export const commentSchema = z.strictObject({ text: z.string().trim().min(1, 'Write something first.').max(4000) });
+export const commentSchema = z.strictObject({ text: freeText({ label: 'The comment', max: 4000 }).min(1, 'Write something first.') });
 
 /** Editing a prior set names the version it was based on (optimistic locking, 409 when stale). */
 export const priorSetUpdateSchema = z.strictObject({ prior: priorSetSchema, version: z.number().int().positive() });

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { designChoiceModel } from '@/lib/design/designChoiceModel';
+import { nameText } from '@/lib/shared/validations/text';
 import { modelSpecSchema, priorValuesSchema, type FrozenDesign } from './design';
 
 /**
@@ -50,7 +51,7 @@ export type PowerTruthValues = z.infer<typeof powerTruthSchema>;
 export const powerRunSpecSchema = z
   .strictObject({
     designVersionId: z.number({ error: 'Choose a frozen design version.' }).int().positive('Choose a frozen design version.'),
-    label: z.string().trim().max(120, 'Keep the label under 120 characters.').default(''),
+    label: nameText({ label: 'The label', min: 0, max: 120, tooLong: 'Keep the label under 120 characters.' }).default(''),
     truth: powerTruthSchema,
     calibration: z.enum(['simulated', 'known']),
     test: z.strictObject({

@@ -1,9 +1,10 @@
 import { z } from 'zod';
+import { freeText, nameText } from '@/lib/shared/validations/text';
 
 /** The one schema of a study's editable fields, shared by the forms and the route handlers. */
 export const studySchema = z.strictObject({
-  name: z.string().trim().min(3, 'Give the study a name of at least 3 characters.').max(160, 'Keep the name under 160 characters.'),
-  description: z.string().trim().max(4000, 'Keep the description under 4,000 characters.').default(''),
+  name: nameText({ label: 'The study name', min: 3, max: 160, tooShort: 'Give the study a name of at least 3 characters.', tooLong: 'Keep the name under 160 characters.' }),
+  description: freeText({ label: 'The description', max: 4000, tooLong: 'Keep the description under 4,000 characters.' }).default(''),
 });
 
 export const createStudySchema = studySchema;

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { nameText } from '@/lib/shared/validations/text';
 
 export const emailSchema = z.string().trim().toLowerCase().pipe(z.email('Enter a valid e-mail address.')).pipe(z.string().max(254));
 
@@ -14,7 +15,7 @@ export const signInSchema = z.strictObject({
 export type SignInInput = z.infer<typeof signInSchema>;
 
 export const signUpSchema = z.strictObject({
-  name: z.string().trim().min(2, 'Enter your name.').max(120),
+  name: nameText({ label: 'The name', min: 2, max: 120, tooShort: 'Enter your name.' }),
   email: emailSchema,
   password: passwordSchema,
 });
