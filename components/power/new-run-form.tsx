@@ -10,8 +10,8 @@ import { ApiClientError } from '@/lib/client/api';
 import { useVersions, type VersionDto } from '@/lib/client/planner';
 import { useStartPowerRun } from '@/lib/client/power';
 import { DEFAULT_CHOICE_SENSITIVITY } from '@/lib/design/designChoiceModel';
-import { MODEL_CHOICES } from '@/lib/validations/design';
-import { assumedTruth, DEFAULT_LAPSE, DEFAULT_POWER_TEST, parseSampleSizes, POWER_TEST_LABELS, POWER_TESTS, powerRunSpecSchema } from '@/lib/validations/power';
+import { MODEL_CHOICES } from '@/lib/shared/validations/planner';
+import { assumedTruth, DEFAULT_LAPSE, DEFAULT_POWER_TEST, parseSampleSizes, POWER_TEST_LABELS, POWER_TESTS, powerRunSpecSchema } from '@/lib/shared/validations/power';
 
 type Values = Record<string, string>;
 

@@ -7,7 +7,7 @@ import { Notice } from '@/components/ui/notice';
 import { Table, Td, Th } from '@/components/ui/table';
 import type { SampleSizeAnswer } from '@/lib/design/power/sampleSizeFor';
 import { powerExportUrl, type PowerRunDto } from '@/lib/client/power';
-import { testWarning } from '@/lib/validations/power';
+import { testWarning } from '@/lib/shared/validations/power';
 import { PowerChart } from './power-chart';
 
 const pct = (v: number) => `${(v * 100).toFixed(1)} %`;

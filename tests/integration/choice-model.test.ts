@@ -7,14 +7,14 @@ import { POST as probeItems } from '@/app/api/v1/studies/[id]/probe-items/route'
 import { POST as createKey } from '@/app/api/studies/[id]/api-keys/route';
 import { GET as getRun } from '@/app/api/studies/[id]/power-runs/[runId]/route';
 import { POST as startRun } from '@/app/api/studies/[id]/power-runs/route';
-import { contentHash } from '@/lib/canonical-json';
-import { bankFor } from '@/lib/services/item-bank-plan';
-import { designSummary } from '@/lib/services/planner-summary';
-import { previewItemBank } from '@/lib/services/item-bank';
-import { buildScenario } from '@/lib/services/power-scenario';
-import { exportOptionsSchema } from '@/lib/validations/item-bank';
-import { assumedTruth, type PowerRunSpecInput } from '@/lib/validations/power';
-import type { FrozenDesign } from '@/lib/validations/design';
+import { contentHash } from '@/lib/shared/canonical-json';
+import { bankFor } from '@/lib/shared/item-bank-plan';
+import { designSummary } from '@/lib/server/services/planner-summary';
+import { previewItemBank } from '@/lib/server/services/item-bank';
+import { buildScenario } from '@/lib/shared/power-scenario';
+import { exportOptionsSchema } from '@/lib/shared/validations/item-bank';
+import { assumedTruth, type PowerRunSpecInput } from '@/lib/shared/validations/power';
+import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
 import { answersOf, demoContent } from './item-bank-support';
 

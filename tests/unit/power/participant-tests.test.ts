@@ -146,7 +146,7 @@ describe('participant-level power with one probe pair per participant', () => {
 
 describe('what a reader is told about the test', () => {
   it('labels the pooled McNemar test as assuming independent pairs, on the page, the figure and in the method paragraph', async () => {
-    const { POWER_TEST_LABELS, DEFAULT_POWER_TEST, testWarning } = await import('@/lib/validations/power');
+    const { POWER_TEST_LABELS, DEFAULT_POWER_TEST, testWarning } = await import('@/lib/shared/validations/power');
     expect(DEFAULT_POWER_TEST).toBe('sign');
     expect(POWER_TEST_LABELS.mcnemar).toMatch(/assumes independent pairs/);
     expect(testWarning('mcnemar')).toMatch(/assumes independent pairs/);
