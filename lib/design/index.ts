@@ -23,3 +23,4 @@ export { extrapolationWarning, type ExtrapolationWarning } from './extrapolation
 export { estimateRates, type Choice, type EstimateFlag, type EstimateOptions, type RateEstimate, type RateEstimates } from './estimateRates';
 export * from './power';
 export * from './item-bank';
+export * from './analysis';
