@@ -3,8 +3,8 @@
 import type { FieldErrors, UseFormRegister } from 'react-hook-form';
 import { SelectField, TextField } from '@/components/ui/field';
 import type { PriorSetDto } from '@/lib/client/planner';
-import type { DesignFormValues } from '@/lib/planner/design-form-values';
-import { MODEL_CHOICES } from '@/lib/validations/design';
+import type { DesignFormValues } from '@/lib/shared/planner/design-form-values';
+import { MODEL_CHOICES } from '@/lib/shared/validations/planner';
 import { CRITERION_LABELS, MODEL_LABELS } from './labels';
 
 type Props = { register: UseFormRegister<DesignFormValues>; errors: FieldErrors<DesignFormValues>; values: DesignFormValues; priors: PriorSetDto[] };

@@ -9,8 +9,8 @@ import { useStudyContext } from '@/components/studies/study-context';
 import { ApiClientError } from '@/lib/client/api';
 import { useVersions, type VersionDto } from '@/lib/client/planner';
 import { useStartPowerRun } from '@/lib/client/power';
-import { MODEL_CHOICES } from '@/lib/validations/design';
-import { parseSampleSizes, POWER_TEST_LABELS, POWER_TESTS, powerRunSpecSchema } from '@/lib/validations/power';
+import { MODEL_CHOICES } from '@/lib/shared/validations/planner';
+import { parseSampleSizes, POWER_TEST_LABELS, POWER_TESTS, powerRunSpecSchema } from '@/lib/shared/validations/power';
 
 type Values = Record<string, string>;
 

@@ -1,7 +1,7 @@
 'use client';
 
 import { useMemo } from 'react';
-import { powerCurveSvg, type PowerSeries } from '@/lib/figures/power-curve';
+import { powerCurveSvg, type PowerSeries } from '@/lib/shared/figures/power-curve';
 
 /**
  * The power curve(s) with Wilson bands, drawn by the same d3 code that renders the SVG and PNG

@@ -7,11 +7,13 @@ import { Design, DesignComment, DesignVersion, PriorSet } from './planner';
 import { ApiKey, Participant } from './item-bank';
 import { Invitation, NoticeSetting, PasswordResetToken } from './team';
 import { PowerRun } from './power';
+import { ParticipantSession, Stage2Answer } from './session';
 
 export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
 export { ApiKey, Participant };
 export { Invitation, PasswordResetToken, NoticeSetting };
 export { PowerRun };
+export { ParticipantSession, Stage2Answer };
 
 /**
  * Registers every model and association on one Sequelize instance. A new model is added here
@@ -32,6 +34,8 @@ export function registerModels(sequelize: Sequelize): void {
   PasswordResetToken.register(sequelize);
   NoticeSetting.register(sequelize);
   PowerRun.register(sequelize);
+  ParticipantSession.register(sequelize);
+  Stage2Answer.register(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });
@@ -43,6 +47,8 @@ export function registerModels(sequelize: Sequelize): void {
   Design.hasMany(DesignComment, { foreignKey: 'designId', as: 'comments' });
   DesignComment.belongsTo(User, { foreignKey: 'authorId', as: 'author' });
   ApiKey.belongsTo(User, { foreignKey: 'createdBy', as: 'creator' });
+  Stage2Answer.belongsTo(Participant, { foreignKey: 'participantRef', as: 'participant' });
+  Participant.hasMany(Stage2Answer, { foreignKey: 'participantRef', as: 'stage2Answers' });
   Invitation.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });
   Invitation.belongsTo(User, { foreignKey: 'invitedBy', as: 'inviter' });
 }

@@ -16,6 +16,15 @@ export class ApiKey extends Model<InferAttributes<ApiKey>, InferCreationAttribut
   declare lastUsedAt: Date | null;
   declare revokedAt: Date | null;
   declare revokedBy: number | null;
+  /** server: the lab's back end, full powers; browser: safe inside a public page (participant sessions only, listed origins only) */
+  declare kind: CreationOptional<'server' | 'browser'>;
+  /** origins (scheme://host[:port]) a browser may call from with this key; null = none */
+  declare allowedOrigins: CreationOptional<string[] | null>;
+  /** presentation settings the key's calibration block and scoring use (as an export with the same settings) */
+  declare delayUnit: CreationOptional<'days' | 'weeks' | 'months'>;
+  declare minGap: CreationOptional<number>;
+  /** null: the version's default seed */
+  declare seed: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
 
   static register(sequelize: Sequelize) {
@@ -31,6 +40,11 @@ export class ApiKey extends Model<InferAttributes<ApiKey>, InferCreationAttribut
         lastUsedAt: { type: DataTypes.DATE, allowNull: true },
         revokedAt: { type: DataTypes.DATE, allowNull: true },
         revokedBy: { ...OPTIONAL_FK },
+        kind: { type: DataTypes.ENUM('server', 'browser'), allowNull: false, defaultValue: 'server' },
+        allowedOrigins: { type: DataTypes.JSON, allowNull: true },
+        delayUnit: { type: DataTypes.ENUM('days', 'weeks', 'months'), allowNull: false, defaultValue: 'days' },
+        minGap: { type: DataTypes.TINYINT.UNSIGNED, allowNull: false, defaultValue: 2 },
+        seed: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
         createdAt: DataTypes.DATE,
       },
       { sequelize, tableName: 'api_keys', updatedAt: false },
@@ -38,7 +52,7 @@ export class ApiKey extends Model<InferAttributes<ApiKey>, InferCreationAttribut
   }
 }
 
-/** One participant served personalised probe items (through the API or a batch upload); immutable once written. */
+/** One participant served personalised probe items (through the API, a batch upload or the session page); immutable once written. */
 export class Participant extends Model<InferAttributes<Participant>, InferCreationAttributes<Participant>> {
   declare id: CreationOptional<number>;
   declare studyId: number;
@@ -48,7 +62,7 @@ export class Participant extends Model<InferAttributes<Participant>, InferCreati
   declare responses: Record<string, string>;
   declare result: Record<string, unknown>;
   declare flag: string | null;
-  declare source: 'api' | 'batch';
+  declare source: 'api' | 'batch' | 'page';
   declare apiKeyId: number | null;
   declare servedBy: number | null;
   declare createdAt: CreationOptional<Date>;
@@ -64,7 +78,7 @@ export class Participant extends Model<InferAttributes<Participant>, InferCreati
         responses: { type: DataTypes.JSON, allowNull: false },
         result: { type: DataTypes.JSON, allowNull: false },
         flag: { type: DataTypes.STRING(32), allowNull: true },
-        source: { type: DataTypes.ENUM('api', 'batch'), allowNull: false },
+        source: { type: DataTypes.ENUM('api', 'batch', 'page'), allowNull: false },
         apiKeyId: { ...OPTIONAL_FK },
         servedBy: { ...OPTIONAL_FK },
         createdAt: DataTypes.DATE,

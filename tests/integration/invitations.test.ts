@@ -9,8 +9,8 @@ import { POST as acceptRoute } from '@/app/api/invitations/accept/route';
 import { POST as signUpRoute } from '@/app/api/users/route';
 import { GET as getStudyRoute } from '@/app/api/studies/[id]/route';
 import { AuditEvent, Invitation, Membership } from '@/db/models';
-import { hashToken } from '@/lib/services/tokens';
-import { inspectInvitation } from '@/lib/services/invitations';
+import { hashToken } from '@/lib/server/auth/tokens';
+import { inspectInvitation } from '@/lib/server/services/invitations';
 import { ctx, makeStudyWithTeam, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
 import { linkIn, startTestMailbox, tokenOf, type TestMailbox } from '../support/mail';
 

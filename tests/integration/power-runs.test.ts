@@ -6,13 +6,13 @@ import { POST as cancelRun } from '@/app/api/studies/[id]/power-runs/[runId]/can
 import { POST as restartRun } from '@/app/api/studies/[id]/power-runs/[runId]/restart/route';
 import { GET as exportRun } from '@/app/api/studies/[id]/power-runs/[runId]/export/route';
 import { AuditEvent, Design, DesignVersion, PowerRun, PriorSet } from '@/db/models';
-import { contentHash } from '@/lib/canonical-json';
-import { pngInfo } from '@/lib/figures/png';
-import { markInterruptedRuns } from '@/lib/server/power/runner';
-import { runScenario } from '@/lib/server/power/run-scenario';
-import { buildScenario } from '@/lib/services/power-scenario';
-import type { FrozenDesign } from '@/lib/validations/design';
-import type { PowerRunSpecInput } from '@/lib/validations/power';
+import { contentHash } from '@/lib/shared/canonical-json';
+import { pngInfo } from '@/lib/server/figures/png';
+import { markInterruptedRuns } from '@/lib/server/jobs/power/runner';
+import { runScenario } from '@/lib/server/jobs/power/run-scenario';
+import { buildScenario } from '@/lib/shared/power-scenario';
+import type { FrozenDesign } from '@/lib/shared/validations/planner';
+import type { PowerRunSpecInput } from '@/lib/shared/validations/power';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs, type TestUser } from '../support/integration';
 
 beforeAll(migrateUp);

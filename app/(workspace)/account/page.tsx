@@ -2,7 +2,7 @@ import type { Metadata } from 'next';
 import { redirect } from 'next/navigation';
 import { ChangePasswordForm } from '@/components/team/change-password-form';
 import { NoticeSettingsForm } from '@/components/team/notice-settings-form';
-import { getPageUser } from '@/lib/auth/session';
+import { getPageUser } from '@/lib/server/auth/session';
 
 export const metadata: Metadata = { title: 'Account' };
 

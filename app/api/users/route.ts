@@ -1,8 +1,8 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { signUpSchema } from '@/lib/validations/user';
-import { createUser } from '@/lib/services/users';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { signUpSchema } from '@/lib/shared/validations/user';
+import { createUser } from '@/lib/server/services/users';
 
 /** Sign-up: creates an account (the client then signs in with it). */
 export const POST = route(async (request) => {

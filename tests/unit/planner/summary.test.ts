@@ -2,12 +2,12 @@ import * as d3 from 'd3';
 import jstatModule from 'jstat';
 import { describe, expect, it } from 'vitest';
 import { discountFactor, MODEL_IDS, reversalZone, type ModelSpec } from '@/lib/design';
-import { defaultSpec } from '@/lib/planner/design-form-values';
-import { priorDraws } from '@/lib/planner/points';
-import { priorView } from '@/lib/planner/prior-view';
-import { computeDesignSummary } from '@/lib/planner/summary';
-import type { PlannerInput } from '@/lib/planner/types';
-import type { DesignSpec, PriorValues } from '@/lib/validations/design';
+import { defaultSpec } from '@/lib/shared/planner/design-form-values';
+import { priorDraws } from '@/lib/shared/planner/points';
+import { priorView } from '@/lib/shared/planner/prior-view';
+import { computeDesignSummary } from '@/lib/shared/planner/summary';
+import type { PlannerInput } from '@/lib/shared/planner/types';
+import type { DesignSpec, PriorValues } from '@/lib/shared/validations/planner';
 
 const { jStat } = jstatModule as unknown as { jStat: { normal: { cdf: (x: number, m: number, s: number) => number; sample: (m: number, s: number) => number } } };
 

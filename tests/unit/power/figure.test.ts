@@ -1,6 +1,6 @@
 // The power figure's legend sits in a corner the curves leave free, whatever shape the curve has.
 import { describe, expect, it } from 'vitest';
-import { powerCurveSvg, type PowerSeries } from '@/lib/figures/power-curve';
+import { powerCurveSvg, type PowerSeries } from '@/lib/shared/figures/power-curve';
 
 const ns = [20, 40, 60, 80, 100, 120, 140, 160, 180, 200];
 const series = (label: string, power: (n: number) => number): PowerSeries => ({

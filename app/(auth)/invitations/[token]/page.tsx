@@ -1,6 +1,6 @@
 import type { Metadata } from 'next';
 import { InvitationGate } from '@/components/team/invitation-response';
-import { getPageUser } from '@/lib/auth/session';
+import { getPageUser } from '@/lib/server/auth/session';
 
 // The token is in the address: keep it out of Referer headers sent to other sites.
 export const metadata: Metadata = { title: 'Invitation', referrer: 'no-referrer' };

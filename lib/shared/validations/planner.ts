@@ -1,0 +1,108 @@
+import { z } from 'zod';
+import { freeText, nameText } from '@/lib/shared/validations/text';
+
+/**
+ * The planner's entities, one zod schema each, shared by forms (zodResolver), route handlers
+ * (safeParse) and the frozen-version snapshot. Units: rates per day, delays in days.
+ */
+
+export const MODEL_CHOICES = ['exponential', 'hyperbolic', 'hyperboloid', 'power-delay', 'exponential-power', 'quasi-hyperbolic'] as const;
+
+export const MAX_LATE_DELAY_DAYS = 9131; // 25 years
+
+const rate = (label: string) =>
+  z.number({ error: `${label} must be a number (per day).` }).positive(`${label} must be above 0 per day.`).max(10, `${label} must be at most 10 per day.`);
+
+/** A named prior over (ln kSmall, ln kLarge): medians, spreads (SD of ln k) and their correlation. */
+export const priorValuesSchema = z.strictObject({
+  medianSmall: rate('Median rate for the small reward'),
+  medianLarge: rate('Median rate for the large reward'),
+  sdLogSmall: z.number().min(0, 'Spread must be 0 or more.').max(5, 'Spread must be at most 5 (SD of ln k).'),
+  sdLogLarge: z.number().min(0, 'Spread must be 0 or more.').max(5, 'Spread must be at most 5 (SD of ln k).'),
+  correlation: z.number().min(-0.99, 'Correlation must be between −0.99 and 0.99.').max(0.99, 'Correlation must be between −0.99 and 0.99.'),
+});
+export type PriorValues = z.infer<typeof priorValuesSchema>;
+
+export const priorSetSchema = z.strictObject({
+  name: nameText({ label: 'The prior set name', min: 1, max: 120, tooShort: 'Name the prior set.' }),
+  ...priorValuesSchema.shape,
+  source: z.enum(['manual', 'pilot']).default('manual'),
+  notes: freeText({ label: 'The notes', max: 2000, trim: false }).default(''),
+});
+export type PriorSetInput = z.input<typeof priorSetSchema>;
+
+export const modelSpecSchema = z.strictObject({
+  id: z.enum(MODEL_CHOICES),
+  sensitivity: z.number().positive('Delay sensitivity s must be above 0.').max(5, 'Delay sensitivity s must be at most 5.').optional(),
+  presentBias: z.number().gt(0, 'Present bias β must be above 0.').max(1, 'Present bias β must be at most 1.').optional(),
+});
+
+export const soonDelaySchema = z.discriminatedUnion('mode', [
+  z.strictObject({ mode: z.literal('fixed'), days: z.number().int().min(0).max(365, 'The soon delay must be at most 365 days.') }),
+  z.strictObject({
+    mode: z.literal('optimised'),
+    min: z.number().int().min(0).max(365),
+    max: z.number().int().min(0).max(365, 'The soon delay must be at most 365 days.'),
+  }),
+]);
+
+export const calibrationSchema = z.strictObject({
+  itemsPerMagnitude: z.number().int().min(4, 'Use at least 4 calibration items per magnitude.').max(40, 'Use at most 40 calibration items per magnitude.'),
+  minDelay: z.number().int().min(1).max(MAX_LATE_DELAY_DAYS),
+  maxDelay: z.number().int().min(1).max(MAX_LATE_DELAY_DAYS),
+});
+
+/** The fields a user edits on a candidate design. */
+export const designSpecSchema = z
+  .strictObject({
+    name: nameText({ label: 'The design name', min: 1, max: 120, tooShort: 'Name the design.' }),
+    priorSetId: z.number().int().positive('Choose a prior set.'),
+    model: modelSpecSchema,
+    ratio: z.number().gt(0, 'The magnitude ratio S/L must be above 0.').lt(1, 'The magnitude ratio S/L must be below 1.'),
+    largeAmount: z.number().positive('The large amount must be above 0.').max(1_000_000),
+    currency: z.string().trim().regex(/^[A-Z]{3}$/, 'Use a three-letter currency code such as EUR.'),
+    mode: z.enum(['personalised', 'population']),
+    soonDelay: soonDelaySchema,
+    lateDelayLimit: z.number().int().min(2).max(MAX_LATE_DELAY_DAYS, 'The late delay is limited to 25 years (9131 days).'),
+    probePairs: z.number().int().min(1, 'Use at least 1 probe pair.').max(20),
+    lateAnchors: z.number().int().min(0).max(10),
+    soonAnchors: z.number().int().min(0).max(10),
+    criterion: z.enum(['gap-product', 'expected-reversal-rate', 'maximin']),
+    calibration: calibrationSchema,
+    /** logistic choice sensitivity γ per unit of the large amount, for expected rates; the planner assumes 20 when absent */
+    choiceSensitivity: z.number().positive('Choice sensitivity γ must be above 0.').max(1000, 'Choice sensitivity γ must be at most 1000.').optional(),
+  })
+  .superRefine((spec, ctx) => {
+    if (spec.soonDelay.mode === 'optimised' && spec.soonDelay.min > spec.soonDelay.max)
+      ctx.addIssue({ code: 'custom', path: ['soonDelay', 'max'], message: 'The upper bound must not be below the lower bound.' });
+    if (spec.calibration.minDelay >= spec.calibration.maxDelay)
+      ctx.addIssue({ code: 'custom', path: ['calibration', 'maxDelay'], message: 'The longest calibration delay must exceed the shortest.' });
+    const soonest = spec.soonDelay.mode === 'fixed' ? spec.soonDelay.days : spec.soonDelay.max;
+    if (spec.lateDelayLimit <= soonest)
+      ctx.addIssue({ code: 'custom', path: ['lateDelayLimit'], message: 'The late-delay limit must exceed the soon delay.' });
+  });
+export type DesignSpec = z.infer<typeof designSpecSchema>;
+export type DesignSpecInput = z.input<typeof designSpecSchema>;
+
+/** Saving a design names the version it was based on (optimistic locking, 409 when stale). */
+export const designUpdateSchema = z.strictObject({ spec: designSpecSchema, version: z.number().int().positive() });
+
+/**
+ * What a frozen version stores and hashes: the spec with its prior's values copied in, so an
+ * export or a power run citing the hash never depends on a prior set edited later.
+ */
+export const frozenDesignSchema = z.strictObject({
+  spec: designSpecSchema,
+  prior: priorValuesSchema.extend({ name: z.string() }),
+});
+export type FrozenDesign = z.infer<typeof frozenDesignSchema>;
+
+export const commentSchema = z.strictObject({ text: freeText({ label: 'The comment', max: 4000 }).min(1, 'Write something first.') });
+
+/** Editing a prior set names the version it was based on (optimistic locking, 409 when stale). */
+export const priorSetUpdateSchema = z.strictObject({ prior: priorSetSchema, version: z.number().int().positive() });
+export type PriorSetUpdate = z.input<typeof priorSetUpdateSchema>;
+
+/** Pilot-data upload limits: bigger files are refused before parsing. */
+export const PILOT_MAX_BYTES = 5 * 1024 * 1024;
+export const PILOT_MAX_ROWS = 100_000;
