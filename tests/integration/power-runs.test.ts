@@ -8,7 +8,7 @@ import { GET as exportRun } from '@/app/api/studies/[id]/power-runs/[runId]/expo
 import { AuditEvent, Design, DesignVersion, PowerRun, PriorSet } from '@/db/models';
 import { contentHash } from '@/lib/shared/canonical-json';
 import { pngInfo } from '@/lib/server/figures/png';
-import { markInterruptedRuns } from '@/lib/server/jobs/power/runner';
+import { markInterruptedRuns } from '@/lib/server/services/power-runner';
 import { runScenario } from '@/lib/server/jobs/power/run-scenario';
 import { buildScenario } from '@/lib/shared/power-scenario';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';

@@ -1,4 +1,4 @@
-import type { Role } from '../../shared/roles';
+import type { Role } from '@/lib/shared/roles';
 
 /**
  * Who may call each API route. `public`: anyone; `signed-in`: any signed-in user; `api-key`: a

@@ -1,10 +1,10 @@
 import { ApiError } from '@/lib/server/errors';
 import { errorReply, jsonReply, type PlainReply } from '@/lib/server/http/error-reply';
 import { parseJsonText } from '@/lib/server/http/read-json';
-import { requireApiKey } from '../services/api-keys';
-import { frozenVersionById } from '../services/item-bank';
+import { requireApiKey } from '@/lib/server/services/api-keys';
+import { frozenVersionById } from '@/lib/server/services/item-bank';
 import { probeRateLimiter } from './key-rate-limit';
-import { serveProbeItemsJson } from '../services/participants';
+import { serveProbeItemsJson } from '@/lib/server/services/participants';
 import { probeItemsRequestSchema } from '@/lib/shared/validations/item-bank';
 
 export type ProbeItemsCall = {

@@ -8,7 +8,7 @@ import type { Study } from '@/db/models';
 import { exportOptionsSchema, type ExportOptions } from '@/lib/shared/validations/item-bank';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import { recordAudit } from './audit';
-import { bankFor, defaultSeed } from '../../shared/item-bank-plan';
+import { bankFor, defaultSeed } from '@/lib/shared/item-bank-plan';
 
 /** Column order of the CSV export; the JSON export's items have exactly these fields. */
 export const ITEM_COLUMNS: ReadonlyArray<keyof BankItem> = [

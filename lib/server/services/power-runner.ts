@@ -3,9 +3,9 @@ import { db } from '@/db';
 import { DesignVersion, PowerRun } from '@/db/models';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpec } from '@/lib/shared/validations/power';
-import { notifyPowerRunFinished } from '@/lib/server/services/notices';
+import { notifyPowerRunFinished } from './notices';
 import { buildScenario, runResult } from '@/lib/shared/power-scenario';
-import { runScenario } from './run-scenario';
+import { runScenario } from '@/lib/server/jobs/power/run-scenario';
 
 /** Runs executing in this process, with their cancel flags (on globalThis to survive dev reloads). */
 const holder = globalThis as unknown as { switchbackPowerRuns?: Map<number, { cancel: boolean }> };
