@@ -26,3 +26,4 @@ export { estimateRates, type Choice, type EstimateFlag, type EstimateOptions, ty
 export { checkDelay, checkInteger, checkLateDelay, checkModel, checkRatio } from './validate';
 export * from './power';
 export * from './item-bank';
+export * from './analysis';
