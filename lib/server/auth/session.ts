@@ -5,7 +5,7 @@ import { Membership, Study, User } from '@/db/models';
 import { db } from '@/db';
 import { NotFoundError, UnauthorizedError, ForbiddenError } from '@/lib/server/errors';
 import { authOptions } from './options';
-import { roleAtLeast, type Role } from '../../shared/roles';
+import { roleAtLeast, type Role } from '@/lib/shared/roles';
 
 export type SessionUser = { id: number; email: string; name: string };
 

@@ -1,6 +1,6 @@
 import path from 'node:path';
 import { Resvg } from '@resvg/resvg-js';
-import { FIGURE, FIGURE_FONT } from '../../shared/figures/power-curve';
+import { FIGURE, FIGURE_FONT } from '@/lib/shared/figures/power-curve';
 
 /** The TrueType fonts shipped in fonts/ that figures are rendered with (resvg reads TTF/OTF, not WOFF2). */
 export function figureFontFiles(): string[] {

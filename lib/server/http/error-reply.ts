@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { ZodError } from 'zod';
-import { ApiError } from '../errors';
+import { ApiError } from '@/lib/server/errors';
 import { isDatabaseUnavailable } from '@/lib/server/http/db-errors';
 
 /** An HTTP reply as plain data, for code that answers outside Next (scripts/serve.mjs). */

@@ -1,5 +1,5 @@
 import type { z } from 'zod';
-import { ApiError, ValidationError } from '../errors';
+import { ApiError, ValidationError } from '@/lib/server/errors';
 import { zodIssues } from './error-reply';
 
 export const MAX_BODY_BYTES = 1_000_000;

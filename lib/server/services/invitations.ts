@@ -8,7 +8,7 @@ import { invitationMessage } from '@/lib/server/mail/templates';
 import { sendMail } from '@/lib/server/mail/transport';
 import type { InvitationInput } from '@/lib/shared/validations/team';
 import { recordAudit } from './audit';
-import { hashToken, newToken } from '../auth/tokens';
+import { hashToken, newToken } from '@/lib/server/auth/tokens';
 
 export const INVITATION_DAYS = 7;
 const DAY_MS = 24 * 60 * 60 * 1000;

@@ -9,7 +9,7 @@ import { passwordResetMessage } from '@/lib/server/mail/templates';
 import { queueMail } from '@/lib/server/mail/transport';
 import type { PasswordResetInput } from '@/lib/shared/validations/team';
 import { recordAudit } from './audit';
-import { hashToken, newToken } from '../auth/tokens';
+import { hashToken, newToken } from '@/lib/server/auth/tokens';
 
 export const RESET_MINUTES = 60;
 

@@ -4,11 +4,11 @@ import { DesignVersion, PowerRun, User } from '@/db/models';
 import { ApiError, ConflictError, NotFoundError, ValidationError } from '@/lib/server/errors';
 import { createPowerSimulator, POWER_ENGINE_VERSION, type PowerSummary } from '@/lib/design/power';
 import { DesignInputError } from '@/lib/design/DesignInputError';
-import { activeRuns, launchRun, markInterruptedRuns, queuePositions, requestCancel, STALE_MS } from '@/lib/server/jobs/power/runner';
+import { activeRuns, launchRun, markInterruptedRuns, queuePositions, requestCancel, STALE_MS } from './power-runner';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpec, PowerStatus } from '@/lib/shared/validations/power';
 import { recordAudit } from './audit';
-import { buildScenario } from '../../shared/power-scenario';
+import { buildScenario } from '@/lib/shared/power-scenario';
 
 function json<T>(value: T | string): T {
   return typeof value === 'string' ? (JSON.parse(value) as T) : value;

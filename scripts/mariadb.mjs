@@ -1,6 +1,6 @@
 // A private MariaDB server per checkout, so `npm start` and `npm test` need no system service.
 //
-//   node db/server.mjs start|stop|status [--instance app|test] [--fresh]
+//   node scripts/mariadb.mjs start|stop|status [--instance app|test] [--fresh]
 //
 // Instances live in .data/<folder>: my.cnf (rewritten on every start), data/ (datadir),
 // mariadbd.pid and error.log. `app` serves database `switchback` on DB_PORT (default 3307) with
@@ -19,7 +19,7 @@ import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
-import { aptInstall, findExecutable, isRoot } from '../scripts/system.mjs';
+import { aptInstall, findExecutable, isRoot } from './system.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const ENV_FILE = path.join(ROOT, '.env.local');
@@ -225,7 +225,7 @@ function writeCnf(cfg) {
   ];
   const client = [`socket=${cnfValue(cfg.socket)}`, `port=${cfg.port}`];
   const text =
-    `# Written by db/server.mjs on every start of the "${cfg.instance}" instance; edits are overwritten.\n` +
+    `# Written by scripts/mariadb.mjs on every start of the "${cfg.instance}" instance; edits are overwritten.\n` +
     `[mariadbd]\n${server.join('\n')}\n\n[client]\n${client.join('\n')}\n`;
   fs.mkdirSync(cfg.dir, { recursive: true });
   fs.writeFileSync(cfg.cnf, text);
@@ -240,7 +240,7 @@ function ensureEnvFile(wanted, log) {
   const existing = readEnvFile(ENV_FILE);
   const missing = Object.keys(wanted).filter((key) => existing[key] === undefined || existing[key] === '');
   if (missing.length > 0) {
-    const before = fs.existsSync(ENV_FILE) ? fs.readFileSync(ENV_FILE, 'utf8') : '# Local settings (git-ignored), written by db/server.mjs.\n';
+    const before = fs.existsSync(ENV_FILE) ? fs.readFileSync(ENV_FILE, 'utf8') : '# Local settings (git-ignored), written by scripts/mariadb.mjs.\n';
     const lines = missing.map((key) => `${key}=${wanted[key]}`).join('\n');
     fs.writeFileSync(ENV_FILE, `${before}${before.endsWith('\n') ? '' : '\n'}${lines}\n`, { mode: 0o600 });
     log(`Wrote ${missing.join(', ')} to .env.local`);
@@ -384,7 +384,7 @@ export async function startDatabase({ instance = 'app', fresh = false, log = con
     const deadline = Date.now() + START_TIMEOUT_MS;
     while (!(running = await ping(cfg)) && Date.now() < deadline && isServerProcess(pid)) await sleep(250);
     if (!running && isServerProcess(pid)) {
-      throw new Error(`mariadbd (pid ${pid}) is running but not answering; try: node db/server.mjs stop --instance ${instance}`);
+      throw new Error(`mariadbd (pid ${pid}) is running but not answering; try: node scripts/mariadb.mjs stop --instance ${instance}`);
     }
   }
   if (!running) {
@@ -461,14 +461,14 @@ async function main(argv) {
     );
     process.exitCode = status.running ? 0 : 3;
   } else {
-    console.error('usage: node db/server.mjs start|stop|status [--instance app|test] [--fresh]');
+    console.error('usage: node scripts/mariadb.mjs start|stop|status [--instance app|test] [--fresh]');
     process.exitCode = 2;
   }
 }
 
 if (process.argv[1] && import.meta.url === pathToFileURL(path.resolve(process.argv[1])).href) {
   main(process.argv.slice(2)).catch((error) => {
-    console.error(`db/server.mjs: ${error.message}`);
+    console.error(`scripts/mariadb.mjs: ${error.message}`);
     process.exitCode = 1;
   });
 }

@@ -3,10 +3,10 @@ import { db } from '@/db';
 import { DesignVersion, PowerRun } from '@/db/models';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpec } from '@/lib/shared/validations/power';
-import { notifyPowerRunFinished } from '@/lib/server/services/notices';
+import { notifyPowerRunFinished } from './notices';
 import { buildScenario, runResult } from '@/lib/shared/power-scenario';
 import { powerRunLimits } from '@/lib/server/env';
-import { runScenario } from './run-scenario';
+import { runScenario } from '@/lib/server/jobs/power/run-scenario';
 
 type RunState = { cancel: boolean; studyId: number };
 type Waiting = { runId: number; studyId: number; workers?: number; done: () => void };
