@@ -12,7 +12,7 @@ import type { MigrationParams } from 'umzug';
  * they already exist (a database that applied 0009 first); on a fresh database 0009 creates them
  * with the binary collation itself.
  */
-const COLUMNS: ReadonlyArray<{ table: string; column: string; type: string }> = [
+export const COLUMNS: ReadonlyArray<{ table: string; column: string; type: string }> = [
   { table: 'participants', column: 'participant_id', type: 'VARCHAR(128)' },
   { table: 'participant_sessions', column: 'participant_id', type: 'VARCHAR(128)' },
   { table: 'stage2_answers', column: 'item_id', type: 'VARCHAR(64)' },

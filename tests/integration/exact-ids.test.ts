@@ -3,6 +3,7 @@
 import { QueryTypes } from 'sequelize';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { db } from '@/db';
+import { COLUMNS } from '@/db/migrations/0008-exact-identifiers';
 import { Participant } from '@/db/models';
 import { POST as createKey } from '@/app/api/studies/[id]/api-keys/route';
 import { handleProbeItems } from '@/lib/server/http/probe-endpoint';
@@ -32,11 +33,10 @@ describe('exact identifiers', () => {
 
   it('gives every identifier column a binary collation', async () => {
     const rows = await db().query<{ name: string; collation: string }>(
-      `SELECT CONCAT(table_name, '.', column_name) AS name, collation_name AS collation FROM information_schema.columns
-        WHERE table_schema = DATABASE() AND (column_name IN ('participant_id', 'item_id', 'prefix', 'secret_hash', 'token_hash') OR (table_name = 'design_versions' AND column_name = 'hash'))`,
+      `SELECT CONCAT(table_name, '.', column_name) AS name, collation_name AS collation FROM information_schema.columns WHERE table_schema = DATABASE()`,
       { type: QueryTypes.SELECT },
     );
-    expect(rows.length).toBeGreaterThanOrEqual(8);
-    for (const row of rows) expect(row.collation, row.name).toBe('utf8mb4_bin');
+    const collations = new Map(rows.map((r) => [r.name, r.collation]));
+    for (const { table, column } of COLUMNS) expect(collations.get(`${table}.${column}`), `${table}.${column}`).toBe('utf8mb4_bin');
   });
 });

@@ -49,7 +49,8 @@ export async function requestAs(
 ): Promise<NextRequest> {
   // A browser page of the app sends its own Origin with every write, and the server requires it
   // (cross-site protection); writes declare JSON unless a test says otherwise.
-  const writes = method !== 'GET' && method !== 'HEAD';
+  // (API-key routes under /api/v1 are called by survey software, which sends no Origin.)
+  const writes = method !== 'GET' && method !== 'HEAD' && !path.startsWith('/api/v1/');
   // Host as the browser sends it (NextRequest's own URL says "localhost" for 127.0.0.1).
   const headers: Record<string, string> = { host: new URL(BASE).host, ...(writes ? { origin: BASE, 'content-type': 'application/json' } : {}), ...options.headers };
   if (user) {
