@@ -3,7 +3,7 @@
 export async function register() {
   if (process.env.NEXT_RUNTIME !== 'nodejs') return;
   try {
-    const { markInterruptedRuns } = await import('./lib/server/power/runner');
+    const { markInterruptedRuns } = await import('./lib/server/services/power-runner');
     // a live server beats every 2 s; a run silent for 6 s belongs to a server that is gone
     const marked = await markInterruptedRuns(6000);
     if (marked > 0) console.log(`[switchback] marked ${marked} power run(s) interrupted by the last restart`);

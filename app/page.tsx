@@ -1,5 +1,5 @@
 import { redirect } from 'next/navigation';
-import { getPageUser } from '@/lib/auth/session';
+import { getPageUser } from '@/lib/server/auth/session';
 
 export default async function Home() {
   redirect((await getPageUser()) ? '/studies' : '/sign-in');

@@ -69,7 +69,7 @@ function answers(n) {
 }
 
 async function setUp(conn) {
-  const { contentHash } = await tsImport('../lib/canonical-json.ts', import.meta.url);
+  const { contentHash } = await tsImport('../lib/shared/canonical-json.ts', import.meta.url);
   const now = new Date();
   const label = `Bench · probe API ${now.toISOString()}`;
   const study = await conn.query('INSERT INTO studies (name, description, version, created_at, updated_at) VALUES (?, ?, 1, ?, ?)', [label, 'Scratch study of bench/api.mjs', now, now]);

@@ -4,11 +4,11 @@
 import { drawLineChart } from '@/components/charts/draw-line-chart';
 import { drawScatterChart } from '@/components/charts/draw-scatter-chart';
 import { gapChartSpec, valueChartSpec } from '@/components/planner/design-charts-spec';
-import { defaultSpec } from '@/lib/planner/design-form-values';
-import { priorDraws, priorNodes } from '@/lib/planner/points';
-import { priorView } from '@/lib/planner/prior-view';
-import { computeDesignSummary } from '@/lib/planner/summary';
-import type { DesignSpec } from '@/lib/validations/design';
+import { defaultSpec } from '@/lib/shared/planner/design-form-values';
+import { priorDraws, priorNodes } from '@/lib/shared/planner/points';
+import { priorView } from '@/lib/shared/planner/prior-view';
+import { computeDesignSummary } from '@/lib/shared/planner/summary';
+import type { DesignSpec } from '@/lib/shared/validations/planner';
 
 type Timing = { label: string; draws: number; runs: number; medianMs: number; p95Ms: number; maxMs: number };
 

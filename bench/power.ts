@@ -6,7 +6,7 @@
 // exact McNemar, one-sided, α = 0.05; N = 20, 40, …, 200; 2,000 replications; seed 1.
 // Target: the whole curve in 5 s or less on a 2-core machine.
 import { summarisePower, type PowerScenario } from '@/lib/design/power';
-import { defaultWorkerCount, runScenario } from '@/lib/server/power/run-scenario';
+import { defaultWorkerCount, runScenario } from '@/lib/server/jobs/power/run-scenario';
 
 const prior = { medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 1, sdLogLarge: 1, correlation: 0.8 };
 

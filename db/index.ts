@@ -1,6 +1,6 @@
 import { Sequelize } from 'sequelize';
 import * as mariadb from 'mariadb';
-import { serverEnv } from '@/lib/env';
+import { serverEnv } from '@/lib/server/env';
 import { registerModels } from './models';
 
 // One Sequelize instance per process. In development Next reloads modules on every change, so the

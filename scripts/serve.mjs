@@ -1,7 +1,7 @@
 // The production server that scripts/start.mjs and scripts/test.mjs run instead of `next start`:
 // the same Next app (`next({ dev: false })` over the build in .next, or NEXT_DIST_DIR), on one
 // node:http server, except that POST /api/v1/studies/{id}/probe-items is answered directly by
-// lib/server/direct-api.ts (the survey-facing hot path; Next's own request handling costs more
+// lib/server/http/direct-api.ts (the survey-facing hot path; Next's own request handling costs more
 // than the endpoint). Everything else, this endpoint's other methods included, goes to Next.
 //
 //   node scripts/serve.mjs [-H 127.0.0.1] [-p 3000]      (the port defaults to PORT, else 3000)
@@ -36,7 +36,7 @@ await app.prepare(); // runs instrumentation.ts's register(), as `next start` do
 // Loaded through tsx (the `@/` alias resolves from tsconfig.json): a module copy of its own beside
 // Next's bundle, sharing the Sequelize pool and the API-key cache through globalThis.
 const { tsImport } = await import('tsx/esm/api');
-const { answerDirect } = await tsImport('../lib/server/direct-api.ts', import.meta.url);
+const { answerDirect } = await tsImport('../lib/server/http/direct-api.ts', import.meta.url);
 
 // Rate limits count the connection's address, which Next's route handlers cannot see: it is handed
 // over in a header of our own that no client can set (scripts/peer-address.mjs).

@@ -5,7 +5,7 @@
 import { existsSync, readdirSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { readEnvFile, startDatabase, stopDatabase } from '../db/server.mjs';
+import { readEnvFile, startDatabase, stopDatabase } from './mariadb.mjs';
 import { demoAccounts, demoGroup } from '../db/seeders/demo-accounts.mjs';
 import { spawnNode, spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
 

@@ -12,7 +12,7 @@ import { randomBytes } from 'node:crypto';
 import { closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { startDatabase, stopDatabase } from '../db/server.mjs';
+import { startDatabase, stopDatabase } from './mariadb.mjs';
 import { ensureChromium, spawnNode, spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -114,7 +114,10 @@ async function main({ mode, extra }) {
 
   try {
     if (mode === 'all') {
-      await step('lint', () => npx(['eslint', '.'], env));
+      await step('lint', async () => {
+        await npx(['eslint', '.'], env);
+        await npx(['depcruise', '--config', '.dependency-cruiser.cjs', '.'], env); // architecture boundaries (npm run lint:boundaries)
+      });
       await step('typecheck', () => npx(['tsc', '--noEmit'], env));
     }
     if (mode === 'unit') {
@@ -127,7 +130,7 @@ async function main({ mode, extra }) {
         env = {
           ...base,
           ...dbEnv,
-          // Integration tests may stop and start this server through db/server.mjs; same port then.
+          // Integration tests may stop and start this server through scripts/mariadb.mjs; same port then.
           TEST_DB_PORT: dbEnv.DB_PORT,
           NEXTAUTH_SECRET: randomBytes(32).toString('base64url'),
           NEXTAUTH_URL: baseUrl,

@@ -5,7 +5,7 @@ import { Wordmark } from '@/components/layout/logo';
 import { SignOutButton } from '@/components/auth/sign-out-button';
 import { CautionFooter } from '@/components/layout/caution-footer';
 import { WorkspaceLinks } from '@/components/mail/workspace-links';
-import { getPageUser } from '@/lib/auth/session';
+import { getPageUser } from '@/lib/server/auth/session';
 
 export default async function WorkspaceLayout({ children }: { children: ReactNode }) {
   const user = await getPageUser();

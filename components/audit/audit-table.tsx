@@ -19,7 +19,7 @@ import { QueryState } from '@/components/ui/query-state';
 import { Table, Td, Th } from '@/components/ui/table';
 import { useStudyContext } from '@/components/studies/study-context';
 import { useAuditEvents, type AuditEventDto } from '@/lib/client/team';
-import { formatDateTime } from '@/lib/format';
+import { formatDateTime } from '@/lib/shared/format';
 import { describeAction, describeDetails } from './describe';
 
 const column = createColumnHelper<AuditEventDto>();

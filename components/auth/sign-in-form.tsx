@@ -8,7 +8,7 @@ import { useForm } from 'react-hook-form';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
-import { signInSchema, type SignInInput } from '@/lib/validations/user';
+import { signInSchema, type SignInInput } from '@/lib/shared/validations/user';
 
 const MESSAGES: Record<string, string> = {
   TooManyAttempts: 'Too many failed attempts for this account or from this connection. Wait 15 minutes and try again.',

@@ -9,7 +9,7 @@ import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ApiClientError, apiFetch } from '@/lib/client/api';
-import { signUpSchema, type SignUpInput } from '@/lib/validations/user';
+import { signUpSchema, type SignUpInput } from '@/lib/shared/validations/user';
 
 export function SignUpForm({ callbackUrl, email }: { callbackUrl: string; email?: string }) {
   const [failure, setFailure] = useState<string | null>(null);

@@ -7,7 +7,7 @@ import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useCreateApiKey, type FrozenVersionDto } from '@/lib/client/item-bank';
-import { apiKeyCreateSchema, type ApiKeyCreateInput } from '@/lib/validations/api-keys';
+import { apiKeyCreateSchema, type ApiKeyCreateInput } from '@/lib/shared/validations/api-keys';
 import { VersionSelect } from './version-select';
 
 /** Creates a key for one frozen version and shows its secret once. */

@@ -3,7 +3,7 @@
 import { Button } from '@/components/ui/button';
 import { Table, Td, Th } from '@/components/ui/table';
 import { useRevokeApiKey, type ApiKeyDto } from '@/lib/client/item-bank';
-import { formatDateTime } from '@/lib/format';
+import { formatDateTime } from '@/lib/shared/format';
 
 /** The study's keys with prefix, creator and last use; active keys can be revoked. */
 export function ApiKeysTable({ studyId, keys }: { studyId: number; keys: ApiKeyDto[] }) {

@@ -8,7 +8,7 @@ import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { useStudyContext } from '@/components/studies/study-context';
 import { exportQuery, useFrozenVersions, useItemBankPreview } from '@/lib/client/item-bank';
-import type { ExportOptions } from '@/lib/validations/item-bank';
+import type { ExportOptions } from '@/lib/shared/validations/item-bank';
 import { ItemTable } from './item-table';
 import { RoundingReport } from './rounding-report';
 import { VersionSelect } from './version-select';

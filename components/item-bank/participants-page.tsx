@@ -8,7 +8,7 @@ import { QueryState } from '@/components/ui/query-state';
 import { Table, Td, Th } from '@/components/ui/table';
 import { useStudyContext } from '@/components/studies/study-context';
 import { useFrozenVersions, useParticipants, type ParticipantDto } from '@/lib/client/item-bank';
-import { formatDateTime } from '@/lib/format';
+import { formatDateTime } from '@/lib/shared/format';
 import { BatchUpload } from './batch-upload';
 import { ItemTable } from './item-table';
 

@@ -5,7 +5,7 @@ import { Card } from '@/components/ui/card';
 import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { useMailbox, type MailboxMessageDto } from '@/lib/client/team';
-import { formatDateTime } from '@/lib/format';
+import { formatDateTime } from '@/lib/shared/format';
 
 /** Plain text with its web addresses turned into links (the text itself is never parsed as HTML). */
 function withLinks(text: string): ReactNode[] {

@@ -1,5 +1,5 @@
 import Link from 'next/link';
-import { mailboxDir } from '@/lib/mail/mailbox';
+import { mailboxDir } from '@/lib/server/mail/mailbox';
 
 /** Header links to the account settings and, while the local test mail server is in use, the mailbox. */
 export function WorkspaceLinks() {

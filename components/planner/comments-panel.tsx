@@ -9,8 +9,8 @@ import { TextArea } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { useAddComment, useComments } from '@/lib/client/planner';
-import { formatDateTime } from '@/lib/format';
-import { commentSchema } from '@/lib/validations/design';
+import { formatDateTime } from '@/lib/shared/format';
+import { commentSchema } from '@/lib/shared/validations/planner';
 
 /** Discussion of a design: every member, viewers included, may comment. */
 export function CommentsPanel({ studyId, designId }: { studyId: number; designId: number }) {

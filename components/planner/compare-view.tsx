@@ -6,11 +6,11 @@ import { drawBarChart, type BarChartSpec } from '@/components/charts/draw-bar-ch
 import { D3Chart } from '@/components/charts/d3-chart';
 import { Table, Td, Th } from '@/components/ui/table';
 import type { DesignDto, PriorSetDto } from '@/lib/client/planner';
-import { compareRows, type CompareRow } from '@/lib/planner/compare';
+import { compareRows, type CompareRow } from '@/lib/shared/planner/compare';
 import { MODEL_IDS } from '@/lib/design';
-import { fmtDays, fmtShare, fmtSmall } from '@/lib/planner/format';
-import { computeDesignSummary } from '@/lib/planner/summary';
-import type { DesignSummary, PlannerInput } from '@/lib/planner/types';
+import { fmtDays, fmtShare, fmtSmall } from '@/lib/shared/planner/format';
+import { computeDesignSummary } from '@/lib/shared/planner/summary';
+import type { DesignSummary, PlannerInput } from '@/lib/shared/planner/types';
 import { CRITERION_LABELS, MODEL_LABELS } from './labels';
 
 function fmt(row: CompareRow, v: number | null): string {

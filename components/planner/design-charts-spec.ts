@@ -1,6 +1,6 @@
 import { CHART_COLOURS, type LineChartSpec } from '@/components/charts/draw-line-chart';
-import { fmtDays } from '@/lib/planner/format';
-import type { DesignSummary } from '@/lib/planner/types';
+import { fmtDays } from '@/lib/shared/planner/format';
+import type { DesignSummary } from '@/lib/shared/planner/types';
 
 /** Chart specs for a summary: values against the standing day, and the gap product against the late delay. */
 export function valueChartSpec(s: DesignSummary, currency: string): LineChartSpec | null {

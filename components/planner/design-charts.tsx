@@ -3,7 +3,7 @@
 import { useMemo } from 'react';
 import { drawLineChart } from '@/components/charts/draw-line-chart';
 import { D3Chart } from '@/components/charts/d3-chart';
-import type { DesignSummary } from '@/lib/planner/types';
+import type { DesignSummary } from '@/lib/shared/planner/types';
 import { gapChartSpec, valueChartSpec } from './design-charts-spec';
 
 /** The two live charts of the design page. */

@@ -3,8 +3,8 @@
 import type { FieldErrors, UseFormRegister } from 'react-hook-form';
 import { SelectField, TextField } from '@/components/ui/field';
 import type { PriorSetDto } from '@/lib/client/planner';
-import type { DesignFormValues } from '@/lib/planner/design-form-values';
-import { MODEL_CHOICES } from '@/lib/validations/design';
+import type { DesignFormValues } from '@/lib/shared/planner/design-form-values';
+import { MODEL_CHOICES } from '@/lib/shared/validations/planner';
 import { CRITERION_LABELS, MODEL_LABELS } from './labels';
 
 type Props = { register: UseFormRegister<DesignFormValues>; errors: FieldErrors<DesignFormValues>; values: DesignFormValues; priors: PriorSetDto[] };
@@ -34,7 +34,7 @@ export function DesignFields({ register, errors: e, values, priors }: Props) {
         </SelectField>
         {usesS ? <TextField label="Delay sensitivity s" type="number" step="any" {...register('model.sensitivity', num)} error={e.model?.sensitivity?.message} hint="1 gives the model’s usual form" /> : null}
         {values.model?.id === 'quasi-hyperbolic' ? <TextField label="Present bias β" type="number" step="any" {...register('model.presentBias', num)} error={e.model?.presentBias?.message} hint="0 < β ≤ 1" /> : null}
-        <TextField label="Choice sensitivity γ (per unit of L)" type="number" step="any" {...register('choiceSensitivity', num)} error={e.choiceSensitivity?.message} hint="logistic choice noise; larger is less noisy" />
+        <TextField label="Choice sensitivity γ (per unit of the larger amount)" type="number" step="any" {...register('choiceSensitivity', num)} error={e.choiceSensitivity?.message} hint="logistic choice noise; larger is less noisy" />
       </fieldset>
       <fieldset className="grid gap-3 sm:grid-cols-3">
         <legend className="mb-1 text-sm font-semibold">Rewards</legend>

@@ -12,8 +12,8 @@ import { QueryState } from '@/components/ui/query-state';
 import { Table, Td, Th } from '@/components/ui/table';
 import { ApiClientError } from '@/lib/client/api';
 import { useCreateDesign, useDesigns, usePriors, useVersions } from '@/lib/client/planner';
-import { defaultSpec } from '@/lib/planner/design-form-values';
-import { formatDateTime } from '@/lib/format';
+import { defaultSpec } from '@/lib/shared/planner/design-form-values';
+import { formatDateTime } from '@/lib/shared/format';
 import { CRITERION_LABELS, MODEL_LABELS } from './labels';
 
 /** The study's candidate designs: open one, pick two to four to compare, or start a new one. */

@@ -2,8 +2,8 @@
 
 import { Notice } from '@/components/ui/notice';
 import { Table, Td, Th } from '@/components/ui/table';
-import { fmtDays, fmtRate, fmtShare, fmtSmall } from '@/lib/planner/format';
-import type { DesignSummary } from '@/lib/planner/types';
+import { fmtDays, fmtRate, fmtShare, fmtSmall } from '@/lib/shared/planner/format';
+import type { DesignSummary } from '@/lib/shared/planner/types';
 import { CRITERION_LABELS, ROLE_LABELS } from './labels';
 
 function Stat({ label, value, testId }: { label: string; value: string; testId?: string }) {

@@ -5,7 +5,7 @@ import { Card } from '@/components/ui/card';
 import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { useFreezeDesign, useVersions, type DesignDto } from '@/lib/client/planner';
-import { formatDateTime } from '@/lib/format';
+import { formatDateTime } from '@/lib/shared/format';
 
 /** Freeze status, the freeze button for editors, and the design's frozen versions with their hashes. */
 export function FreezePanel({ studyId, design, canEdit }: { studyId: number; design: DesignDto; canEdit: boolean }) {

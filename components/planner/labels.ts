@@ -1,4 +1,4 @@
-import type { DesignSpec } from '@/lib/validations/design';
+import type { DesignSpec } from '@/lib/shared/validations/planner';
 
 export const MODEL_LABELS: Record<DesignSpec['model']['id'], string> = {
   exponential: 'Exponential',

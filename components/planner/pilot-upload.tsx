@@ -4,7 +4,7 @@ import { useState } from 'react';
 import { Notice } from '@/components/ui/notice';
 import { ApiClientError } from '@/lib/client/api';
 import { useFitPilot, type PilotFitDto } from '@/lib/client/planner';
-import { PILOT_MAX_BYTES } from '@/lib/validations/design';
+import { PILOT_MAX_BYTES } from '@/lib/shared/validations/planner';
 
 /** Upload a pilot CSV (participant, kSmall, kLarge); the fitted prior is handed to the form for review. */
 export function PilotUpload({ studyId, onFitted }: { studyId: number; onFitted: (fit: PilotFitDto, fileName: string) => void }) {

@@ -5,11 +5,11 @@ import { CHART_COLOURS, drawLineChart, type LineChartSpec } from '@/components/c
 import { drawScatterChart, type ScatterSpec } from '@/components/charts/draw-scatter-chart';
 import { D3Chart } from '@/components/charts/d3-chart';
 import { SelectField, TextField } from '@/components/ui/field';
-import { fmtShare } from '@/lib/planner/format';
-import { priorDraws } from '@/lib/planner/points';
-import { priorView } from '@/lib/planner/prior-view';
-import { modelOf } from '@/lib/planner/summary';
-import { MODEL_CHOICES, priorValuesSchema, type PriorValues } from '@/lib/validations/design';
+import { fmtShare } from '@/lib/shared/planner/format';
+import { priorDraws } from '@/lib/shared/planner/points';
+import { priorView } from '@/lib/shared/planner/prior-view';
+import { modelOf } from '@/lib/shared/planner/summary';
+import { MODEL_CHOICES, priorValuesSchema, type PriorValues } from '@/lib/shared/validations/planner';
 import { MODEL_LABELS } from './labels';
 
 /**

@@ -10,7 +10,7 @@ import { TextArea, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ApiClientError } from '@/lib/client/api';
 import { plannerKeys, useCreatePrior, useUpdatePrior, type PriorSetDto } from '@/lib/client/planner';
-import { priorSetSchema } from '@/lib/validations/design';
+import { priorSetSchema } from '@/lib/shared/validations/planner';
 import { PilotUpload } from './pilot-upload';
 import { PriorChart } from './prior-chart';
 import { useUnsavedWarning } from './use-unsaved-warning';

@@ -7,7 +7,7 @@ import { Card } from '@/components/ui/card';
 import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { useDeletePrior, usePriors } from '@/lib/client/planner';
-import { fmtRate } from '@/lib/planner/format';
+import { fmtRate } from '@/lib/shared/planner/format';
 import { EstimateCaution } from './estimate-caution';
 import { PriorForm } from './prior-form';
 

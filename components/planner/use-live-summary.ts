@@ -1,13 +1,13 @@
 'use client';
 
 import { useMemo } from 'react';
-import { priorDraws, priorNodes } from '@/lib/planner/points';
-import { computeDesignSummary } from '@/lib/planner/summary';
-import type { DesignSummary } from '@/lib/planner/types';
-import type { DesignSpec, PriorValues } from '@/lib/validations/design';
+import { priorDraws, priorNodes } from '@/lib/shared/planner/points';
+import { computeDesignSummary } from '@/lib/shared/planner/summary';
+import type { DesignSummary } from '@/lib/shared/planner/types';
+import type { DesignSpec, PriorValues } from '@/lib/shared/validations/planner';
 
 /**
- * The design page's numbers recomputed in the browser with the same lib/planner function the
+ * The design page's numbers recomputed in the browser with the same lib/shared/planner function the
  * server runs. Prior points are kept while only design fields change.
  */
 export function useLiveSummary(spec: DesignSpec | null, prior: PriorValues | null): { summary: DesignSummary | null; error: string | null } {

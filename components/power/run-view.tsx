@@ -4,7 +4,7 @@ import Link from 'next/link';
 import { QueryState } from '@/components/ui/query-state';
 import { useStudyContext } from '@/components/studies/study-context';
 import { usePowerRun } from '@/lib/client/power';
-import { POWER_TEST_LABELS } from '@/lib/validations/power';
+import { POWER_TEST_LABELS } from '@/lib/shared/validations/power';
 import { PowerCaution } from './power-caution';
 import { RunResults } from './run-results';
 import { RunStatus, STATUS_LABELS } from './run-status';

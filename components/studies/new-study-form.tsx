@@ -9,7 +9,7 @@ import { TextArea, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ApiClientError } from '@/lib/client/api';
 import { useCreateStudy } from '@/lib/client/studies';
-import { createStudySchema, type CreateStudyInput } from '@/lib/validations/study';
+import { createStudySchema, type CreateStudyInput } from '@/lib/shared/validations/study';
 
 export function NewStudyForm() {
   const router = useRouter();

@@ -10,7 +10,7 @@ import { TextArea, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ApiClientError } from '@/lib/client/api';
 import { studyKeys, useUpdateStudy } from '@/lib/client/studies';
-import { studySchema } from '@/lib/validations/study';
+import { studySchema } from '@/lib/shared/validations/study';
 import type { z } from 'zod';
 import { useStudyContext } from './study-context';
 

@@ -1,8 +1,8 @@
 'use client';
 
 import { createContext, useContext } from 'react';
-import type { Role } from '@/lib/auth/roles';
-import { roleAtLeast } from '@/lib/auth/roles';
+import type { Role } from '@/lib/shared/roles';
+import { roleAtLeast } from '@/lib/shared/roles';
 import type { StudyDto } from '@/lib/client/studies';
 
 export type StudyContextValue = { study: StudyDto; role: Role; can: (needed: Role) => boolean };

@@ -4,9 +4,9 @@ import Link from 'next/link';
 import { buttonClass } from '@/components/ui/button';
 import { QueryState } from '@/components/ui/query-state';
 import { Table, Td, Th } from '@/components/ui/table';
-import { ROLE_LABELS } from '@/lib/auth/roles';
+import { ROLE_LABELS } from '@/lib/shared/roles';
 import { useStudies } from '@/lib/client/studies';
-import { formatDateTime } from '@/lib/format';
+import { formatDateTime } from '@/lib/shared/format';
 
 export function StudyList() {
   const query = useStudies();

@@ -2,8 +2,8 @@
 
 import Link from 'next/link';
 import { usePathname } from 'next/navigation';
-import type { Role } from '@/lib/auth/roles';
-import { roleAtLeast } from '@/lib/auth/roles';
+import type { Role } from '@/lib/shared/roles';
+import { roleAtLeast } from '@/lib/shared/roles';
 
 /** The study's sections. A new feature page adds its entry here, with the least role that sees it. */
 export const studySections: Array<{ segment: string; label: string; minRole: Role }> = [

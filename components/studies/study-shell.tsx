@@ -4,7 +4,7 @@ import Link from 'next/link';
 import type { ReactNode } from 'react';
 import { QueryState } from '@/components/ui/query-state';
 import { Notice } from '@/components/ui/notice';
-import { ROLE_LABELS } from '@/lib/auth/roles';
+import { ROLE_LABELS } from '@/lib/shared/roles';
 import { ApiClientError } from '@/lib/client/api';
 import { useStudy } from '@/lib/client/studies';
 import { StudyContext, makeStudyContext } from './study-context';

@@ -9,7 +9,7 @@ import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ApiClientError } from '@/lib/client/api';
 import { useChangePassword } from '@/lib/client/team';
-import { passwordChangeFormSchema, type PasswordChangeFormInput } from '@/lib/validations/user';
+import { passwordChangeFormSchema, type PasswordChangeFormInput } from '@/lib/shared/validations/user';
 
 /**
  * Changing the password while signed in. The server ends every session (this one too), so on

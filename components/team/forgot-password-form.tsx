@@ -7,7 +7,7 @@ import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useRequestPasswordReset } from '@/lib/client/team';
-import { passwordResetRequestSchema, type PasswordResetRequestInput } from '@/lib/validations/team';
+import { passwordResetRequestSchema, type PasswordResetRequestInput } from '@/lib/shared/validations/team';
 
 /** Asks for a reset link. The answer never says whether the address has an account. */
 export function ForgotPasswordForm() {

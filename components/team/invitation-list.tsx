@@ -7,9 +7,9 @@ import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { Table, Td, Th } from '@/components/ui/table';
 import { useStudyContext } from '@/components/studies/study-context';
-import { ROLE_LABELS } from '@/lib/auth/roles';
+import { ROLE_LABELS } from '@/lib/shared/roles';
 import { useInvitations, useResendInvitation, useRevokeInvitation } from '@/lib/client/team';
-import { formatDateTime } from '@/lib/format';
+import { formatDateTime } from '@/lib/shared/format';
 
 /** Open invitations: owners resend (new link, new 7 days) or withdraw them. */
 export function InvitationList() {

@@ -7,9 +7,9 @@ import { AddressUnconfirmed } from '@/components/account/address-confirmation';
 import { Button, buttonClass } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
-import { ROLE_LABELS } from '@/lib/auth/roles';
+import { ROLE_LABELS } from '@/lib/shared/roles';
 import { useAcceptInvitation, useInvitationLink } from '@/lib/client/team';
-import type { InvitationLinkView } from '@/lib/services/invitations';
+import type { InvitationLinkView } from '@/lib/server/services/invitations';
 
 
 /**

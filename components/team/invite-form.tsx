@@ -9,10 +9,10 @@ import { Card } from '@/components/ui/card';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { useStudyContext } from '@/components/studies/study-context';
-import { ROLES, ROLE_LABELS } from '@/lib/auth/roles';
+import { ROLES, ROLE_LABELS } from '@/lib/shared/roles';
 import { ApiClientError } from '@/lib/client/api';
 import { useInvite } from '@/lib/client/team';
-import { invitationSchema, type InvitationInput } from '@/lib/validations/team';
+import { invitationSchema, type InvitationInput } from '@/lib/shared/validations/team';
 
 /** Owners invite an address with a role; the link goes out by e-mail and works once, for 7 days. */
 export function InviteForm({ mailboxEnabled }: { mailboxEnabled: boolean }) {

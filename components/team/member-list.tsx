@@ -8,10 +8,10 @@ import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { Table, Td, Th } from '@/components/ui/table';
 import { useStudyContext } from '@/components/studies/study-context';
-import { ROLES, ROLE_LABELS, type Role } from '@/lib/auth/roles';
+import { ROLES, ROLE_LABELS, type Role } from '@/lib/shared/roles';
 import { useMembers, type MemberDto } from '@/lib/client/studies';
 import { useChangeRole, useRemoveMember } from '@/lib/client/team';
-import { formatDateTime } from '@/lib/format';
+import { formatDateTime } from '@/lib/shared/format';
 
 /** One member's row: owners get a role menu and a remove button; everyone can leave on their own row. */
 function MemberRow({ member, currentUserId, onProblem }: { member: MemberDto; currentUserId: number; onProblem: (message: string | null) => void }) {

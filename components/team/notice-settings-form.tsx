@@ -6,7 +6,7 @@ import { Card } from '@/components/ui/card';
 import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { useNoticeSettings, useUpdateNoticeSettings } from '@/lib/client/team';
-import type { NoticeSettingsInput } from '@/lib/validations/team';
+import type { NoticeSettingsInput } from '@/lib/shared/validations/team';
 
 const OPTIONS: Array<{ key: keyof NoticeSettingsInput; label: string; hint: string }> = [
   { key: 'designFrozen', label: 'A design is frozen', hint: 'in any study you belong to, by someone other than you' },

@@ -8,7 +8,7 @@ import { TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { useCompletePasswordReset, useResetLink } from '@/lib/client/team';
-import { passwordResetFormSchema, type PasswordResetFormInput } from '@/lib/validations/team';
+import { passwordResetFormSchema, type PasswordResetFormInput } from '@/lib/shared/validations/team';
 
 /** Choosing a new password from a reset link; a link that cannot be used gets a clear message instead. */
 function ResetPasswordForm({ token, problem }: { token: string; problem: string | null }) {

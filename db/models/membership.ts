@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import { ROLES, type Role } from '@/lib/auth/roles';
+import { ROLES, type Role } from '@/lib/shared/roles';
 
 export class Membership extends Model<InferAttributes<Membership>, InferCreationAttributes<Membership>> {
   declare id: CreationOptional<number>;

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { DesignSpec, FrozenDesign, PriorValues } from '@/lib/validations/design';
+import type { DesignSpec, FrozenDesign, PriorValues } from '@/lib/shared/validations/planner';
 
 // Sequelize writes the column name (`field`) into each attribute object it is given, so every
 // attribute needs its own object: a shared constant would map designId onto study_id.

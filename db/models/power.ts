@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { PowerRunSpec, PowerStatus } from '@/lib/validations/power';
+import type { PowerRunSpec, PowerStatus } from '@/lib/shared/validations/power';
 
 /**
  * A saved power simulation of one frozen design version: its spec, progress (replicates done

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import { ROLES, type Role } from '@/lib/auth/roles';
+import { ROLES, type Role } from '@/lib/shared/roles';
 
 // Spread into each field: Sequelize writes column names into the definition objects it is given.
 const ID = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true };

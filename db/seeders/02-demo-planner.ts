@@ -1,6 +1,6 @@
 import type { Sequelize } from 'sequelize';
-import { contentHash } from '../../lib/canonical-json';
-import { designSpecSchema, frozenDesignSchema, priorSetSchema, type DesignSpec } from '../../lib/validations/design';
+import { contentHash } from '../../lib/shared/canonical-json';
+import { designSpecSchema, frozenDesignSchema, priorSetSchema, type DesignSpec } from '../../lib/shared/validations/planner';
 import { AuditEvent, Design, DesignVersion, Membership, PriorSet, Study, User } from '../models';
 import { demoAccounts } from './demo-accounts.mjs';
 import { DEMO_STUDY_NAME } from './01-demo-team';

@@ -1,7 +1,7 @@
 import type { Sequelize } from 'sequelize';
-import { contentHash } from '../../lib/canonical-json';
+import { contentHash } from '../../lib/shared/canonical-json';
 import { serveParticipant } from '../../lib/design';
-import { bankFor } from '../../lib/services/item-bank-plan';
+import { bankFor } from '../../lib/shared/item-bank-plan';
 import { DesignVersion, Membership, Participant, Study, User } from '../models';
 import { demoAccounts } from './demo-accounts.mjs';
 import { DEMO_STUDY_NAME } from './01-demo-team';

@@ -1,8 +1,8 @@
 import type { Sequelize } from 'sequelize';
 import { createPowerSimulator, POWER_ENGINE_VERSION } from '../../lib/design/power';
-import { buildScenario, runResult } from '../../lib/services/power-scenario';
-import { powerRunSpecSchema } from '../../lib/validations/power';
-import type { FrozenDesign } from '../../lib/validations/design';
+import { buildScenario, runResult } from '../../lib/shared/power-scenario';
+import { powerRunSpecSchema } from '../../lib/shared/validations/power';
+import type { FrozenDesign } from '../../lib/shared/validations/planner';
 import { AuditEvent, DesignVersion, Membership, PowerRun, Study, User } from '../models';
 import { demoAccounts } from './demo-accounts.mjs';
 import { DEMO_STUDY_NAME } from './01-demo-team';

@@ -1,6 +1,6 @@
 import type { Sequelize } from 'sequelize';
 import { AuditEvent, Invitation, Membership, Study, User } from '../models';
-import { newToken } from '../../lib/services/tokens';
+import { newToken } from '../../lib/server/auth/tokens';
 import { demoAccounts } from './demo-accounts.mjs';
 import { DEMO_STUDY_NAME } from './01-demo-team';
 

@@ -2,8 +2,8 @@
 
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { BankItem, RoundingReport } from '@/lib/design';
-import type { ApiKeyCreateInput } from '@/lib/validations/api-keys';
-import type { ExportOptions } from '@/lib/validations/item-bank';
+import type { ApiKeyCreateInput } from '@/lib/shared/validations/api-keys';
+import type { ExportOptions } from '@/lib/shared/validations/item-bank';
 import { ApiClientError, apiFetch } from './api';
 
 export type FrozenVersionDto = { id: number; number: number; hash: string; designName: string; mode: 'personalised' | 'population'; currency: string; frozenAt: string };

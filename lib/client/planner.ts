@@ -1,9 +1,9 @@
 'use client';
 
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { DesignSummary } from '@/lib/planner/types';
-import type { PilotIssue } from '@/lib/planner/pilot-csv';
-import type { DesignSpec, FrozenDesign, PriorSetInput, PriorValues } from '@/lib/validations/design';
+import type { DesignSummary } from '@/lib/shared/planner/types';
+import type { PilotIssue } from '@/lib/shared/planner/pilot-csv';
+import type { DesignSpec, FrozenDesign, PriorSetInput, PriorValues } from '@/lib/shared/validations/planner';
 import { apiFetch } from './api';
 
 export type PriorSetDto = { id: number; name: string; values: PriorValues; source: 'manual' | 'pilot'; notes: string; version: number; createdAt: string; updatedAt: string };

@@ -1,8 +1,8 @@
 'use client';
 
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { PowerRunDto } from '@/lib/services/power-runs';
-import type { PowerRunSpecInput } from '@/lib/validations/power';
+import type { PowerRunDto } from '@/lib/server/services/power-runs';
+import type { PowerRunSpecInput } from '@/lib/shared/validations/power';
 import { apiFetch } from './api';
 
 export type { PowerRunDto };

@@ -1,8 +1,8 @@
 'use client';
 
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { Role } from '@/lib/auth/roles';
-import type { CreateStudyInput, UpdateStudyInput } from '@/lib/validations/study';
+import type { Role } from '@/lib/shared/roles';
+import type { CreateStudyInput, UpdateStudyInput } from '@/lib/shared/validations/study';
 import { apiFetch } from './api';
 
 export type StudyDto = { id: number; name: string; description: string; version: number; createdAt: string; updatedAt: string };

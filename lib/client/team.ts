@@ -1,10 +1,10 @@
 'use client';
 
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { Role } from '@/lib/auth/roles';
-import type { InvitationInput, NoticeSettingsInput, PasswordResetInput } from '@/lib/validations/team';
-import type { PasswordChangeInput } from '@/lib/validations/user';
-import type { InvitationLinkView } from '@/lib/services/invitations';
+import type { Role } from '@/lib/shared/roles';
+import type { InvitationInput, NoticeSettingsInput, PasswordResetInput } from '@/lib/shared/validations/team';
+import type { PasswordChangeInput } from '@/lib/shared/validations/user';
+import type { InvitationLinkView } from '@/lib/server/services/invitations';
 import { apiFetch } from './api';
 import { studyKeys } from './studies';
 

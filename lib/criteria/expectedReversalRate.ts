@@ -1,6 +1,4 @@
-import type { RatePoints } from '@/lib/design';
-import { discountAt } from '@/lib/design/discountFactor';
-import { probabilityLarger } from '@/lib/design/choiceProbability';
+import { discountAt, probabilityLarger, type RatePoints } from '@/lib/design';
 import { checkChoiceModel, checkPoints, checkSetting, type ChoiceModel, type PairSetting } from './pairSetting';
 
 /**

@@ -1,5 +1,4 @@
-import { DesignInputError } from '@/lib/design';
-import { discountAt } from '@/lib/design/discountFactor';
+import { DesignInputError, discountAt } from '@/lib/design';
 import { checkSetting, type PairSetting } from './pairSetting';
 
 /**

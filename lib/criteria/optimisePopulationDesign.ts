@@ -1,5 +1,4 @@
-import { DesignInputError, maximiseBrent, type ChoiceModel, type ModelSpec, type RatePoints } from '@/lib/design';
-import { checkInteger, checkModel, checkRatio } from '@/lib/design/validate';
+import { checkInteger, checkModel, checkRatio, DesignInputError, maximiseBrent, type ChoiceModel, type ModelSpec, type RatePoints } from '@/lib/design';
 import { expectedReversalRate } from './expectedReversalRate';
 import { gapProduct } from './gapProduct';
 import { maximinGap } from './maximinGap';

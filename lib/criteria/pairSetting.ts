@@ -1,5 +1,4 @@
-import { checkChoiceModel, DesignInputError, type ChoiceModel, type ModelSpec, type RatePoints } from '@/lib/design';
-import { checkDelay, checkLateDelay, checkModel, checkRatio } from '@/lib/design/validate';
+import { checkChoiceModel, checkDelay, checkLateDelay, checkModel, checkRatio, DesignInputError, type ChoiceModel, type ModelSpec, type RatePoints } from '@/lib/design';
 
 /** A question pair's design settings, without the rates (they come from a prior). */
 export type PairSetting = { model: ModelSpec; ratio: number; soonDelay: number; lateDelay: number };

@@ -1,5 +1,4 @@
-import { checkPrior, DesignInputError, type RatePrior } from '@/lib/design';
-import { checkInteger } from '@/lib/design/validate';
+import { checkInteger, checkPrior, DesignInputError, type RatePrior } from '@/lib/design';
 
 /**
  * Rate scenarios that stand for a prior in the maximin criterion: the median pair plus `count`

@@ -2,7 +2,7 @@
 export type { ModelId, ModelSpec, PairInput, QuestionPair, ChoicePattern } from './types';
 export { MODEL_IDS } from './types';
 export { DesignInputError } from './DesignInputError';
-export { discountFactor } from './discountFactor';
+export { discountFactor, discountAt } from './discountFactor';
 export { preferenceGaps, type PreferenceGaps } from './preferenceGaps';
 export { predictPattern } from './predictPattern';
 export { reversalZone, type ReversalZone } from './reversalZone';
@@ -16,10 +16,14 @@ export { gaussHermite, type QuadratureRule } from './gaussHermite';
 export { priorPoints, checkPrior, type RatePrior, type RatePoints, type PriorPointsOptions } from './ratePrior';
 export { fitPrior } from './fitPrior';
 export { reversibleShare } from './reversibleShare';
-export { choiceProbability, checkChoiceModel, type ChoiceModel } from './choiceProbability';
+export { choiceProbability, checkChoiceModel, probabilityLarger, type ChoiceModel } from './choiceProbability';
+export { designChoiceModel, DEFAULT_CHOICE_SENSITIVITY, CHOICE_SENSITIVITY_UNIT } from './designChoiceModel';
 export { indifferenceRate, type ChoiceItem } from './indifferenceRate';
 export { calibrationItems, type CalibrationItem, type CalibrationOptions, type Magnitude } from './calibrationItems';
 export { extrapolationWarning, type ExtrapolationWarning } from './extrapolationWarning';
 export { estimateRates, type Choice, type EstimateFlag, type EstimateOptions, type RateEstimate, type RateEstimates } from './estimateRates';
+// Argument checks shared with lib/criteria, so both halves of the core refuse bad input with the same words.
+export { checkDelay, checkInteger, checkLateDelay, checkModel, checkRatio } from './validate';
 export * from './power';
 export * from './item-bank';
+export * from './analysis';

@@ -1,6 +1,6 @@
 import { discountAt } from './discountFactor';
 import { exponentialPowerDerivatives, hyperboloidDerivatives, powerDelayDerivatives, storeDerivatives } from './discountDerivatives';
-import type { LateDelayOptimum } from './optimiseLateDelay';
+import type { LateDelayOptimum } from './types';
 
 /** The models whose optimal late delay has no closed form. */
 export type NumericalModelId = 'hyperboloid' | 'power-delay' | 'exponential-power';

@@ -1,9 +1,8 @@
 import { numericalOptimum } from './numericalOptimum';
 import { checkPairInput } from './validate';
-import type { PairInput } from './types';
+import type { LateDelayOptimum, PairInput } from './types';
 
-/** The reversal zone and the late delay (days) inside it with the largest gap product A·B. */
-export type LateDelayOptimum = { lower: number; upper: number; lateDelay: number; gapProduct: number };
+export type { LateDelayOptimum } from './types';
 
 /**
  * The late delay D* that maximises the gap product C(D) = A(D)·B(D) inside the reversal zone.

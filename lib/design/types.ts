@@ -43,3 +43,6 @@ export const MODEL_IDS: readonly ModelId[] = [
   'exponential-power',
   'quasi-hyperbolic',
 ];
+
+/** The reversal zone and the late delay (days) inside it with the largest gap product A·B. */
+export type LateDelayOptimum = { lower: number; upper: number; lateDelay: number; gapProduct: number };

@@ -11,9 +11,9 @@ import { POST as resetRoute } from '@/app/api/password-reset/route';
 import { POST as inviteRoute } from '@/app/api/studies/[id]/invitations/route';
 import { POST as signUpRoute } from '@/app/api/users/route';
 import { AuditEvent, EmailConfirmationToken, User } from '@/db/models';
-import { verifyCredentials } from '@/lib/auth/credentials';
+import { verifyCredentials } from '@/lib/server/auth/credentials';
 import { PEER_HEADER, setPeerHeaderStamped } from '@/lib/server/auth/client-address';
-import { hashToken } from '@/lib/services/tokens';
+import { hashToken } from '@/lib/server/auth/tokens';
 import { ctx, makeStudyWithTeam, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
 import { linkIn, startTestMailbox, tokenOf, type TestMailbox } from '../support/mail';
 

@@ -4,8 +4,8 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { PUT as changeRoute } from '@/app/api/account/password/route';
 import { GET as listStudiesRoute } from '@/app/api/studies/route';
 import { AuditEvent, PasswordResetToken } from '@/db/models';
-import { TOO_MANY_ATTEMPTS, verifyCredentials } from '@/lib/auth/credentials';
-import { newToken } from '@/lib/services/tokens';
+import { TOO_MANY_ATTEMPTS, verifyCredentials } from '@/lib/server/auth/credentials';
+import { newToken } from '@/lib/server/auth/tokens';
 import { ctx, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
 
 beforeAll(migrateUp);

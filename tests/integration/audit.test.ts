@@ -7,13 +7,13 @@ import { GET as csvRoute } from '@/app/api/studies/[id]/audit/csv/route';
 import { PATCH as patchMemberRoute } from '@/app/api/studies/[id]/members/[userId]/route';
 import { POST as inviteRoute } from '@/app/api/studies/[id]/invitations/route';
 import { AuditEvent, Invitation, Membership, User } from '@/db/models';
-import { recordAudit } from '@/lib/services/audit';
+import { recordAudit } from '@/lib/server/services/audit';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
 
 // Lets a test make the audit write itself fail, to prove the change it describes is rolled back.
 const failAudit = vi.hoisted(() => ({ on: false }));
-vi.mock('@/lib/services/audit', async (importOriginal) => {
-  const original = await importOriginal<typeof import('@/lib/services/audit')>();
+vi.mock('@/lib/server/services/audit', async (importOriginal) => {
+  const original = await importOriginal<typeof import('@/lib/server/services/audit')>();
   return {
     recordAudit: (...args: Parameters<typeof original.recordAudit>) =>
       failAudit.on ? original.recordAudit({ ...args[0], action: 'x'.repeat(200) }, args[1]) : original.recordAudit(...args),

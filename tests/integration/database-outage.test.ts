@@ -1,8 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { GET as health } from '@/app/api/health/route';
 import { GET as listStudies } from '@/app/api/studies/route';
-import { startDatabase, stopDatabase } from '@/db/server.mjs';
-import { handleProbeItems } from '@/lib/services/probe-endpoint';
+import { startDatabase, stopDatabase } from '@/scripts/mariadb.mjs';
+import { handleProbeItems } from '@/lib/server/http/probe-endpoint';
 import { ctx, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
 
 let user: TestUser;

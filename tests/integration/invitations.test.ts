@@ -10,8 +10,8 @@ import { POST as signUpRoute } from '@/app/api/users/route';
 import { GET as getStudyRoute } from '@/app/api/studies/[id]/route';
 import { POST as confirmRoute } from '@/app/api/email-confirmation/route';
 import { AuditEvent, Invitation, Membership, User } from '@/db/models';
-import { hashToken } from '@/lib/services/tokens';
-import { inspectInvitation } from '@/lib/services/invitations';
+import { hashToken } from '@/lib/server/auth/tokens';
+import { inspectInvitation } from '@/lib/server/services/invitations';
 import { ctx, makeStudyWithTeam, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
 import { linkIn, startTestMailbox, tokenOf, type TestMailbox } from '../support/mail';
 

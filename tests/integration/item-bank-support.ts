@@ -1,8 +1,8 @@
 // Frozen design versions for the item-bank and probe-API tests, created directly (content valid
 // per frozenDesignSchema, hash by contentHash), the way the planner's freeze would store them.
 import { Design, DesignVersion } from '@/db/models';
-import { contentHash } from '@/lib/canonical-json';
-import type { FrozenDesign } from '@/lib/validations/design';
+import { contentHash } from '@/lib/shared/canonical-json';
+import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import { design as unitDesign } from '../unit/item-bank/fixtures';
 
 export function demoContent(overrides: Partial<FrozenDesign['spec']> = {}): FrozenDesign {

@@ -5,9 +5,9 @@ import { POST as requestRoute } from '@/app/api/password-reset/route';
 import { POST as completeRoute } from '@/app/api/password-reset/complete/route';
 import { GET as listStudiesRoute } from '@/app/api/studies/route';
 import { AuditEvent, PasswordResetToken } from '@/db/models';
-import { verifyCredentials } from '@/lib/auth/credentials';
-import { hashToken } from '@/lib/services/tokens';
-import { inspectResetToken } from '@/lib/services/password-reset';
+import { verifyCredentials } from '@/lib/server/auth/credentials';
+import { hashToken } from '@/lib/server/auth/tokens';
+import { inspectResetToken } from '@/lib/server/services/password-reset';
 import { ctx, makeUser, migrateUp, requestAs } from '../support/integration';
 import { linkIn, startTestMailbox, tokenOf, type TestMailbox } from '../support/mail';
 

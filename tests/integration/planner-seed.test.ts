@@ -3,7 +3,7 @@ import { db } from '@/db';
 import { AuditEvent, Design, DesignVersion, PriorSet, Study } from '@/db/models';
 import { DEMO_STUDY_NAME, seed as seedTeam } from '@/db/seeders/01-demo-team';
 import { DEMO_DESIGN_NAMES, DEMO_PRIOR_NAME, seed as seedPlanner } from '@/db/seeders/02-demo-planner';
-import { contentHash } from '@/lib/canonical-json';
+import { contentHash } from '@/lib/shared/canonical-json';
 import { migrateUp } from '../support/integration';
 
 beforeAll(migrateUp);

@@ -10,10 +10,10 @@ import { GET as listComments, POST as postComment } from '@/app/api/studies/[id]
 import { GET as listVersions } from '@/app/api/studies/[id]/design-versions/route';
 import { GET as getVersion } from '@/app/api/studies/[id]/design-versions/[versionId]/route';
 import { AuditEvent, DesignVersion } from '@/db/models';
-import { contentHash } from '@/lib/canonical-json';
-import { freezeDesign } from '@/lib/services/designs';
-import { defaultSpec } from '@/lib/planner/design-form-values';
-import { computeDesignSummary } from '@/lib/planner/summary';
+import { contentHash } from '@/lib/shared/canonical-json';
+import { freezeDesign } from '@/lib/server/services/planner-designs';
+import { defaultSpec } from '@/lib/shared/planner/design-form-values';
+import { computeDesignSummary } from '@/lib/shared/planner/summary';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs, type TestUser } from '../support/integration';
 
 beforeAll(migrateUp);

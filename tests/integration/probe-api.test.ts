@@ -8,8 +8,8 @@ import { POST as createKey } from '@/app/api/studies/[id]/api-keys/route';
 import { DELETE as revokeKey } from '@/app/api/studies/[id]/api-keys/[keyId]/route';
 import { GET as listParticipants } from '@/app/api/studies/[id]/participants/route';
 import { POST as batch } from '@/app/api/studies/[id]/participants/batch/route';
-import { bankFor } from '@/lib/services/item-bank-plan';
-import { probeRateLimiter } from '@/lib/services/item-bank-rate-limit';
+import { bankFor } from '@/lib/shared/item-bank-plan';
+import { probeRateLimiter } from '@/lib/server/http/key-rate-limit';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs, type TestUser } from '../support/integration';
 import { answersOf, makeFrozenVersion } from './item-bank-support';
 

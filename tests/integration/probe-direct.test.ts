@@ -8,9 +8,9 @@ import { Participant } from '@/db/models';
 import { POST as probeRoute } from '@/app/api/v1/studies/[id]/probe-items/route';
 import { POST as createKey } from '@/app/api/studies/[id]/api-keys/route';
 import { DELETE as revokeKey } from '@/app/api/studies/[id]/api-keys/[keyId]/route';
-import { answerDirect } from '@/lib/server/direct-api';
-import { bankFor } from '@/lib/services/item-bank-plan';
-import { handleProbeItems } from '@/lib/services/probe-endpoint';
+import { answerDirect } from '@/lib/server/http/direct-api';
+import { bankFor } from '@/lib/shared/item-bank-plan';
+import { handleProbeItems } from '@/lib/server/http/probe-endpoint';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
 import { answersOf, makeFrozenVersion } from './item-bank-support';
 

@@ -5,8 +5,8 @@ import { readdirSync, statSync } from 'node:fs';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { apiPermissions, type Access, type Method } from '@/lib/auth/permissions';
-import { ROLES, roleAtLeast, type Role } from '@/lib/auth/roles';
+import { apiPermissions, type Access, type Method } from '@/lib/server/auth/permissions';
+import { ROLES, roleAtLeast, type Role } from '@/lib/shared/roles';
 import { ctx, makeStudyWithTeam, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
 
 const METHODS: Method[] = ['GET', 'POST', 'PUT', 'PATCH', 'DELETE'];
@@ -61,7 +61,7 @@ describe('the permission matrix', () => {
       const mod = (await import(pathToFileURL(file).href)) as Record<string, unknown>;
       const exported = METHODS.filter((m) => typeof mod[m] === 'function');
       const entry = apiPermissions[pattern];
-      expect(entry, `${pattern} has no entry in lib/auth/permissions.ts`).toBeDefined();
+      expect(entry, `${pattern} has no entry in lib/server/auth/permissions.ts`).toBeDefined();
       expect(Object.keys(entry ?? {}).sort()).toEqual([...exported].sort());
     });
   }

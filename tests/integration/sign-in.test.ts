@@ -1,5 +1,5 @@
 import { beforeAll, describe, expect, it } from 'vitest';
-import { verifyCredentials, TOO_MANY_ATTEMPTS } from '@/lib/auth/credentials';
+import { verifyCredentials, TOO_MANY_ATTEMPTS } from '@/lib/server/auth/credentials';
 import { POST as signUp } from '@/app/api/users/route';
 import { ctx, makeUser, migrateUp, requestAs } from '../support/integration';
 

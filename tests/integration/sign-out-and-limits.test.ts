@@ -5,10 +5,10 @@ import type { JWT } from 'next-auth/jwt';
 import { PUT as changeRoute } from '@/app/api/account/password/route';
 import { GET as listStudiesRoute } from '@/app/api/studies/route';
 import { EndedSession, User } from '@/db/models';
-import { TOO_MANY_ATTEMPTS, verifyCredentials } from '@/lib/auth/credentials';
-import { authOptions } from '@/lib/auth/options';
+import { TOO_MANY_ATTEMPTS, verifyCredentials } from '@/lib/server/auth/credentials';
+import { authOptions } from '@/lib/server/auth/options';
 import { PEER_HEADER, setPeerHeaderStamped } from '@/lib/server/auth/client-address';
-import { hashToken } from '@/lib/services/tokens';
+import { hashToken } from '@/lib/server/auth/tokens';
 import { ctx, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
 
 beforeAll(migrateUp);

@@ -3,9 +3,9 @@
 // creating one record per item, and the statuses read from participants + participant_sessions.
 import { beforeAll, describe, expect, it } from 'vitest';
 import { Participant, ParticipantSession, Stage2Answer, Study } from '@/db/models';
-import { ApiError } from '@/lib/api/errors';
-import { bankFor } from '@/lib/services/item-bank-plan';
-import { serveProbeItems, type ProbeItemsReply } from '@/lib/services/participants';
+import { ApiError } from '@/lib/server/errors';
+import { bankFor } from '@/lib/shared/item-bank-plan';
+import { serveProbeItems, type ProbeItemsReply } from '@/lib/server/services/participants';
 import { countByStatus, listSessionStatuses, sessionState } from '@/lib/server/services/session-status';
 import { recordStage2Answers, type Stage2AnswerInput } from '@/lib/server/services/stage2-answers';
 import { makeStudyWithTeam, migrateUp } from '../support/integration';

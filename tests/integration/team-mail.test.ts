@@ -5,8 +5,8 @@ import os from 'node:os';
 import path from 'node:path';
 import nodemailer from 'nodemailer';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { listMailbox, mailboxDir } from '@/lib/mail/mailbox';
-import { sendMail, MailNotConfiguredError } from '@/lib/mail/transport';
+import { listMailbox, mailboxDir } from '@/lib/server/mail/mailbox';
+import { sendMail, MailNotConfiguredError } from '@/lib/server/mail/transport';
 import { startFakeSmtp, type FakeSmtp } from '@/scripts/fake-smtp.mjs';
 
 let smtp: FakeSmtp;

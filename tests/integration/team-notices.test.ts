@@ -7,8 +7,8 @@ import { POST as createDesign } from '@/app/api/studies/[id]/designs/route';
 import { POST as freeze } from '@/app/api/studies/[id]/designs/[designId]/freeze/route';
 import { POST as startRun } from '@/app/api/studies/[id]/power-runs/route';
 import { PowerRun } from '@/db/models';
-import { defaultSpec } from '@/lib/planner/design-form-values';
-import { notifyDesignFrozen, notifyPowerRunFinished } from '@/lib/services/notices';
+import { defaultSpec } from '@/lib/shared/planner/design-form-values';
+import { notifyDesignFrozen, notifyPowerRunFinished } from '@/lib/server/services/notices';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs, type TestUser } from '../support/integration';
 import { startTestMailbox, type TestMailbox } from '../support/mail';
 

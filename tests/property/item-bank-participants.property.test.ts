@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { createRandom, predictPattern, serveParticipant, type BankItem } from '@/lib/design';
-import { bankFor } from '@/lib/services/item-bank-plan';
+import { bankFor } from '@/lib/shared/item-bank-plan';
 import { design, HASH } from '../unit/item-bank/fixtures';
 
 // A fine calibration block (40 items per magnitude: neighbouring tie rates ~13 % apart) so a

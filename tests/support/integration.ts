@@ -7,7 +7,7 @@ import { NextRequest } from 'next/server';
 import { db } from '@/db';
 import { createMigrator } from '@/db/migrator';
 import { Membership, Study, User } from '@/db/models';
-import type { Role } from '@/lib/auth/roles';
+import type { Role } from '@/lib/shared/roles';
 
 export const BASE = 'http://127.0.0.1:3100';
 

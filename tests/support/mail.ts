@@ -4,7 +4,7 @@ import { mkdtemp, rm } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
 import { startFakeSmtp } from '@/scripts/fake-smtp.mjs';
-import { listMailbox, type MailboxMessage } from '@/lib/mail/mailbox';
+import { listMailbox, type MailboxMessage } from '@/lib/server/mail/mailbox';
 
 export type TestMailbox = {
   url: string;

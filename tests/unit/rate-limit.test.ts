@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { FailureLimiter } from '@/lib/auth/rate-limit';
+import { FailureLimiter } from '@/lib/server/auth/rate-limit';
 
 describe('the sign-in failure limiter', () => {
   it('blocks at the limit and forgets failures once they leave the window', () => {

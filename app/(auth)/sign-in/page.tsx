@@ -1,7 +1,7 @@
 import type { Metadata } from 'next';
 import { redirect } from 'next/navigation';
 import { SignInForm } from '@/components/auth/sign-in-form';
-import { getPageUser } from '@/lib/auth/session';
+import { getPageUser } from '@/lib/server/auth/session';
 
 export const metadata: Metadata = { title: 'Sign in' };
 

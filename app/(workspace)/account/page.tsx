@@ -3,8 +3,8 @@ import { redirect } from 'next/navigation';
 import { AddressUnconfirmed } from '@/components/account/address-confirmation';
 import { ChangePasswordForm } from '@/components/team/change-password-form';
 import { NoticeSettingsForm } from '@/components/team/notice-settings-form';
-import { getPageUser } from '@/lib/auth/session';
-import { mailboxDir } from '@/lib/mail/mailbox';
+import { getPageUser } from '@/lib/server/auth/session';
+import { mailboxDir } from '@/lib/server/mail/mailbox';
 
 export const metadata: Metadata = { title: 'Account' };
 

@@ -1,7 +1,7 @@
 import type { Metadata } from 'next';
 import { notFound } from 'next/navigation';
 import { MailboxView } from '@/components/mail/mailbox-view';
-import { mailboxDir } from '@/lib/mail/mailbox';
+import { mailboxDir } from '@/lib/server/mail/mailbox';
 
 export const metadata: Metadata = { title: 'Mailbox' };
 // Read the setting on every request: switching SMTP_URL must not need a rebuild.

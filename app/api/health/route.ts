@@ -1,6 +1,6 @@
 import { NextResponse } from 'next/server';
 import { db } from '@/db';
-import { isDatabaseUnavailable } from '@/lib/server/db-errors';
+import { isDatabaseUnavailable } from '@/lib/server/http/db-errors';
 
 export const dynamic = 'force-dynamic';
 

@@ -1,7 +1,7 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { requireUser } from '@/lib/auth/session';
-import { listMailbox, mailboxDir } from '@/lib/mail/mailbox';
+import { route } from '@/lib/server/http/handler';
+import { requireUser } from '@/lib/server/auth/session';
+import { listMailbox, mailboxDir } from '@/lib/server/mail/mailbox';
 
 /**
  * Messages the local test mail server kept that were addressed to the signed-in user, newest

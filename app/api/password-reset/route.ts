@@ -1,8 +1,8 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { RESET_REQUEST_ANSWER, requestPasswordReset } from '@/lib/services/password-reset';
-import { passwordResetRequestSchema } from '@/lib/validations/team';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { RESET_REQUEST_ANSWER, requestPasswordReset } from '@/lib/server/services/password-reset';
+import { passwordResetRequestSchema } from '@/lib/shared/validations/team';
 
 /**
  * Asks for a reset link. The answer is the same, and as quick, whether or not the address has an

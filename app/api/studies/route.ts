@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { requireUser } from '@/lib/auth/session';
-import { createStudySchema } from '@/lib/validations/study';
-import { createStudy, listStudies, studyJson } from '@/lib/services/studies';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { requireUser } from '@/lib/server/auth/session';
+import { createStudySchema } from '@/lib/shared/validations/study';
+import { createStudy, listStudies, studyJson } from '@/lib/server/services/studies';
 
 export const GET = route(async (request) => {
   const user = await requireUser(request);

@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
 import { clientAddress } from '@/lib/server/auth/client-address';
-import { signUpSchema } from '@/lib/validations/user';
-import { SIGN_UP_ANSWER, signUp } from '@/lib/services/users';
+import { signUpSchema } from '@/lib/shared/validations/user';
+import { SIGN_UP_ANSWER, signUp } from '@/lib/server/services/users';
 
 /**
  * Sign-up. The answer is the same whether or not the address already had an account (the client

@@ -1,5 +1,5 @@
 import { BlockList, isIPv4, isIPv6 } from 'node:net';
-import { serverEnv } from '@/lib/env';
+import { serverEnv } from '@/lib/server/env';
 
 /**
  * The header in which scripts/serve.mjs hands Next the address of the connection. It overwrites

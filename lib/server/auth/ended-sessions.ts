@@ -2,7 +2,7 @@ import type { JWT } from 'next-auth/jwt';
 import { Op } from 'sequelize';
 import { EndedSession, User } from '@/db/models';
 import { db } from '@/db';
-import { hashToken } from '@/lib/services/tokens';
+import { hashToken } from '@/lib/server/auth/tokens';
 
 const FALLBACK_LIFETIME_MS = 7 * 24 * 60 * 60 * 1000;
 

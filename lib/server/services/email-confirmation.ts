@@ -1,13 +1,13 @@
 import { Op, type Transaction } from 'sequelize';
 import { EmailConfirmationToken, User } from '@/db/models';
 import { db } from '@/db';
-import { ApiError, ConflictError } from '@/lib/api/errors';
-import { FailureLimiter } from '@/lib/auth/rate-limit';
-import { appLink } from '@/lib/mail/links';
-import { addressConfirmationMessage } from '@/lib/mail/templates';
-import { queueMail } from '@/lib/mail/transport';
-import { recordAudit } from '@/lib/services/audit';
-import { hashToken, newToken } from '@/lib/services/tokens';
+import { ApiError, ConflictError } from '@/lib/server/errors';
+import { FailureLimiter } from '@/lib/server/auth/rate-limit';
+import { appLink } from '@/lib/server/mail/links';
+import { addressConfirmationMessage } from '@/lib/server/mail/templates';
+import { queueMail } from '@/lib/server/mail/transport';
+import { recordAudit } from '@/lib/server/services/audit';
+import { hashToken, newToken } from '@/lib/server/auth/tokens';
 
 export const CONFIRMATION_HOURS = 48;
 

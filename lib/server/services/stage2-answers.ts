@@ -1,6 +1,6 @@
 import { rawQuery } from '@/db';
 import type { AnswerSource } from '@/db/models/session';
-import { ConflictError, ValidationError } from '@/lib/api/errors';
+import { ConflictError, ValidationError } from '@/lib/server/errors';
 
 /** One answer to one served stage-2 item, as every writer hands it in. */
 export type Stage2AnswerInput = {

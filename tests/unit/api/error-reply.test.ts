@@ -2,11 +2,11 @@
 // production server's direct probe-items path (handleProbeItems).
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { z } from 'zod';
-import { errorReply } from '@/lib/api/error-reply';
-import { ApiError, ValidationError } from '@/lib/api/errors';
-import { errorResponse } from '@/lib/api/handler';
-import { parseJsonText } from '@/lib/api/read-json';
-import { probeItemsStudyId } from '@/lib/server/direct-api';
+import { errorReply } from '@/lib/server/http/error-reply';
+import { ApiError, ValidationError } from '@/lib/server/errors';
+import { errorResponse } from '@/lib/server/http/handler';
+import { parseJsonText } from '@/lib/server/http/read-json';
+import { probeItemsStudyId } from '@/lib/server/http/direct-api';
 
 afterEach(() => vi.restoreAllMocks());
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { neutraliseCell, neutraliseRows, restoreCell } from '@/lib/csv-safety';
+import { neutraliseCell, neutraliseRows, restoreCell } from '@/lib/shared/csv/formula-guard';
 
 // Cases from OWASP's "CSV Injection" page (from memory): cells starting with = + - @ tab or CR.
 describe('formula-injection neutralising', () => {

@@ -1,9 +1,9 @@
 import Papa from 'papaparse';
 import { describe, expect, it } from 'vitest';
-import { restoreCell } from '@/lib/csv-safety';
+import { restoreCell } from '@/lib/shared/csv/formula-guard';
 import { amountText, amountUnit, delayText, predictPattern, type BankItem } from '@/lib/design';
-import { ITEM_COLUMNS, itemsCsv } from '@/lib/services/item-bank';
-import { bankFor } from '@/lib/services/item-bank-plan';
+import { ITEM_COLUMNS, itemsCsv } from '@/lib/server/services/item-bank';
+import { bankFor } from '@/lib/shared/item-bank-plan';
 import { design, HASH } from './fixtures';
 
 const NULLABLE = new Set(['view', 'pairId', 'magnitude']);

@@ -1,5 +1,5 @@
 // A frozen design for the pure item-bank tests (valid per frozenDesignSchema).
-import { frozenDesignSchema, type FrozenDesign } from '@/lib/validations/design';
+import { frozenDesignSchema, type FrozenDesign } from '@/lib/shared/validations/planner';
 
 export function design(spec: Partial<FrozenDesign['spec']> = {}, prior: Partial<FrozenDesign['prior']> = {}): FrozenDesign {
   return frozenDesignSchema.parse({

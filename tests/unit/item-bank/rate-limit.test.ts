@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { KeyRateLimiter } from '@/lib/services/item-bank-rate-limit';
+import { KeyRateLimiter } from '@/lib/server/http/key-rate-limit';
 
 describe('per-key token buckets of the probe-items API', () => {
   it('lets a key burst up to its capacity, then asks it to wait, and refills with time', () => {

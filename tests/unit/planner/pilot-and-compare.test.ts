@@ -1,10 +1,10 @@
 import * as ss from 'simple-statistics';
 import { describe, expect, it } from 'vitest';
-import { bestOf, compareRows, robustness } from '@/lib/planner/compare';
-import { defaultSpec } from '@/lib/planner/design-form-values';
-import { fitPilotCsv } from '@/lib/planner/pilot-csv';
-import { computeDesignSummary } from '@/lib/planner/summary';
-import type { PriorValues } from '@/lib/validations/design';
+import { bestOf, compareRows, robustness } from '@/lib/shared/planner/compare';
+import { defaultSpec } from '@/lib/shared/planner/design-form-values';
+import { fitPilotCsv } from '@/lib/shared/planner/pilot-csv';
+import { computeDesignSummary } from '@/lib/shared/planner/summary';
+import type { PriorValues } from '@/lib/shared/validations/planner';
 
 describe('pilot uploads', () => {
   const rows = [

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { canonicalJson, contentHash } from '@/lib/canonical-json';
+import { canonicalJson, contentHash } from '@/lib/shared/canonical-json';
 import { createHash } from 'node:crypto';
-import { defaultSpec, designFormSchema, toForm, toSpec } from '@/lib/planner/design-form-values';
-import { commentSchema, designSpecSchema, designUpdateSchema, frozenDesignSchema, priorSetSchema, priorSetUpdateSchema, type DesignSpec } from '@/lib/validations/design';
+import { defaultSpec, designFormSchema, toForm, toSpec } from '@/lib/shared/planner/design-form-values';
+import { commentSchema, designSpecSchema, designUpdateSchema, frozenDesignSchema, priorSetSchema, priorSetUpdateSchema, type DesignSpec } from '@/lib/shared/validations/planner';
 
 const population: DesignSpec = {
   ...defaultSpec('Population check', 3),

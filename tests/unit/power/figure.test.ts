@@ -1,6 +1,6 @@
 // The power figure's legend sits in a corner the curves leave free, whatever shape the curve has.
 import { describe, expect, it } from 'vitest';
-import { powerCurveSvg, type PowerSeries } from '@/lib/figures/power-curve';
+import { powerCurveSvg, type PowerSeries } from '@/lib/shared/figures/power-curve';
 
 const ns = [20, 40, 60, 80, 100, 120, 140, 160, 180, 200];
 const series = (label: string, power: (n: number) => number): PowerSeries => ({
@@ -34,5 +34,17 @@ describe('power figure legend', () => {
     expect(box.y).toBeGreaterThan(60);
     expect(box.y + box.height).toBeLessThan(320);
     expect(svg).toContain('misspecified');
+  });
+});
+
+describe('warnings under the figure', () => {
+  it('prints each note below the caption and grows the figure by a line per note, keeping the plot', () => {
+    const plain = powerCurveSvg([series('A', (n) => n / 250)]);
+    const noted = powerCurveSvg([series('A', (n) => n / 250)], { notes: ['Pooled McNemar test assumes independent pairs.'] });
+    expect(plain).toContain('viewBox="0 0 650 420"');
+    expect(noted).toContain('viewBox="0 0 650 435"');
+    expect(noted).toContain('height="4.35in"');
+    expect(noted).toContain('>Pooled McNemar test assumes independent pairs.</text>');
+    expect(legendBox(noted)).toEqual(legendBox(plain));
   });
 });

@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { freeText, hasControlCharacter, hasLoneSurrogate, nameText } from '@/lib/shared/validations/text';
-import { studySchema } from '@/lib/validations/study';
-import { signUpSchema } from '@/lib/validations/user';
-import { apiKeyCreateSchema } from '@/lib/validations/api-keys';
-import { commentSchema, priorSetSchema } from '@/lib/validations/design';
+import { studySchema } from '@/lib/shared/validations/study';
+import { signUpSchema } from '@/lib/shared/validations/user';
+import { apiKeyCreateSchema } from '@/lib/shared/validations/api-keys';
+import { commentSchema, priorSetSchema } from '@/lib/shared/validations/planner';
 
 const name = nameText({ label: 'The name', min: 2, max: 20 });
 

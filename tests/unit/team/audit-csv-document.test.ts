@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import Papa from 'papaparse';
-import { neutraliseCell, toSafeCsv } from '@/lib/csv-safety';
+import { neutraliseCell, toSafeCsv } from '@/lib/shared/csv/formula-guard';
 
 describe('cells that a spreadsheet would run as formulas are neutralised', () => {
   it.each(['=1+1', '+1', '-2+3', '@SUM(A1)', '\tx', '\rx'])('prefixes %j with an apostrophe', (cell) => {

@@ -1,6 +1,6 @@
 import { afterEach, describe, expect, it } from 'vitest';
-import { appLink } from '@/lib/mail/links';
-import { designFrozenMessage, invitationMessage, passwordResetMessage, powerRunFinishedMessage } from '@/lib/mail/templates';
+import { appLink } from '@/lib/server/mail/links';
+import { designFrozenMessage, invitationMessage, passwordResetMessage, powerRunFinishedMessage } from '@/lib/server/mail/templates';
 
 const saved = process.env.NEXTAUTH_URL;
 afterEach(() => {

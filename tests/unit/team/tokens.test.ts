@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { hashToken, newToken, parseId } from '@/lib/services/tokens';
+import { hashToken, newToken, parseId } from '@/lib/server/auth/tokens';
 
 describe('link tokens', () => {
   it('are hashed with SHA-256', () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { acceptInvitationSchema, invitationSchema, noticeSettingsSchema, passwordResetFormSchema } from '@/lib/validations/team';
+import { acceptInvitationSchema, invitationSchema, noticeSettingsSchema, passwordResetFormSchema } from '@/lib/shared/validations/team';
 
 describe('team schemas', () => {
   it('normalise an invited address and accept only known roles', () => {

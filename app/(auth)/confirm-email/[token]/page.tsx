@@ -1,6 +1,6 @@
 import type { Metadata } from 'next';
 import { ConfirmAddress } from '@/components/account/confirm-address';
-import { getPageUser } from '@/lib/auth/session';
+import { getPageUser } from '@/lib/server/auth/session';
 import { describeConfirmationLink } from '@/lib/server/services/email-confirmation';
 
 // The token is in the address: keep it out of Referer headers sent to other sites.

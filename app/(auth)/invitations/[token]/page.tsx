@@ -1,7 +1,7 @@
 import type { Metadata } from 'next';
 import { InvitationGate } from '@/components/team/invitation-response';
-import { getPageUser } from '@/lib/auth/session';
-import { mailboxDir } from '@/lib/mail/mailbox';
+import { getPageUser } from '@/lib/server/auth/session';
+import { mailboxDir } from '@/lib/server/mail/mailbox';
 
 // The token is in the address: keep it out of Referer headers sent to other sites.
 export const metadata: Metadata = { title: 'Invitation', referrer: 'no-referrer' };

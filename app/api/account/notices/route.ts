@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { requireUser } from '@/lib/auth/session';
-import { getNoticeSettings, updateNoticeSettings } from '@/lib/services/notices';
-import { noticeSettingsSchema } from '@/lib/validations/team';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { requireUser } from '@/lib/server/auth/session';
+import { getNoticeSettings, updateNoticeSettings } from '@/lib/server/services/notices';
+import { noticeSettingsSchema } from '@/lib/shared/validations/team';
 
 export const GET = route(async (request) => {
   const user = await requireUser(request);

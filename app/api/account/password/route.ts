@@ -1,10 +1,10 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
 import { clientAddress } from '@/lib/server/auth/client-address';
-import { requireUser } from '@/lib/auth/session';
-import { changePassword } from '@/lib/services/users';
-import { passwordChangeSchema } from '@/lib/validations/user';
+import { requireUser } from '@/lib/server/auth/session';
+import { changePassword } from '@/lib/server/services/users';
+import { passwordChangeSchema } from '@/lib/shared/validations/user';
 
 /** Changes the signed-in user's password; every session ends, so the reply asks to sign in again. */
 export const PUT = route(async (request) => {

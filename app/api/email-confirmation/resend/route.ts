@@ -1,6 +1,6 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { requireUser } from '@/lib/auth/session';
+import { route } from '@/lib/server/http/handler';
+import { requireUser } from '@/lib/server/auth/session';
 import { resendAddressConfirmation } from '@/lib/server/services/email-confirmation';
 
 /** Mails the signed-in user a new confirmation link for their address (the older ones stop working). */

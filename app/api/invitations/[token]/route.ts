@@ -1,6 +1,6 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { describeInvitationLink } from '@/lib/services/invitations';
+import { route } from '@/lib/server/http/handler';
+import { describeInvitationLink } from '@/lib/server/services/invitations';
 
 /**
  * What an invitation link leads to (study, role, address, or why it no longer works). Public: the

@@ -1,6 +1,6 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { describeResetLink } from '@/lib/services/password-reset';
+import { route } from '@/lib/server/http/handler';
+import { describeResetLink } from '@/lib/server/services/password-reset';
 
 /** Whether a reset link can still be used, and if not, why (for the reset page). */
 export const GET = route<{ token: string }>(async (_request, { params }) => {

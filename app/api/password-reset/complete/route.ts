@@ -1,8 +1,8 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { completePasswordReset } from '@/lib/services/password-reset';
-import { passwordResetSchema } from '@/lib/validations/team';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { completePasswordReset } from '@/lib/server/services/password-reset';
+import { passwordResetSchema } from '@/lib/shared/validations/team';
 
 /** Sets a new password with the token from a reset link (once). */
 export const POST = route(async (request) => {

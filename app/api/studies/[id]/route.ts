@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { requireRole } from '@/lib/auth/session';
-import { updateStudySchema } from '@/lib/validations/study';
-import { deleteStudy, studyJson, updateStudy } from '@/lib/services/studies';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { requireRole } from '@/lib/server/auth/session';
+import { updateStudySchema } from '@/lib/shared/validations/study';
+import { deleteStudy, studyJson, updateStudy } from '@/lib/server/services/studies';
 
 type Params = { id: string };
 

@@ -1,8 +1,8 @@
 import type { Metadata } from 'next';
 import { redirect } from 'next/navigation';
 import { TeamPage } from '@/components/team/team-page';
-import { getPageUser } from '@/lib/auth/session';
-import { mailboxDir } from '@/lib/mail/mailbox';
+import { getPageUser } from '@/lib/server/auth/session';
+import { mailboxDir } from '@/lib/server/mail/mailbox';
 
 export const metadata: Metadata = { title: 'Team' };
 

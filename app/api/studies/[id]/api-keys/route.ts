@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { requireRole } from '@/lib/auth/session';
-import { createApiKey, listApiKeys } from '@/lib/services/api-keys';
-import { apiKeyCreateSchema } from '@/lib/validations/api-keys';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { requireRole } from '@/lib/server/auth/session';
+import { createApiKey, listApiKeys } from '@/lib/server/services/api-keys';
+import { apiKeyCreateSchema } from '@/lib/shared/validations/api-keys';
 
 /** The study's API keys: prefix, creator, last use (never the secret). */
 export const GET = route<{ id: string }>(async (request, { params }) => {

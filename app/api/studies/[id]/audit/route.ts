@@ -1,7 +1,7 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { requireRole } from '@/lib/auth/session';
-import { AUDIT_LIST_LIMIT, listAuditEvents } from '@/lib/services/audit-trail';
+import { route } from '@/lib/server/http/handler';
+import { requireRole } from '@/lib/server/auth/session';
+import { AUDIT_LIST_LIMIT, listAuditEvents } from '@/lib/server/services/audit-trail';
 
 /** The study's audit events, newest first. */
 export const GET = route<{ id: string }>(async (request, { params }) => {

@@ -1,8 +1,8 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { requireRole } from '@/lib/auth/session';
-import { listVersions } from '@/lib/services/designs';
-import { parseEntityId } from '@/lib/services/planner-ids';
+import { route } from '@/lib/server/http/handler';
+import { requireRole } from '@/lib/server/auth/session';
+import { listVersions } from '@/lib/server/services/planner-designs';
+import { parseEntityId } from '@/lib/server/http/route-ids';
 
 /** Frozen versions of the study, newest first; `?design=<id>` narrows to one design. */
 export const GET = route<{ id: string }>(async (request, { params }) => {

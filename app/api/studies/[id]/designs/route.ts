@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { requireRole } from '@/lib/auth/session';
-import { createDesign, designJson, listDesigns } from '@/lib/services/designs';
-import { designSpecSchema } from '@/lib/validations/design';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { requireRole } from '@/lib/server/auth/session';
+import { createDesign, designJson, listDesigns } from '@/lib/server/services/planner-designs';
+import { designSpecSchema } from '@/lib/shared/validations/planner';
 
 export const GET = route<{ id: string }>(async (request, { params }) => {
   const { study } = await requireRole(request, (await params).id, 'viewer');

@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { requireRole } from '@/lib/auth/session';
-import { createInvitation, listInvitations } from '@/lib/services/invitations';
-import { invitationSchema } from '@/lib/validations/team';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { requireRole } from '@/lib/server/auth/session';
+import { createInvitation, listInvitations } from '@/lib/server/services/invitations';
+import { invitationSchema } from '@/lib/shared/validations/team';
 
 type Params = { id: string };
 

@@ -1,7 +1,7 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { requireRole } from '@/lib/auth/session';
-import { listFrozenVersions } from '@/lib/services/item-bank';
+import { route } from '@/lib/server/http/handler';
+import { requireRole } from '@/lib/server/auth/session';
+import { listFrozenVersions } from '@/lib/server/services/item-bank';
 
 /** The study's frozen design versions an item bank can be exported from. */
 export const GET = route<{ id: string }>(async (request, { params }) => {

@@ -1,7 +1,7 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { requireRole } from '@/lib/auth/session';
-import { listParticipants, participantsCsv } from '@/lib/services/participants';
+import { route } from '@/lib/server/http/handler';
+import { requireRole } from '@/lib/server/auth/session';
+import { listParticipants, participantsCsv } from '@/lib/server/services/participants';
 
 /** Participants served in this study (?format=csv downloads one row per item served). */
 export const GET = route<{ id: string }>(async (request, { params }) => {

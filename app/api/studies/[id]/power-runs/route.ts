@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { requireRole } from '@/lib/auth/session';
-import { createPowerRun, listPowerRuns } from '@/lib/services/power-runs';
-import { createPowerRunSchema } from '@/lib/validations/power';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { requireRole } from '@/lib/server/auth/session';
+import { createPowerRun, listPowerRuns } from '@/lib/server/services/power-runs';
+import { createPowerRunSchema } from '@/lib/shared/validations/power';
 
 type Params = { id: string };
 

@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { requireRole } from '@/lib/auth/session';
-import { createPrior, listPriors, priorJson } from '@/lib/services/priors';
-import { priorSetSchema } from '@/lib/validations/design';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { requireRole } from '@/lib/server/auth/session';
+import { createPrior, listPriors, priorJson } from '@/lib/server/services/priors';
+import { priorSetSchema } from '@/lib/shared/validations/planner';
 
 export const GET = route<{ id: string }>(async (request, { params }) => {
   const { study } = await requireRole(request, (await params).id, 'viewer');

@@ -1,7 +1,7 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { requireRole } from '@/lib/auth/session';
-import { revokeApiKey } from '@/lib/services/api-keys';
+import { route } from '@/lib/server/http/handler';
+import { requireRole } from '@/lib/server/auth/session';
+import { revokeApiKey } from '@/lib/server/services/api-keys';
 
 /** Revokes a key: it stops working at once. */
 export const DELETE = route<{ id: string; keyId: string }>(async (request, { params }) => {

@@ -1,6 +1,6 @@
-import { route } from '@/lib/api/handler';
-import { requireRole } from '@/lib/auth/session';
-import { exportAuditCsv } from '@/lib/services/audit-trail';
+import { route } from '@/lib/server/http/handler';
+import { requireRole } from '@/lib/server/auth/session';
+import { exportAuditCsv } from '@/lib/server/services/audit-trail';
 
 /** The audit trail as a CSV download (cells neutralised against spreadsheet formulas). */
 export const GET = route<{ id: string }>(async (request, { params }) => {

@@ -1,10 +1,10 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { requireRole } from '@/lib/auth/session';
-import { deleteDesign, designJson, getDesign, updateDesign } from '@/lib/services/designs';
-import { parseEntityId } from '@/lib/services/planner-ids';
-import { designUpdateSchema } from '@/lib/validations/design';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { requireRole } from '@/lib/server/auth/session';
+import { deleteDesign, designJson, getDesign, updateDesign } from '@/lib/server/services/planner-designs';
+import { parseEntityId } from '@/lib/server/http/route-ids';
+import { designUpdateSchema } from '@/lib/shared/validations/planner';
 
 type Params = { id: string; designId: string };
 

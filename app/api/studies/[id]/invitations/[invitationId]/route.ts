@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { NotFoundError } from '@/lib/api/errors';
-import { requireRole } from '@/lib/auth/session';
-import { revokeInvitation } from '@/lib/services/invitations';
-import { parseId } from '@/lib/services/tokens';
+import { route } from '@/lib/server/http/handler';
+import { NotFoundError } from '@/lib/server/errors';
+import { requireRole } from '@/lib/server/auth/session';
+import { revokeInvitation } from '@/lib/server/services/invitations';
+import { parseId } from '@/lib/server/auth/tokens';
 
 /** Withdraws an open invitation (its link then says so). */
 export const DELETE = route<{ id: string; invitationId: string }>(async (request, { params }) => {

@@ -1,7 +1,7 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { requireRole } from '@/lib/auth/session';
-import { loadVersion, previewItemBank, readExportOptions } from '@/lib/services/item-bank';
+import { route } from '@/lib/server/http/handler';
+import { requireRole } from '@/lib/server/auth/session';
+import { loadVersion, previewItemBank, readExportOptions } from '@/lib/server/services/item-bank';
 
 /** The item bank of one frozen version, for the page (not a download, so not audited). */
 export const GET = route<{ id: string; versionId: string }>(async (request, { params }) => {

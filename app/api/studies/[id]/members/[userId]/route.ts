@@ -1,11 +1,11 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { NotFoundError } from '@/lib/api/errors';
-import { readJson } from '@/lib/api/read-json';
-import { requireRole } from '@/lib/auth/session';
-import { changeMemberRole, removeMember } from '@/lib/services/members';
-import { parseId } from '@/lib/services/tokens';
-import { memberRoleSchema } from '@/lib/validations/team';
+import { route } from '@/lib/server/http/handler';
+import { NotFoundError } from '@/lib/server/errors';
+import { readJson } from '@/lib/server/http/read-json';
+import { requireRole } from '@/lib/server/auth/session';
+import { changeMemberRole, removeMember } from '@/lib/server/services/members';
+import { parseId } from '@/lib/server/auth/tokens';
+import { memberRoleSchema } from '@/lib/shared/validations/team';
 
 type Params = { id: string; userId: string };
 

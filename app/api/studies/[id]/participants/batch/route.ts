@@ -1,10 +1,10 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { requireRole } from '@/lib/auth/session';
-import { loadVersion } from '@/lib/services/item-bank';
-import { batchCsv, serveBatch } from '@/lib/services/item-bank-batch';
-import { batchRequestSchema } from '@/lib/validations/item-bank';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { requireRole } from '@/lib/server/auth/session';
+import { loadVersion } from '@/lib/server/services/item-bank';
+import { batchCsv, serveBatch } from '@/lib/server/services/item-bank-batch';
+import { batchRequestSchema } from '@/lib/shared/validations/item-bank';
 
 /** Serves many participants from a CSV of offline calibration answers; ?format=csv returns CSV. */
 export const POST = route<{ id: string }>(async (request, { params }) => {

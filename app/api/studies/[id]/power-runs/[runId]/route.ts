@@ -1,7 +1,7 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { requireRole } from '@/lib/auth/session';
-import { getPowerRun, parseRunId } from '@/lib/services/power-runs';
+import { route } from '@/lib/server/http/handler';
+import { requireRole } from '@/lib/server/auth/session';
+import { getPowerRun, parseRunId } from '@/lib/server/services/power-runs';
 
 type Params = { id: string; runId: string };
 

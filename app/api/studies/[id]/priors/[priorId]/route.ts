@@ -1,10 +1,10 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { requireRole } from '@/lib/auth/session';
-import { parseEntityId } from '@/lib/services/planner-ids';
-import { deletePrior, getPrior, priorJson, updatePrior } from '@/lib/services/priors';
-import { priorSetUpdateSchema } from '@/lib/validations/design';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { requireRole } from '@/lib/server/auth/session';
+import { parseEntityId } from '@/lib/server/http/route-ids';
+import { deletePrior, getPrior, priorJson, updatePrior } from '@/lib/server/services/priors';
+import { priorSetUpdateSchema } from '@/lib/shared/validations/planner';
 
 type Params = { id: string; priorId: string };
 

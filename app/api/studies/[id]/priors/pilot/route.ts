@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { ApiError } from '@/lib/api/errors';
-import { route } from '@/lib/api/handler';
-import { requireRole } from '@/lib/auth/session';
-import { fitPilotCsv } from '@/lib/planner/pilot-csv';
-import { readPilotText } from '@/lib/services/planner-upload';
+import { ApiError } from '@/lib/server/errors';
+import { route } from '@/lib/server/http/handler';
+import { requireRole } from '@/lib/server/auth/session';
+import { fitPilotCsv } from '@/lib/shared/planner/pilot-csv';
+import { readPilotText } from '@/lib/server/http/pilot-upload';
 
 /**
  * Fits a prior from a pilot CSV sent as the request body (text/csv, at most 5 MB). Answers the

@@ -1,7 +1,7 @@
 import type { NextRequest } from 'next/server';
-import { toNextResponse } from '@/lib/api/handler';
-import { BODY_TOO_LARGE, MAX_BODY_BYTES, readBodyText } from '@/lib/api/read-json';
-import { handleProbeItems } from '@/lib/services/probe-endpoint';
+import { toNextResponse } from '@/lib/server/http/handler';
+import { BODY_TOO_LARGE, MAX_BODY_BYTES, readBodyText } from '@/lib/server/http/read-json';
+import { handleProbeItems } from '@/lib/server/http/probe-endpoint';
 
 /**
  * A participant's personalised probe block from their calibration responses (Bearer API key).

@@ -1,10 +1,10 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { readJson } from '@/lib/api/read-json';
-import { requireRole } from '@/lib/auth/session';
-import { addComment, listComments } from '@/lib/services/planner-comments';
-import { parseEntityId } from '@/lib/services/planner-ids';
-import { commentSchema } from '@/lib/validations/design';
+import { route } from '@/lib/server/http/handler';
+import { readJson } from '@/lib/server/http/read-json';
+import { requireRole } from '@/lib/server/auth/session';
+import { addComment, listComments } from '@/lib/server/services/planner-comments';
+import { parseEntityId } from '@/lib/server/http/route-ids';
+import { commentSchema } from '@/lib/shared/validations/planner';
 
 type Params = { id: string; designId: string };
 

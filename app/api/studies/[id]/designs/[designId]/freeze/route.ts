@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { requireRole } from '@/lib/auth/session';
-import { freezeDesignReporting, versionJson } from '@/lib/services/designs';
-import { notifyDesignFrozen } from '@/lib/services/notices';
-import { parseEntityId } from '@/lib/services/planner-ids';
+import { route } from '@/lib/server/http/handler';
+import { requireRole } from '@/lib/server/auth/session';
+import { freezeDesignReporting, versionJson } from '@/lib/server/services/planner-designs';
+import { notifyDesignFrozen } from '@/lib/server/services/notices';
+import { parseEntityId } from '@/lib/server/http/route-ids';
 
 /** Freezes the current draft into an immutable, content-hashed version (201; 200 when unchanged since the last freeze). */
 export const POST = route<{ id: string; designId: string }>(async (request, { params }) => {

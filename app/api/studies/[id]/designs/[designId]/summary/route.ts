@@ -1,8 +1,8 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { requireRole } from '@/lib/auth/session';
-import { parseEntityId } from '@/lib/services/planner-ids';
-import { designSummary } from '@/lib/services/planner-summary';
+import { route } from '@/lib/server/http/handler';
+import { requireRole } from '@/lib/server/auth/session';
+import { parseEntityId } from '@/lib/server/http/route-ids';
+import { designSummary } from '@/lib/server/services/planner-summary';
 
 /** The numbers of the design page, recomputed on the server (the same function the browser runs). */
 export const GET = route<{ id: string; designId: string }>(async (request, { params }) => {

@@ -1,9 +1,9 @@
 import { NextResponse } from 'next/server';
-import { route } from '@/lib/api/handler';
-import { NotFoundError } from '@/lib/api/errors';
-import { requireRole } from '@/lib/auth/session';
-import { resendInvitation } from '@/lib/services/invitations';
-import { parseId } from '@/lib/services/tokens';
+import { route } from '@/lib/server/http/handler';
+import { NotFoundError } from '@/lib/server/errors';
+import { requireRole } from '@/lib/server/auth/session';
+import { resendInvitation } from '@/lib/server/services/invitations';
+import { parseId } from '@/lib/server/auth/tokens';
 
 /** Sends an open invitation again with a new link and a new 7-day expiry. */
 export const POST = route<{ id: string; invitationId: string }>(async (request, { params }) => {

@@ -1,6 +1,6 @@
-import { route } from '@/lib/api/handler';
-import { requireRole } from '@/lib/auth/session';
-import { exportItemBank, loadVersion, readExportOptions } from '@/lib/services/item-bank';
+import { route } from '@/lib/server/http/handler';
+import { requireRole } from '@/lib/server/auth/session';
+import { exportItemBank, loadVersion, readExportOptions } from '@/lib/server/services/item-bank';
 
 /** Downloads the item bank as CSV or JSON (?format=csv|json); each download is audited. */
 export const GET = route<{ id: string; versionId: string }>(async (request, { params }) => {

@@ -1,8 +1,8 @@
-import { route } from '@/lib/api/handler';
-import { ValidationError } from '@/lib/api/errors';
-import { requireRole } from '@/lib/auth/session';
-import { EXPORT_FORMATS, exportRun, type ExportFormat } from '@/lib/services/power-export';
-import { parseRunId } from '@/lib/services/power-runs';
+import { route } from '@/lib/server/http/handler';
+import { ValidationError } from '@/lib/server/errors';
+import { requireRole } from '@/lib/server/auth/session';
+import { EXPORT_FORMATS, exportRun, type ExportFormat } from '@/lib/server/services/power-export';
+import { parseRunId } from '@/lib/server/services/power-runs';
 
 type Params = { id: string; runId: string };
 

@@ -1,0 +1,141 @@
+import os from 'node:os';
+import path from 'node:path';
+import * as threads from 'node:worker_threads';
+import type { Worker } from 'node:worker_threads';
+import { mergeTallies } from '@/lib/design/power/tally';
+import type { PowerScenario, PowerTally } from '@/lib/design/power/types';
+
+export type RunScenarioOptions = {
+  /** worker threads; default POWER_WORKERS or the machine's available parallelism, at most 8 */
+  workers?: number;
+  /** replicates per chunk; default about 40 chunks per run, 10 to 250 replicates each */
+  chunkSize?: number;
+  /** called after every finished chunk with the replicates done so far */
+  onProgress?: (completed: number) => void | Promise<void>;
+  /** checked before every chunk; true stops the run (the result is then null) */
+  shouldStop?: () => boolean;
+};
+
+export type ScenarioOutcome = { tally: PowerTally; longestCalibrationDelay: number | null } | null;
+
+/** Default worker count: POWER_WORKERS if set, else os.availableParallelism() (at most 8). */
+export function defaultWorkerCount(): number {
+  const configured = Number(process.env.POWER_WORKERS);
+  if (Number.isInteger(configured) && configured >= 1) return Math.min(configured, 16);
+  return Math.max(1, Math.min(8, os.availableParallelism()));
+}
+
+/**
+ * The worker entry, resolved from the project root at run time (so no bundler has to trace
+ * it): a plain .mjs file that registers tsx in its thread and imports the TypeScript worker.
+ */
+export function workerEntry(): string {
+  // joined at run time so the bundler does not follow the worker into tsx and esbuild
+  const parts = [process.cwd(), 'lib', 'server', 'jobs', 'power', 'worker-bootstrap.mjs'];
+  return parts.join(path.sep);
+}
+
+/** The Worker constructor, taken at run time for the same reason. */
+const WorkerThread: typeof Worker = Reflect.get(threads, 'Worker');
+
+/**
+ * Runs a scenario's replicates in chunks on worker threads (node:worker_threads, each loading
+ * the engine source through tsx) and merges the chunk tallies. Chunks are handed out as workers free
+ * up; tallies are whole-number counts, so the merged result is the same for any number of
+ * workers. A thrown error in a worker rejects; shouldStop() ends the run early (null).
+ */
+export async function runScenario(scenario: PowerScenario, options: RunScenarioOptions = {}): Promise<ScenarioOutcome> {
+  const total = scenario.replications;
+  const chunkSize = options.chunkSize ?? Math.min(250, Math.max(10, Math.ceil(total / 40)));
+  const chunks: Array<[number, number]> = [];
+  for (let from = 0; from < total; from += chunkSize) chunks.push([from, Math.min(total, from + chunkSize)]);
+  const count = Math.max(1, Math.min(options.workers ?? defaultWorkerCount(), chunks.length));
+  const key = `${Date.now()}-${Math.random()}`;
+  const workers = Array.from({ length: count }, () => new WorkerThread(workerEntry()));
+  const tallies: PowerTally[] = [];
+  let longestCalibrationDelay: number | null = null;
+  let completed = 0;
+  let next = 0;
+  let stopped = false;
+  let requestId = 0;
+  try {
+    await Promise.all(workers.map(ready));
+    await Promise.all(
+      workers.map(async (worker) => {
+        while (!stopped && next < chunks.length) {
+          if (options.shouldStop?.()) {
+            stopped = true;
+            break;
+          }
+          const [from, to] = chunks[next++];
+          const reply = await ask(worker, { id: ++requestId, key, scenario, from, to });
+          tallies.push(reply.tally);
+          longestCalibrationDelay = reply.longestCalibrationDelay;
+          completed += to - from;
+          await options.onProgress?.(completed);
+        }
+      }),
+    );
+  } finally {
+    await Promise.all(workers.map((w) => w.terminate()));
+  }
+  if (stopped || options.shouldStop?.()) return null;
+  return { tally: mergeTallies(tallies), longestCalibrationDelay };
+}
+
+/** Resolves when a worker has loaded the engine and listens; rejects if it fails to start. */
+function ready(worker: Worker): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const onMessage = (message: { ready?: boolean }) => {
+      if (!message?.ready) return;
+      cleanup();
+      resolve();
+    };
+    const onError = (error: Error) => {
+      cleanup();
+      reject(error);
+    };
+    const onExit = (code: number) => {
+      cleanup();
+      reject(new Error(`power worker stopped while starting (exit code ${code})`));
+    };
+    const cleanup = () => {
+      worker.off('message', onMessage);
+      worker.off('error', onError);
+      worker.off('exit', onExit);
+    };
+    worker.on('message', onMessage);
+    worker.on('error', onError);
+    worker.on('exit', onExit);
+  });
+}
+
+type Reply = { id: number; tally: PowerTally; longestCalibrationDelay: number | null; error?: undefined } | { id: number; error: string };
+
+function ask(worker: Worker, request: { id: number; key: string; scenario: PowerScenario; from: number; to: number }) {
+  return new Promise<{ tally: PowerTally; longestCalibrationDelay: number | null }>((resolve, reject) => {
+    const onMessage = (reply: Reply) => {
+      if (reply.id !== request.id) return;
+      cleanup();
+      if (reply.error !== undefined) reject(new Error(`power worker: ${reply.error}`));
+      else resolve({ tally: reply.tally, longestCalibrationDelay: reply.longestCalibrationDelay });
+    };
+    const onError = (error: Error) => {
+      cleanup();
+      reject(error);
+    };
+    const onExit = (code: number) => {
+      cleanup();
+      reject(new Error(`power worker stopped (exit code ${code})`));
+    };
+    const cleanup = () => {
+      worker.off('message', onMessage);
+      worker.off('error', onError);
+      worker.off('exit', onExit);
+    };
+    worker.on('message', onMessage);
+    worker.on('error', onError);
+    worker.on('exit', onExit);
+    worker.postMessage(request);
+  });
+}

@@ -1,0 +1,141 @@
+import { createHash, randomBytes } from 'node:crypto';
+import { ApiKey, User } from '@/db/models';
+import { db } from '@/db';
+import { NotFoundError, UnauthorizedError } from '@/lib/server/errors';
+import type { ApiKeyCreateInput } from '@/lib/shared/validations/api-keys';
+import { recordAudit } from './audit';
+import { bankOrInvalid, loadVersion } from './item-bank';
+
+/** SHA-256 (hex) of a key's secret: the only form in which a key is stored. */
+export function hashSecret(secret: string): string {
+  return createHash('sha256').update(secret).digest('hex');
+}
+
+/**
+ * Creates a key for one frozen design version. The secret (`sbk_` + 8 characters of prefix +
+ * `_` + 32 random base64url characters, 192 bits) is returned once and never stored.
+ */
+export async function createApiKey(actorId: number, studyId: number, input: ApiKeyCreateInput) {
+  const version = await loadVersion(studyId, input.designVersionId);
+  bankOrInvalid(version); // refuse a key for a design that cannot serve items
+  const prefix = `sbk_${randomBytes(6).toString('base64url')}`;
+  const secret = `${prefix}_${randomBytes(24).toString('base64url')}`;
+  const key = await db().transaction(async (transaction) => {
+    const created = await ApiKey.create({ studyId, designVersionId: version.id, name: input.name, prefix, secretHash: hashSecret(secret), createdBy: actorId, lastUsedAt: null, revokedAt: null, revokedBy: null }, { transaction });
+    await recordAudit({ actorId, studyId, action: 'api-key.create', details: { keyId: created.id, name: input.name, prefix, designVersionId: version.id } }, transaction);
+    return created;
+  });
+  return { key: apiKeyJson(key, null), secret };
+}
+
+export type ApiKeyDto = ReturnType<typeof apiKeyJson>;
+
+function apiKeyJson(key: ApiKey, creator: { name: string } | null) {
+  return {
+    id: key.id,
+    name: key.name,
+    prefix: key.prefix,
+    designVersionId: key.designVersionId,
+    createdBy: creator?.name ?? null,
+    createdAt: key.createdAt.toISOString(),
+    lastUsedAt: key.lastUsedAt ? key.lastUsedAt.toISOString() : null,
+    revokedAt: key.revokedAt ? key.revokedAt.toISOString() : null,
+  };
+}
+
+/** The study's keys (never their secrets), newest first. */
+export async function listApiKeys(studyId: number) {
+  db();
+  const rows = await ApiKey.findAll({ where: { studyId }, include: [{ model: User, as: 'creator', attributes: ['name'] }], order: [['createdAt', 'DESC'], ['id', 'DESC']] });
+  return rows.map((k) => apiKeyJson(k, (k as unknown as { creator: User | null }).creator));
+}
+
+/**
+ * Revokes a key. It is refused at once everywhere: this process drops it from its cache once
+ * the revocation is committed, and every process's probe-items insert reads the key's revoked
+ * state in the same statement (serveProbeItems), so a cached key cannot serve another participant.
+ */
+export async function revokeApiKey(actorId: number, studyId: number, rawKeyId: string) {
+  const id = Number(rawKeyId);
+  if (!Number.isSafeInteger(id) || id <= 0) throw new NotFoundError('API key not found.');
+  db();
+  const key = await db().transaction(async (transaction) => {
+    const row = await ApiKey.findOne({ where: { id, studyId }, transaction, lock: transaction.LOCK.UPDATE });
+    if (!row) throw new NotFoundError('API key not found.');
+    if (!row.revokedAt) {
+      await row.update({ revokedAt: new Date(), revokedBy: actorId }, { transaction });
+      await recordAudit({ actorId, studyId, action: 'api-key.revoke', details: { keyId: row.id, name: row.name, prefix: row.prefix } }, transaction);
+    }
+    return row;
+  });
+  // After the commit: a lookup that read the row before it would otherwise cache it as active.
+  forgetApiKey(key.secretHash);
+  return apiKeyJson(key, null);
+}
+
+export type CachedKey = { id: number; studyId: number; designVersionId: number; revoked: boolean };
+
+/**
+ * Key lookups by hashed secret, cached in this process for KEY_CACHE_MS so the hot path of the
+ * probe-items API does not query the database for every request. The cache only saves the
+ * lookup: whether a key is revoked is read again by the statement that records a participant
+ * (serveProbeItems), so a key revoked through another process serves nobody; within the TTL
+ * such a key can still be told 422 (bad responses) or 429 instead of 401. `generation` makes a
+ * lookup that raced with a revocation in this process skip the cache.
+ *
+ * The cache lives on globalThis: in production one process holds two copies of this module (Next's
+ * bundle, which revokes keys, and the one scripts/serve.mjs loads to answer the probe API), and a
+ * revocation through either must reach the cache the other reads.
+ */
+type KeyCacheState = { keys: Map<string, { key: CachedKey | null; expires: number }>; generation: number; lastUsedWritten: Map<number, number> };
+const cacheHolder = globalThis as unknown as { switchbackApiKeyCache?: KeyCacheState };
+const cache = (cacheHolder.switchbackApiKeyCache ??= { keys: new Map(), generation: 0, lastUsedWritten: new Map() });
+const keyCache = cache.keys;
+const lastUsedWritten = cache.lastUsedWritten;
+export const KEY_CACHE_MS = 10_000;
+const KEY_CACHE_LIMIT = 10_000;
+const LAST_USED_EVERY_MS = 60_000;
+
+function forgetApiKey(secretHash: string): void {
+  cache.generation++;
+  keyCache.delete(secretHash);
+}
+
+/** Marks a cached key revoked after the database refused it (revoked through another process). */
+export function markApiKeyRevoked(key: CachedKey): void {
+  key.revoked = true;
+}
+
+/**
+ * The API key sent in an Authorization header value (`Bearer <key>`, null when the header is
+ * missing) for `studyId`. Missing, unknown or revoked → 401; a valid key of another study → 404
+ * (the study does not leak).
+ */
+export async function requireApiKey(authorization: string | null, studyId: number): Promise<CachedKey> {
+  const header = authorization ?? '';
+  const match = /^Bearer\s+(\S+)$/i.exec(header);
+  if (!match) throw new UnauthorizedError('Send the study\'s API key as "Authorization: Bearer <key>".');
+  const hash = hashSecret(match[1]);
+  const now = Date.now();
+  const hit = keyCache.get(hash);
+  let key = hit && hit.expires > now ? hit.key : undefined;
+  if (key === undefined) {
+    const startedAt = cache.generation;
+    db();
+    const row = await ApiKey.findOne({ where: { secretHash: hash }, attributes: ['id', 'studyId', 'designVersionId', 'revokedAt'] });
+    key = row ? { id: row.id, studyId: row.studyId, designVersionId: row.designVersionId, revoked: row.revokedAt !== null } : null;
+    if (startedAt === cache.generation) {
+      if (keyCache.size >= KEY_CACHE_LIMIT) keyCache.clear();
+      keyCache.set(hash, { key, expires: now + KEY_CACHE_MS });
+    }
+  }
+  if (!key || key.revoked) throw new UnauthorizedError('This API key is unknown or has been revoked.');
+  if (key.studyId !== studyId) throw new NotFoundError('Study not found.');
+  if (now - (lastUsedWritten.get(key.id) ?? 0) > LAST_USED_EVERY_MS) {
+    lastUsedWritten.set(key.id, now);
+    const id = key.id;
+    // Written at most once a minute per key, outside the request's critical path.
+    ApiKey.update({ lastUsedAt: new Date(now) }, { where: { id } }).catch(() => lastUsedWritten.delete(id));
+  }
+  return key;
+}

@@ -1,0 +1,152 @@
+import { Parser } from '@json2csv/plainjs';
+import { Design, DesignVersion } from '@/db/models';
+import { db } from '@/db';
+import { NotFoundError, ValidationError } from '@/lib/server/errors';
+import { neutraliseRows } from '@/lib/shared/csv/formula-guard';
+import { CHOICE_SENSITIVITY_UNIT, DesignInputError, designChoiceModel, type BankItem } from '@/lib/design';
+import type { Study } from '@/db/models';
+import { exportOptionsSchema, type ExportOptions } from '@/lib/shared/validations/item-bank';
+import type { FrozenDesign } from '@/lib/shared/validations/planner';
+import { recordAudit } from './audit';
+import { bankFor, defaultSeed } from '@/lib/shared/item-bank-plan';
+
+/** Column order of the CSV export; the JSON export's items have exactly these fields. */
+export const ITEM_COLUMNS: ReadonlyArray<keyof BankItem> = [
+  'id', 'block', 'role', 'set', 'view', 'pairId', 'magnitude', 'soonerAmount', 'soonerDelay', 'laterAmount', 'laterDelay', 'soonerSide', 'position', 'text',
+];
+
+/** The study's frozen design versions, newest first, with what the item-bank page shows. */
+export async function listFrozenVersions(studyId: number) {
+  db();
+  const rows = await DesignVersion.findAll({ where: { studyId }, include: [{ model: Design, as: 'design', attributes: ['name'] }], order: [['createdAt', 'DESC'], ['id', 'DESC']] });
+  return rows.map((v) => ({
+    id: v.id,
+    number: v.number,
+    hash: v.hash,
+    designName: (v as unknown as { design?: Design }).design?.name ?? v.content.spec.name,
+    mode: v.content.spec.mode,
+    currency: v.content.spec.currency,
+    frozenAt: v.createdAt.toISOString(),
+  }));
+}
+
+/** A frozen version of this study; 404 for another study's or a missing one. */
+export async function loadVersion(studyId: number, rawVersionId: string | number): Promise<DesignVersion> {
+  const id = Number(rawVersionId);
+  if (!Number.isSafeInteger(id) || id <= 0) throw new NotFoundError('Design version not found.');
+  db();
+  const version = await DesignVersion.findOne({ where: { id, studyId } });
+  if (!version) throw new NotFoundError('Design version not found.');
+  return version;
+}
+
+/** The bank for a version, with a design that cannot be built answered as 422 naming the field. */
+export function bankOrInvalid(version: { hash: string; content: FrozenDesign }, options: Partial<ExportOptions> = {}) {
+  try {
+    return bankFor(version, options);
+  } catch (error) {
+    if (error instanceof DesignInputError) throw new ValidationError([{ path: error.field, message: error.message }], 'This design cannot be turned into an item bank.');
+    throw error;
+  }
+}
+
+/** What the item-bank page shows: the items, rounding report, warnings and the file header. */
+export function previewItemBank(study: Study, version: DesignVersion, options: ExportOptions) {
+  const { bank } = bankOrInvalid(version, options);
+  const seed = options.seed ?? defaultSeed(version.hash);
+  return {
+    header: {
+      study: { id: study.id, name: study.name },
+      designVersion: { id: version.id, number: version.number, hash: version.hash, name: version.content.spec.name },
+      mode: bank.mode,
+      seed,
+      currency: version.content.spec.currency,
+      delayUnit: bank.delayUnit,
+      amountUnit: bank.amountUnit,
+      minGap: bank.minGap,
+      probeGap: bank.probeGap,
+      monthDays: 30,
+      choiceModel: { ...designChoiceModel(version.content.spec), unit: CHOICE_SENSITIVITY_UNIT },
+    },
+    designPoint: bank.designPoint,
+    probeRule:
+      bank.mode === 'personalised'
+        ? 'Probe and anchor pairs are computed per participant by the probe-items API from that person\'s calibration answers. ' +
+          'The probe block below is the fallback set, served to participants whose answers are flagged (all sooner, all later, or inconsistent) ' +
+          'or whose estimates have no reversal zone within the limits.'
+        : null,
+    items: bank.items,
+    rounding: bank.rounding,
+    extrapolation: bank.extrapolation,
+    notes: bank.notes,
+  };
+}
+
+/** A file name with the study, the version's hash (12 hex digits) and the seed. */
+export function exportFileName(study: { id: number; name: string }, hash: string, seed: number, extension: 'csv' | 'json') {
+  const slug = study.name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 40) || 'study';
+  return `switchback-items-${study.id}-${slug}-${hash.slice(0, 12)}-seed${seed}.${extension}`;
+}
+
+/** Items as CSV: a commented header (study, design hash, seed, units), then one row per item, formula-safe. */
+export function itemsCsv(items: readonly BankItem[], headerLines: string[]): string {
+  const parser = new Parser({ fields: [...ITEM_COLUMNS], defaultValue: '' });
+  const safe = neutraliseRows(items.map((i) => ({ ...i })));
+  const comments = headerLines.map((l) => `# ${l.replace(/[\r\n]+/g, ' ')}`).join('\n');
+  return `${comments}\n${parser.parse(safe)}\n`;
+}
+
+/**
+ * An export of the item bank as CSV or JSON, recorded in the audit trail (in one transaction
+ * with nothing else to write, the audit event is the record of the download).
+ */
+export async function exportItemBank(actorId: number, study: Study, version: DesignVersion, options: ExportOptions) {
+  const preview = previewItemBank(study, version, options);
+  const { seed } = preview.header;
+  const filename = exportFileName(study, version.hash, seed, options.format);
+  let body: string;
+  if (options.format === 'csv') {
+    body = itemsCsv(preview.items, [
+      `Switchback item bank · study ${study.id} "${study.name}"`,
+      `design version ${version.number} · hash ${version.hash} · seed ${seed}`,
+      `choice model: logistic, sensitivity γ = ${preview.header.choiceModel.sensitivity} ${CHOICE_SENSITIVITY_UNIT}, no lapse (rate estimates use it)`,
+      `mode ${preview.header.mode} · currency ${preview.header.currency} · amounts rounded to ${preview.header.amountUnit} · delays in whole ${preview.header.delayUnit} (a month is 30 days)`,
+      preview.probeRule ?? 'Population design: every participant runs these items.',
+    ]);
+  } else {
+    body = `${JSON.stringify(preview, null, 2)}\n`;
+  }
+  await db().transaction(async (transaction) => {
+    await recordAudit(
+      { actorId, studyId: study.id, action: 'item-bank.export', details: { designVersionId: version.id, hash: version.hash, seed, format: options.format, delayUnit: options.delayUnit, minGap: options.minGap } },
+      transaction,
+    );
+  });
+  return { filename, body, contentType: options.format === 'csv' ? 'text/csv; charset=utf-8' : 'application/json; charset=utf-8' };
+}
+
+/** Export options from a request's query string; unknown or bad parameters → 422 naming them. */
+export function readExportOptions(request: Request): ExportOptions {
+  const query = Object.fromEntries(new URL(request.url).searchParams);
+  const parsed = exportOptionsSchema.safeParse(query);
+  if (!parsed.success) throw new ValidationError(parsed.error.issues.map((i) => ({ path: i.path.map(String).join('.') || '(query)', message: i.message })));
+  return parsed.data;
+}
+
+/** What the probe-items API needs of a frozen version, as a plain object. */
+export type FrozenVersionRef = { id: number; studyId: number; hash: string; content: FrozenDesign };
+
+const versionCache = new Map<number, FrozenVersionRef>();
+
+/** A frozen version by id, cached in this process (frozen content never changes). */
+export async function frozenVersionById(id: number): Promise<FrozenVersionRef> {
+  const hit = versionCache.get(id);
+  if (hit) return hit;
+  db();
+  const version = await DesignVersion.findByPk(id);
+  if (!version) throw new NotFoundError('The design version of this key no longer exists.');
+  const ref = { id: version.id, studyId: version.studyId, hash: version.hash, content: version.content };
+  if (versionCache.size > 256) versionCache.clear();
+  versionCache.set(id, ref);
+  return ref;
+}

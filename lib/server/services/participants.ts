@@ -1,0 +1,128 @@
+import { Parser } from '@json2csv/plainjs';
+import { Participant } from '@/db/models';
+import { db, rawQuery } from '@/db';
+import { ConflictError, UnauthorizedError, ValidationError } from '@/lib/server/errors';
+import { contentHash } from '@/lib/shared/canonical-json';
+import { neutraliseRows } from '@/lib/shared/csv/formula-guard';
+import { ItemBankInputError, serveParticipant, type ServedItems } from '@/lib/design';
+import type { FrozenDesign } from '@/lib/shared/validations/planner';
+import { markApiKeyRevoked, type CachedKey } from './api-keys';
+import { bankOrInvalid } from './item-bank';
+
+export type ServeSource = { source: 'api'; key: CachedKey } | { source: 'batch'; userId: number };
+
+/** The reply of the probe-items API and what a participant record keeps. */
+export type ProbeItemsReply = ServedItems & { designHash: string; servedAt: string };
+
+/** What serving needs of a frozen design version. */
+export type ServedVersion = { id: number; studyId: number; hash: string; content: FrozenDesign };
+
+const COLUMNS = 'study_id, design_version_id, participant_id, responses_hash, responses, result, flag, source, api_key_id, served_by, created_at';
+// The key's revoked state is read by the insert itself: one statement, and a key revoked
+// through another process (whose cache still holds it) records nobody.
+const INSERT_VIA_KEY = `INSERT INTO participants (${COLUMNS}) SELECT ?, ?, ?, ?, ?, ?, ?, 'api', id, NULL, ? FROM api_keys WHERE id = ? AND revoked_at IS NULL`;
+const INSERT_BY_USER = `INSERT INTO participants (${COLUMNS}) VALUES (?, ?, ?, ?, ?, ?, ?, 'batch', NULL, ?, ?)`;
+const READ_BACK = 'SELECT responses_hash, design_version_id, result FROM participants WHERE study_id = ? AND participant_id = ?';
+const ER_DUP_ENTRY = 1062;
+
+/** A DATETIME literal in UTC, as Sequelize writes dates with the pool's +00:00 time zone (the column keeps whole seconds). */
+function sqlDate(date: Date): string {
+  return date.toISOString().slice(0, 23).replace('T', ' ');
+}
+
+/**
+ * Personalised probe items for one participant, recorded once; the reply as the JSON text that
+ * is stored and sent (the API answers it as is, a batch parses it).
+ * Idempotent: the same participant with the same responses gets the stored reply; different
+ * responses for a participant already served → 409 and nothing changes. Concurrency relies on
+ * the UNIQUE (study_id, participant_id) index: the insert is tried first, and a request that
+ * loses the race reads the winner's record back (no application locks).
+ */
+export async function serveProbeItemsJson(version: ServedVersion, participantId: string, responses: Record<string, string>, by: ServeSource): Promise<string> {
+  const { bank, locate } = bankOrInvalid(version);
+  let served: ServedItems;
+  try {
+    served = serveParticipant(version.content, bank, { participantId, responses, locate });
+  } catch (error) {
+    if (error instanceof ItemBankInputError) throw new ValidationError(error.issues, 'Some calibration responses are invalid.');
+    throw error;
+  }
+  const responsesHash = contentHash(responses);
+  const servedAt = new Date();
+  // Object.assign, not a spread plus fields: the latter is slow in Node 20's V8 (see pairItems).
+  const reply: ProbeItemsReply = Object.assign({}, served, { designHash: version.hash, servedAt: servedAt.toISOString() });
+  const json = JSON.stringify(reply);
+  const row = [version.studyId, version.id, participantId, responsesHash, JSON.stringify(responses), json, served.flag];
+  try {
+    // Plain single statements on the driver: the probe API's hot path, where a model instance
+    // or Sequelize's escaping of the 4 kB reply costs more than the query.
+    const result = by.source === 'api' ? await rawQuery(INSERT_VIA_KEY, [...row, sqlDate(servedAt), by.key.id]) : await rawQuery(INSERT_BY_USER, [...row, by.userId, sqlDate(servedAt)]);
+    if (result.affectedRows === 0 && by.source === 'api') {
+      // revoked (or deleted with its study) after this process cached it
+      markApiKeyRevoked(by.key);
+      throw new UnauthorizedError('This API key is unknown or has been revoked.');
+    }
+    return json;
+  } catch (error) {
+    if ((error as { errno?: number }).errno !== ER_DUP_ENTRY) throw error;
+  }
+  const [existing] = await rawQuery(READ_BACK, [version.studyId, participantId]);
+  if (!existing) throw new ConflictError('This participant is being served right now; try again.');
+  if (existing.responses_hash !== responsesHash || Number(existing.design_version_id) !== version.id) {
+    throw new ConflictError(`Participant ${participantId} was already served with different calibration responses (or another design version); their items stay as served.`);
+  }
+  return typeof existing.result === 'string' ? existing.result : JSON.stringify(existing.result);
+}
+
+/** serveProbeItemsJson's reply as an object (batch mode). */
+export async function serveProbeItems(version: ServedVersion, participantId: string, responses: Record<string, string>, by: ServeSource): Promise<ProbeItemsReply> {
+  return JSON.parse(await serveProbeItemsJson(version, participantId, responses, by)) as ProbeItemsReply;
+}
+
+/** A participant row as the study's participants page lists it. */
+export function participantJson(p: Participant) {
+  const result = p.result as unknown as ProbeItemsReply;
+  return {
+    id: p.id,
+    participantId: p.participantId,
+    designVersionId: p.designVersionId,
+    source: p.source,
+    flag: p.flag,
+    itemSet: result.itemSet,
+    kSmall: result.estimates.kSmall,
+    kLarge: result.estimates.kLarge,
+    extrapolation: result.extrapolation?.message ?? null,
+    attentionCheck: result.attentionCheck,
+    items: result.items,
+    servedAt: p.createdAt.toISOString(),
+  };
+}
+
+/** The study's participants, newest first (at most `limit`). */
+export async function listParticipants(studyId: number, limit = 500) {
+  db();
+  const rows = await Participant.findAll({ where: { studyId }, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit });
+  return rows.map(participantJson);
+}
+
+/** Participants as CSV: one row per item served, with the participant's estimates; formula-safe. */
+export function participantsCsv(participants: ReturnType<typeof participantJson>[]): string {
+  const rows = participants.flatMap((p) =>
+    p.items.map((item) => ({
+      participantId: p.participantId,
+      servedAt: p.servedAt,
+      source: p.source,
+      itemSet: p.itemSet,
+      flag: p.flag ?? '',
+      kSmall: p.kSmall.rate,
+      kSmallSeLog: p.kSmall.standardErrorLog ?? '',
+      kLarge: p.kLarge.rate,
+      kLargeSeLog: p.kLarge.standardErrorLog ?? '',
+      attentionCheck: p.attentionCheck,
+      extrapolation: p.extrapolation ?? '',
+      ...item,
+    })),
+  );
+  if (rows.length === 0) return 'participantId\n';
+  return `${new Parser({ defaultValue: '' }).parse(neutraliseRows(rows))}\n`;
+}

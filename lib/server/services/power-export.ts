@@ -1,0 +1,81 @@
+import { Parser } from '@json2csv/plainjs';
+import { figurePng } from '@/lib/server/figures/png';
+import { powerCurveSvg, type PowerSeries } from '@/lib/shared/figures/power-curve';
+import { PAIR_ROLES } from '@/lib/design/power/types';
+import { testWarning } from '@/lib/shared/validations/power';
+import { finishedResult, type PowerRunDto, type PowerResultDto } from './power-runs';
+
+export const EXPORT_FORMATS = ['svg', 'png', 'csv', 'json'] as const;
+export type ExportFormat = (typeof EXPORT_FORMATS)[number];
+
+/** A run's label for legends and file names: its own label, else the design and version. */
+export function runLabel(run: PowerRunDto): string {
+  return run.label || `${run.design.name} v${run.design.number}`;
+}
+
+function series(run: PowerRunDto, result: PowerResultDto): PowerSeries {
+  return { label: runLabel(run), points: result.summary.points };
+}
+
+/** The figure of one run, or of several on one chart (the first gives the title). */
+export function runFigureSvg(runs: Array<{ run: PowerRunDto; result: PowerResultDto }>): string {
+  const first = runs[0];
+  const caption =
+    runs.length === 1
+      ? `${first.run.spec.replications} replications, seed ${first.run.spec.seed}; ${first.result.software}; design ${first.run.design.hash.slice(0, 12)}.`
+      : `${first.result.software}.`;
+  const notes = [...new Set(runs.map((r) => testWarning(r.run.spec.test.kind)).filter((n): n is string => n !== null))];
+  return powerCurveSvg(
+    runs.map((r) => series(r.run, r.result)),
+    { title: runs.length === 1 ? `Power: ${runLabel(first.run)}` : 'Power: compared runs', caption, notes },
+  );
+}
+
+/** CSV, one row per sample size: power, interval, mean reversals, pattern shares per role, flags. */
+export function runCsv(run: PowerRunDto, result: PowerResultDto): string {
+  const rows = result.summary.points.map((p) => {
+    const row: Record<string, number | string> = {
+      n: p.n,
+      power: p.power,
+      wilson_lower: p.lower,
+      wilson_upper: p.upper,
+      rejections: p.rejections,
+      replicates: result.summary.replicates,
+      mean_reversals_per_participant: p.meanReversals,
+    };
+    for (const role of PAIR_ROLES) for (const pattern of ['LL', 'LS', 'SL', 'SS'] as const) row[`${role}_${pattern}`] = p.patterns[role][pattern];
+    row.flagged_share = p.flaggedShare;
+    row.fallback_share = p.fallbackShare;
+    row.probes_in_true_zone = p.probesInTrueZone;
+    row.design_hash = run.design.hash;
+    row.seed = run.spec.seed;
+    return row;
+  });
+  return new Parser().parse(rows);
+}
+
+/** Everything a reader needs to check a run: spec, design, results, method text, software. */
+export function runJson(run: PowerRunDto, result: PowerResultDto) {
+  return {
+    run: { id: run.id, label: run.label, createdAt: run.createdAt, finishedAt: run.finishedAt, engineVersion: run.engineVersion },
+    design: run.design,
+    spec: run.spec,
+    soonDelay: result.soonDelay,
+    software: result.software,
+    summary: result.summary,
+    methodText: result.methodText,
+  };
+}
+
+/** The body, content type and file name of a download. */
+export async function exportRun(studyId: number, runId: number, format: ExportFormat, compareWith: number[] = []) {
+  const main = await finishedResult(studyId, runId);
+  const base = `power-run-${runId}`;
+  if (format === 'csv') return { body: runCsv(main.run, main.result), type: 'text/csv; charset=utf-8', file: `${base}.csv` };
+  if (format === 'json') return { body: JSON.stringify(runJson(main.run, main.result), null, 2), type: 'application/json', file: `${base}.json` };
+  const others = await Promise.all(compareWith.filter((id) => id !== runId).map((id) => finishedResult(studyId, id)));
+  const svg = runFigureSvg([main, ...others]);
+  const name = others.length ? `${base}-compared` : base;
+  if (format === 'svg') return { body: svg, type: 'image/svg+xml', file: `${name}.svg` };
+  return { body: figurePng(svg), type: 'image/png', file: `${name}.png` };
+}

@@ -1,0 +1,61 @@
+import { z } from 'zod';
+import { designSpecSchema, type DesignSpec } from '@/lib/shared/validations/planner';
+import { DEFAULT_CHOICE_SENSITIVITY } from './types';
+
+/**
+ * What the design form holds: every control has a value at all times (the soon-delay bounds
+ * while "fixed" is chosen, s and β while another model is chosen), so switching back and forth
+ * loses nothing. `toSpec` keeps only what the chosen options use; the zod issue paths of the
+ * spec are the same as the form's field names.
+ */
+export type DesignFormValues = Omit<DesignSpec, 'model' | 'soonDelay' | 'choiceSensitivity'> & {
+  model: { id: DesignSpec['model']['id']; sensitivity: number; presentBias: number };
+  soonDelay: { mode: 'fixed' | 'optimised'; days: number; min: number; max: number };
+  choiceSensitivity: number;
+};
+
+const USES_S = new Set(['hyperboloid', 'power-delay', 'exponential-power']);
+
+/** The spec a form's values stand for (not yet validated). */
+export function toSpec(v: DesignFormValues): DesignSpec {
+  const model: DesignSpec['model'] = { id: v.model.id };
+  if (USES_S.has(v.model.id)) model.sensitivity = v.model.sensitivity;
+  if (v.model.id === 'quasi-hyperbolic') model.presentBias = v.model.presentBias;
+  const soonDelay: DesignSpec['soonDelay'] = v.soonDelay.mode === 'fixed' ? { mode: 'fixed', days: v.soonDelay.days } : { mode: 'optimised', min: v.soonDelay.min, max: v.soonDelay.max };
+  return { ...v, model, soonDelay, choiceSensitivity: v.choiceSensitivity };
+}
+
+/** Form values for a stored spec, with defaults for the controls the spec does not use. */
+export function toForm(spec: DesignSpec): DesignFormValues {
+  const soon = spec.soonDelay;
+  return {
+    ...spec,
+    model: { id: spec.model.id, sensitivity: spec.model.sensitivity ?? 1, presentBias: spec.model.presentBias ?? 0.9 },
+    soonDelay: soon.mode === 'fixed' ? { mode: 'fixed', days: soon.days, min: Math.max(1, Math.min(soon.days, 7)), max: Math.max(soon.days, 60) } : { mode: 'optimised', days: soon.min, min: soon.min, max: soon.max },
+    choiceSensitivity: spec.choiceSensitivity ?? DEFAULT_CHOICE_SENSITIVITY,
+  };
+}
+
+/** The form's schema: the design schema itself, applied to the spec the values stand for. */
+export const designFormSchema = z.preprocess((v: DesignFormValues) => toSpec(v), designSpecSchema);
+
+/** A sensible first draft for a new design on a prior set. */
+export function defaultSpec(name: string, priorSetId: number): DesignSpec {
+  return {
+    name,
+    priorSetId,
+    model: { id: 'hyperbolic' },
+    ratio: 0.6,
+    largeAmount: 100,
+    currency: 'EUR',
+    mode: 'personalised',
+    soonDelay: { mode: 'fixed', days: 14 },
+    lateDelayLimit: 730,
+    probePairs: 4,
+    lateAnchors: 2,
+    soonAnchors: 2,
+    criterion: 'gap-product',
+    calibration: { itemsPerMagnitude: 10, minDelay: 7, maxDelay: 365 },
+    choiceSensitivity: DEFAULT_CHOICE_SENSITIVITY,
+  };
+}
