@@ -30,6 +30,7 @@ const signUpClientLimiter = new FailureLimiter({ limit: 50, windowMs: 60 * 60_00
  * @throws ApiError 429 when the address or the client has used up its sign-ups.
  */
 export async function signUp(input: SignUpInput, clientAddress: string): Promise<{ mail: Promise<boolean> }> {
+  // Checked and counted before the slow hash, so a blocked flood costs no CPU.
   if (signUpEmailLimiter.isBlocked(input.email) || !signUpClientLimiter.tryAttempt(clientAddress)) {
     throw new ApiError(429, 'Too many sign-ups from here or for this address. Wait an hour and try again.');
   }
@@ -42,16 +43,21 @@ export async function signUp(input: SignUpInput, clientAddress: string): Promise
   } catch (error) {
     if (!(error instanceof UniqueConstraintError)) throw error;
   }
-  const account = created ? { id: created.id, email: created.email } : null;
-  const mail = account
-    ? sendAddressConfirmation(account).then((sent) => sent.delivery)
+  const mail = created
+    ? sendAddressConfirmation({ id: created.id, email: created.email }).then((sent) => sent.delivery, logSignUpMailFailure)
     : queueMail(accountExistsMessage({ to: input.email, signInLink: appLink('/sign-in'), resetLink: appLink('/forgot-password') }), 'an account-exists notice');
-  return { mail: mail.catch((error: unknown) => (console.error('[switchback] could not send a sign-up message:', error instanceof Error ? error.message : error), false)) };
+  return { mail };
+}
+
+/** The confirmation link could not be stored (the mail itself never throws): logged, not answered. */
+function logSignUpMailFailure(error: unknown): false {
+  console.error('[switchback] could not store an address confirmation:', error instanceof Error ? error.message : error);
+  return false;
 }
 
 /**
  * Changes a signed-in user's password after checking the current one (wrong guesses count
- * towards the sign-in limit of that e-mail and address). Every session, this one included, ends;
+ * towards the sign-in limits of the account and the client address). Every session, this one included, ends;
  * open reset links stop working; the change is audited in the same transaction.
  * @throws ValidationError naming currentPassword when it is wrong; ApiError 429 when blocked.
  */
