@@ -12,7 +12,7 @@ import { safeCallbackPath } from '@/lib/shared/callback-url';
 import { signInSchema, type SignInInput } from '@/lib/shared/validations/user';
 
 const MESSAGES: Record<string, string> = {
-  TooManyAttempts: 'Too many failed attempts for this address. Wait 15 minutes and try again.',
+  TooManyAttempts: 'Too many failed attempts for this account or from this connection. Wait 15 minutes and try again.',
   CredentialsSignin: 'That e-mail and password do not match an account.',
 };
 
