@@ -63,7 +63,7 @@ const bases: FrozenDesign[] = MODEL_CHOICES.flatMap((id) =>
   ),
 );
 
-describe('schema-accepted extremes never crash the planner or the item bank', () => {
+describe('schema-accepted extremes never crash the planner or the item bank', { timeout: 60_000 }, () => {
   for (const [field, values] of Object.entries(DESIGN_FIELDS)) {
     it(`${field}`, () => {
       const crashes: string[] = [];
@@ -84,7 +84,7 @@ describe('schema-accepted extremes never crash the planner or the item bank', ()
   }
 });
 
-describe('all fields at their extremes at once never crash the planner or the item bank', () => {
+describe('all fields at their extremes at once never crash the planner or the item bank', { timeout: 60_000 }, () => {
   const corners = {
     low: { ratio: Number.MIN_VALUE, largeAmount: Number.MIN_VALUE, choiceSensitivity: Number.MIN_VALUE, lateDelayLimit: 2, soonDelay: { mode: 'fixed', days: 0 }, probePairs: 1, lateAnchors: 0, soonAnchors: 0, calibration: { itemsPerMagnitude: 4, minDelay: 1, maxDelay: 2 } },
     high: { ratio: 0.9999999999999999, largeAmount: 1_000_000, choiceSensitivity: 1000, lateDelayLimit: 9131, soonDelay: { mode: 'optimised', min: 0, max: 365 }, probePairs: 20, lateAnchors: 10, soonAnchors: 10, calibration: { itemsPerMagnitude: 40, minDelay: 1, maxDelay: 9131 } },
@@ -131,7 +131,7 @@ const POWER_FIELDS: Record<string, number[]> = {
   'test.alpha': [...TINY, 0.5],
 };
 
-describe('schema-accepted extremes never crash a power simulation', () => {
+describe('schema-accepted extremes never crash a power simulation', { timeout: 60_000 }, () => {
   const content = design({ model: { id: 'hyperboloid', sensitivity: 0.8 } });
   for (const [field, values] of Object.entries(POWER_FIELDS)) {
     it(`${field}`, () => {
