@@ -1,3 +1,4 @@
+import { parseRouteId } from '@/lib/server/route-ids';
 import { ApiError } from '@/lib/server/errors';
 import { errorReply, jsonReply, type PlainReply } from '@/lib/server/http/error-reply';
 import { parseJsonText } from '@/lib/server/http/read-json';
@@ -27,7 +28,7 @@ export type ProbeItemsCall = {
  */
 export async function handleProbeItems(call: ProbeItemsCall): Promise<PlainReply> {
   try {
-    const key = await requireApiKey(call.authorization, /^\d{1,10}$/.test(call.studyId) ? Number(call.studyId) : -1);
+    const key = await requireApiKey(call.authorization, parseRouteId(call.studyId) ?? -1);
     const wait = probeRateLimiter.take(key.id);
     if (wait > 0) return jsonReply(429, { error: `Too many requests for this key; retry in ${wait} s.` }, { 'Retry-After': String(wait) });
     const body = parseJsonText(await call.readBody(), probeItemsRequestSchema);
