@@ -1,8 +1,9 @@
 // The production server that scripts/start.mjs and scripts/test.mjs run instead of `next start`:
 // the same Next app (`next({ dev: false })` over the build in .next, or NEXT_DIST_DIR), on one
-// node:http server, except that POST /api/v1/studies/{id}/probe-items is answered directly by
-// lib/server/http/direct-api.ts (the survey-facing hot path; Next's own request handling costs more
-// than the endpoint). Everything else, this endpoint's other methods included, goes to Next.
+// node:http server, except that the participant-session endpoints (GET …/calibration, POST
+// …/probe-items, POST …/stage2-answers under /api/v1/studies/{id}/, and their OPTIONS preflights)
+// are answered directly by lib/server/http/direct-api.ts (the survey-facing hot path; Next's own request
+// handling costs more than the endpoints). Everything else, their other methods included, goes to Next.
 //
 //   node scripts/serve.mjs [-H 127.0.0.1] [-p 3000]      (the port defaults to PORT, else 3000)
 //
@@ -56,5 +57,5 @@ server.on('error', (error) => {
   process.exit(1);
 });
 server.listen(port, hostname, () => {
-  console.log(`[switchback] serving ${path.relative(process.cwd(), ROOT) || '.'} on http://${hostname}:${port} (probe-items API answered directly)`);
+  console.log(`[switchback] serving ${path.relative(process.cwd(), ROOT) || '.'} on http://${hostname}:${port} (participant-session API answered directly)`);
 });

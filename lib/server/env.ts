@@ -39,6 +39,8 @@ const mailSchema = z.object({
 const probeApiSchema = z.object({
   PROBE_API_BURST: positiveOr(200),
   PROBE_API_PER_SECOND: positiveOr(100),
+  BROWSER_API_BURST: positiveOr(120),
+  BROWSER_API_PER_SECOND: positiveOr(30),
 });
 
 const powerSchema = z.object({
@@ -80,7 +82,10 @@ export function mailEnv() {
   return parse(mailSchema);
 }
 
-/** The probe-items API's rate limit per key: a burst, then a rate per second (defaults 200 and 100). */
+/**
+ * The participant API's rate limits per key: a burst, then a rate per second, for server keys
+ * (PROBE_API_*, defaults 200 and 100) and for browser keys (BROWSER_API_*, defaults 120 and 30).
+ */
 export function probeApiEnv() {
   return parse(probeApiSchema);
 }

@@ -57,4 +57,8 @@ export const apiPermissions: Record<string, Partial<Record<Method, Access>>> = {
   '/api/studies/[id]/participants/batch': { POST: 'operator' },
   '/api/v1/studies/[id]/probe-items': { POST: 'api-key' },
   '/api/v1/openapi.json': { GET: 'public' },
+  // Two-stage session API (issue 13): server and browser keys of the study; a browser key also
+  // needs the participant's session token and a listed origin (CORS preflights, OPTIONS, are public).
+  '/api/v1/studies/[id]/calibration': { GET: 'api-key' },
+  '/api/v1/studies/[id]/stage2-answers': { POST: 'api-key' },
 };
