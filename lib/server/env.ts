@@ -29,6 +29,16 @@ const authSchema = z.object({
   NEXTAUTH_SECRET: z.string().min(16, 'NEXTAUTH_SECRET must be at least 16 characters'),
 });
 
+const proxySchema = z.object({
+  // account security: the reverse proxies whose X-Forwarded-For is believed (addresses or CIDR
+  // ranges, comma-separated). Empty: rate limits count the address of the connection itself.
+  TRUSTED_PROXIES: z
+    .string()
+    .default('')
+    .transform((list) => list.split(',').map((entry) => entry.trim()).filter(Boolean))
+    .pipe(z.array(z.union([z.ipv4(), z.ipv6(), z.cidrv4(), z.cidrv6()], { error: 'list IP addresses or CIDR ranges, separated by commas' }))),
+});
+
 const mailSchema = z.object({
   SMTP_URL: optionalText,
   MAIL_FROM: optionalText.transform((v) => v ?? DEFAULT_FROM),
@@ -70,6 +80,13 @@ export function databaseEnv() {
 /** The session-signing secret (NEXTAUTH_SECRET), parsed once. */
 export function authEnv() {
   return (auth ??= parse(authSchema));
+}
+
+let proxies: z.infer<typeof proxySchema> | undefined;
+
+/** The reverse proxies whose X-Forwarded-For is believed (TRUSTED_PROXIES), parsed once. */
+export function proxyEnv() {
+  return (proxies ??= parse(proxySchema));
 }
 
 /**
