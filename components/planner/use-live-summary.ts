@@ -17,9 +17,17 @@ export function useLiveSummary(spec: DesignSpec | null, prior: PriorValues | nul
   const gamma = spec?.choiceSensitivity ?? DEFAULT_CHOICE_SENSITIVITY;
   // eslint-disable-next-line react-hooks/exhaustive-deps -- keyed on the prior's values
   const draws = useMemo(() => (prior ? priorDraws(prior) : null), [priorKey]);
-  // eslint-disable-next-line react-hooks/exhaustive-deps -- keyed on the prior's values and γ
-  const nodes = useMemo(() => (prior ? expectationNodes(prior, gamma) : null), [priorKey, gamma]);
-  const points = useMemo(() => (draws && nodes ? { draws, nodes } : null), [draws, nodes]);
+  // (a γ or prior the core refuses leaves the nodes to computeDesignSummary, which reports the error below)
+  const nodes = useMemo(() => {
+    if (!prior) return null;
+    try {
+      return expectationNodes(prior, gamma);
+    } catch {
+      return null;
+    }
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- keyed on the prior's values and γ
+  }, [priorKey, gamma]);
+  const points = useMemo(() => (draws ? { draws, ...(nodes ? { nodes } : {}) } : null), [draws, nodes]);
   const specKey = spec ? JSON.stringify(spec) : '';
   return useMemo(() => {
     if (!spec || !prior || !points) return { summary: null, error: null };
