@@ -9,7 +9,7 @@ import { ApiClientError, apiFetch } from './api';
 
 export type FrozenVersionDto = { id: number; number: number; hash: string; designName: string; mode: 'personalised' | 'population'; currency: string; frozenAt: string };
 export type ItemBankPreviewDto = {
-  header: { study: { id: number; name: string }; designVersion: { id: number; number: number; hash: string; name: string }; mode: string; seed: number; currency: string; delayUnit: string; amountUnit: number; minGap: number; probeGap: number };
+  header: { study: { id: number; name: string }; designVersion: { id: number; number: number; hash: string; name: string }; mode: string; seed: number; currency: string; delayUnit: string; amountUnit: number; minGap: number; probeGap: number; itemBankId: string };
   designPoint: { kSmall: number; kLarge: number; soonDelay: number; lateDelay: number };
   probeRule: string | null;
   items: BankItem[];

@@ -16,6 +16,7 @@ test.afterAll(async () => {
 });
 
 test('a static starter page on another origin runs a whole session with a browser key, and the answers are in the database', async ({ page, browser }) => {
+  test.setTimeout(180_000); // some 40 choices, each a round of the page and, in stage 2, a call
   await signInAs(page, 'operator');
   await openDemoStudy(page);
   const studyId = new URL(page.url()).pathname.split('/')[2];
@@ -49,12 +50,13 @@ test('a static starter page on another origin runs a whole session with a browse
   let clicks = 0;
   for (;;) {
     const done = participant.getByTestId('done');
-    const option = participant.locator('button[data-choice]').first();
+    // an item whose buttons take a click (after a click they stay disabled until the next item is shown)
+    const option = participant.locator('button[data-choice]:not([disabled])').first();
     await expect(done.or(option)).toBeVisible({ timeout: 20_000 });
     if (await done.isVisible()) break;
     // a consistent chooser: later for the first magnitude's cheap delays, sooner otherwise (any answers will do for the plumbing)
     const choice = clicks % 3 === 0 ? 'sooner' : 'later';
-    await participant.locator(`button[data-choice="${choice}"]`).click();
+    await participant.locator(`button[data-choice="${choice}"]:not([disabled])`).click();
     clicks++;
     if (clicks === 6) {
       await participant.reload(); // resumes where the participant was
