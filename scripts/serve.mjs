@@ -11,6 +11,7 @@
 import { createServer } from 'node:http';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { announcePeerStamping, stampPeerAddress } from './peer-address.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -38,7 +39,12 @@ await app.prepare(); // runs instrumentation.ts's register(), as `next start` do
 const { tsImport } = await import('tsx/esm/api');
 const { answerDirect } = await tsImport('../lib/server/http/direct-api.ts', import.meta.url);
 
+// Rate limits count the connection's address, which Next's route handlers cannot see: it is handed
+// over in a header of our own that no client can set (scripts/peer-address.mjs).
+announcePeerStamping();
+
 const server = createServer((request, response) => {
+  stampPeerAddress(request);
   if (answerDirect(request, response)) return;
   handle(request, response);
 });

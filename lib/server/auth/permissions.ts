@@ -31,6 +31,9 @@ export const apiPermissions: Record<string, Partial<Record<Method, Access>>> = {
   '/api/account/notices': { GET: 'signed-in', PUT: 'signed-in' },
   '/api/account/password': { PUT: 'signed-in' },
   '/api/mailbox': { GET: 'signed-in' },
+  // account security: confirming an address (the link's token is the proof) and asking for a new link
+  '/api/email-confirmation': { POST: 'public' },
+  '/api/email-confirmation/resend': { POST: 'signed-in' },
   // planner: viewers read; editors write; any member may comment
   '/api/studies/[id]/priors': { GET: 'viewer', POST: 'editor' },
   '/api/studies/[id]/priors/pilot': { POST: 'editor' },
