@@ -13,7 +13,6 @@ import { requireParticipantToken, startSession } from '@/lib/server/services/ses
 import { parseRouteId } from '@/lib/server/route-ids';
 import { probeApiEnv } from '@/lib/server/env';
 
-
 /** One request to a participant-session endpoint, without a framework (the Next routes and serve.mjs build it). */
 export type SessionCall = {
   /** the `{id}` segment of /api/v1/studies/{id}/…, as given */
