@@ -8,12 +8,14 @@ import { ApiKey, Participant } from './item-bank';
 import { Invitation, NoticeSetting, PasswordResetToken } from './team';
 import { PowerRun } from './power';
 import { ParticipantSession, Stage2Answer } from './session';
+import { Analysis } from './analysis';
 
 export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
 export { ApiKey, Participant };
 export { Invitation, PasswordResetToken, NoticeSetting };
 export { PowerRun };
 export { ParticipantSession, Stage2Answer };
+export { Analysis };
 
 /**
  * Registers every model and association on one Sequelize instance. A new model is added here
@@ -36,6 +38,7 @@ export function registerModels(sequelize: Sequelize): void {
   PowerRun.register(sequelize);
   ParticipantSession.register(sequelize);
   Stage2Answer.register(sequelize);
+  Analysis.register(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });
