@@ -2,7 +2,8 @@ import { QueryTypes } from 'sequelize';
 import { ApiKey, Participant, Stage2Answer } from '@/db/models';
 import { db } from '@/db';
 import { ApiError, ValidationError } from '@/lib/server/errors';
-import { applyExclusions, type BankItem, type CalibrationChoice, type ExclusionRules, type ObservedPair, type ParticipantData } from '@/lib/design';
+import { applyExclusions, type ExclusionRules, type ParticipantData } from '@/lib/design';
+import { participantData } from '@/lib/shared/results/participant-data';
 import { bankFor } from '@/lib/shared/item-bank-plan';
 import { listed, parseChoicesCsv, type ChoiceIssue, type ChoiceRow } from '@/lib/shared/results/choices-csv';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
@@ -148,37 +149,13 @@ export async function loadStudyData(studyId: number, version: { id: number; hash
   const units = new Map((await ApiKey.findAll({ where: { id: keyIds }, attributes: ['id', 'delayUnit'] })).map((k) => [k.id, k.delayUnit]));
   return people.map((p) => {
     const bank = bankFor(version, { delayUnit: p.apiKeyId !== null ? units.get(p.apiKeyId) : undefined }).bank;
-    const result = p.result as { items?: BankItem[]; flag?: string | null; attentionCheck?: ParticipantData['attentionCheck'] };
-    const given = byPerson.get(p.id) ?? new Map();
-    const calibration: CalibrationChoice[] = bank.items
-      .filter((i) => i.role === 'calibration')
-      .map((i) => {
-        const value = p.responses[i.id];
-        return { itemId: i.id, magnitude: i.magnitude!, soonerAmount: i.soonerAmount, soonerDelay: i.soonerDelay, laterAmount: i.laterAmount, laterDelay: i.laterDelay, choice: value === 'later' || value === 'sooner' ? value : null };
-      });
-    const pairs = new Map<string, Partial<ObservedPair>>();
-    for (const item of result.items ?? []) {
-      if (!item.pairId || !item.view || (item.role !== 'reversal-probe' && item.role !== 'late-anchor' && item.role !== 'soon-anchor')) continue;
-      const answer = given.get(item.id);
-      const pair = pairs.get(item.pairId) ?? { pairId: item.pairId, role: item.role };
-      pair[item.view] = {
-        itemId: item.id,
-        soonerAmount: item.soonerAmount,
-        soonerDelay: item.soonerDelay,
-        laterAmount: item.laterAmount,
-        laterDelay: item.laterDelay,
-        choice: answer ? (answer.chosen === 'LL' ? 'later' : 'sooner') : null,
-        responseTimeMs: answer?.responseMs ?? null,
-      };
-      pairs.set(item.pairId, pair);
-    }
-    return {
+    return participantData({
       participantId: p.participantId,
-      calibration,
-      pairs: [...pairs.values()].filter((q): q is ObservedPair => q.far !== undefined && q.near !== undefined),
-      attentionCheck: result.attentionCheck ?? 'not-answered',
-      estimateFlag: result.flag ?? null,
-    };
+      calibrationItems: bank.items,
+      responses: p.responses,
+      served: p.result as Parameters<typeof participantData>[0]['served'],
+      answers: byPerson.get(p.id) ?? new Map(),
+    });
   });
 }
 
