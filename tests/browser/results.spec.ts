@@ -18,6 +18,8 @@ test.describe('results', () => {
     await expect(page.getByTestId('results-paragraph')).toContainText('not a clinical assessment');
     await expect(page.getByText('Secondary: pooled exact McNemar (assumes independent pairs)')).toBeVisible();
     await page.screenshot(shot('results-demo'));
+    await page.getByTestId('patterns-chart').screenshot({ path: 'tests/artifacts/screens/results-patterns-chart.png' });
+    await page.getByTestId('zones-chart').screenshot({ path: 'tests/artifacts/screens/results-zones-chart.png' });
 
     const downloads = page.getByTestId('analysis-downloads');
     const [csv] = await Promise.all([page.waitForEvent('download'), downloads.getByRole('link', { name: 'CSV' }).click()]);
@@ -38,9 +40,10 @@ test.describe('results', () => {
     await openDemoStudy(page);
     await page.getByRole('navigation', { name: 'Study sections' }).getByRole('link', { name: 'Results' }).click();
     await expect(page.getByTestId('observed-summary')).toContainText('participants served with this version', { timeout: 30_000 });
-    await expect(page.getByText(/Failed attention check — applies to 2, removes 2/)).toBeVisible();
+    await expect(page.getByText(/Failed attention check\s*— applies to 2, removes 2/)).toBeVisible();
     await page.getByRole('button', { name: 'Run and save the analysis' }).click();
-    await expect(page.getByLabel('Analysis')).toContainText('Main analysis, version 2', { timeout: 60_000 });
+    await expect(page.getByRole('heading', { name: 'Main analysis, version 2' })).toBeVisible({ timeout: 60_000 });
+    await expect(page.getByLabel('Analysis', { exact: true })).toContainText('Main analysis, version 2');
     await expect(page.getByTestId('patterns-chart').locator('svg')).toBeVisible();
     await page.screenshot(shot('results-new-version'));
   });
