@@ -8,6 +8,8 @@ import { ApiKey, Participant } from './item-bank';
 import { Invitation, NoticeSetting, PasswordResetToken } from './team';
 import { PowerRun } from './power';
 import { ParticipantSession, Stage2Answer } from './session';
+// account security: address confirmation and signed-out sessions
+import { EmailConfirmationToken, EndedSession } from './account';
 import { Analysis } from './analysis';
 
 export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
@@ -15,6 +17,7 @@ export { ApiKey, Participant };
 export { Invitation, PasswordResetToken, NoticeSetting };
 export { PowerRun };
 export { ParticipantSession, Stage2Answer };
+export { EmailConfirmationToken, EndedSession };
 export { Analysis };
 
 /**
@@ -36,6 +39,8 @@ export function registerModels(sequelize: Sequelize): void {
   PasswordResetToken.register(sequelize);
   NoticeSetting.register(sequelize);
   PowerRun.register(sequelize);
+  EmailConfirmationToken.register(sequelize);
+  EndedSession.register(sequelize);
   ParticipantSession.register(sequelize);
   Stage2Answer.register(sequelize);
   Analysis.register(sequelize);
