@@ -69,4 +69,6 @@ export const apiPermissions: Record<string, Partial<Record<Method, Access>>> = {
   // needs the participant's session token and a listed origin (CORS preflights, OPTIONS, are public).
   '/api/v1/studies/[id]/calibration': { GET: 'api-key' },
   '/api/v1/studies/[id]/stage2-answers': { POST: 'api-key' },
+  '/api/studies/[id]/item-bank/[versionId]/starter': { GET: 'operator' },
+  '/api/studies/[id]/sessions': { GET: 'viewer', PATCH: 'operator' },
 };

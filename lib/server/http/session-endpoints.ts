@@ -11,7 +11,6 @@ import { withCors } from '@/lib/server/http/cors';
 import { recordStage2Answers } from '@/lib/server/services/stage2-answers';
 import { requireParticipantToken, startSession } from '@/lib/server/services/session-tokens';
 
-
 /** One request to a participant-session endpoint, without a framework (the Next routes and serve.mjs build it). */
 export type SessionCall = {
   /** the `{id}` segment of /api/v1/studies/{id}/…, as given */
