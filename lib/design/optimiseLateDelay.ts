@@ -91,19 +91,48 @@ function solveOne(input: PairInput): boolean {
  * four outputs for an empty zone or d = 0. One loop per model around the same kernels the single
  * solve runs, so both entry points agree to the last bit and each loop stays monomorphic.
  */
-export function solveRange(id: ModelId, s: number, beta: number, x: Float64Array, d: Float64Array, k: Float64Array, K: Float64Array, o: OptimumArrays, n: number): void {
+export function solveRange(
+  id: ModelId,
+  s: number,
+  beta: number,
+  x: Float64Array,
+  d: Float64Array,
+  k: Float64Array,
+  K: Float64Array,
+  o: OptimumArrays,
+  n: number,
+  fail: (i: number) => never,
+): void {
+  // each element is checked as it is read (the single solve's comparisons; NaN fails each), so the
+  // inputs are read once: a bad element stops the loop with the outputs before it already written
   switch (id) {
     case 'hyperbolic':
-      for (let i = 0; i < n; i++) if (!(d[i] !== 0 && hyperbolicOptimum(x[i], d[i], k[i], K[i], o, i))) empty(o, i);
+      for (let i = 0; i < n; i++) {
+        const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
+        if (!(xi > 0 && xi < 1 && di >= 0 && di < Infinity && ki > 0 && ki < Infinity && Ki > 0 && Ki < Infinity)) fail(i);
+        if (!(di !== 0 && hyperbolicOptimum(xi, di, ki, Ki, o, i))) empty(o, i);
+      }
       return;
     case 'exponential':
-      for (let i = 0; i < n; i++) if (!(d[i] !== 0 && exponentialOptimum(x[i], d[i], k[i], K[i], o, i))) empty(o, i);
+      for (let i = 0; i < n; i++) {
+        const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
+        if (!(xi > 0 && xi < 1 && di >= 0 && di < Infinity && ki > 0 && ki < Infinity && Ki > 0 && Ki < Infinity)) fail(i);
+        if (!(di !== 0 && exponentialOptimum(xi, di, ki, Ki, o, i))) empty(o, i);
+      }
       return;
     case 'quasi-hyperbolic':
-      for (let i = 0; i < n; i++) if (!(d[i] !== 0 && presentBiasOptimum(x[i], d[i], k[i], K[i], beta, o, i))) empty(o, i);
+      for (let i = 0; i < n; i++) {
+        const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
+        if (!(xi > 0 && xi < 1 && di >= 0 && di < Infinity && ki > 0 && ki < Infinity && Ki > 0 && Ki < Infinity)) fail(i);
+        if (!(di !== 0 && presentBiasOptimum(xi, di, ki, Ki, beta, o, i))) empty(o, i);
+      }
       return;
     default:
-      for (let i = 0; i < n; i++) if (!(d[i] !== 0 && numericalInto(id, s, x[i], d[i], k[i], K[i], o, i))) empty(o, i);
+      for (let i = 0; i < n; i++) {
+        const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
+        if (!(xi > 0 && xi < 1 && di >= 0 && di < Infinity && ki > 0 && ki < Infinity && Ki > 0 && Ki < Infinity)) fail(i);
+        if (!(di !== 0 && numericalInto(id, s, xi, di, ki, Ki, o, i))) empty(o, i);
+      }
   }
 }
 

@@ -33,9 +33,10 @@ const OUTPUTS = ['lower', 'upper', 'lateDelay', 'gapProduct'] as const;
  * path to the last bit; see optimiseLateDelay for the formulas and their sources), and NaN in all
  * four outputs where optimiseLateDelay returns null (empty zone, or d = 0).
  *
- * The model is checked once and the arrays in one pass before any solve, so a bad element costs
- * no work and the error names it (the first bad index, and its first bad field); no object is made
- * per element. With `out` the results are written
+ * The model and the arrays' types and lengths are checked once; each element is checked as it is
+ * read, with the single solve's comparisons, so the inputs are read once and a bad element stops
+ * the batch with an error naming its index and field (outputs before it are already written). No
+ * object is made per element. With `out` the results are written
  * into the caller's arrays (reuse them across calls to avoid allocation).
  *
  * @param model the discount model and its shape parameters (as for optimiseLateDelay)
@@ -57,14 +58,6 @@ export function optimiseLateDelayBatch(model: ModelSpec, input: LateDelayBatchIn
   for (const field of FIELDS) {
     if (input[field].length !== n) throw new DesignInputError(field, `a Float64Array of the same length as ratio (${n})`, input[field].length);
   }
-  // one pass over all four arrays, with the single solve's comparisons (NaN fails each of them)
-  for (let i = 0; i < n; i++) {
-    const x = ratio[i];
-    const d = soonDelay[i];
-    const k = kSmall[i];
-    const K = kLarge[i];
-    if (!(x > 0 && x < 1 && d >= 0 && d < Infinity && k > 0 && k < Infinity && K > 0 && K < Infinity)) fail(i, x, d, k, K);
-  }
   const result = out ?? { lower: new Float64Array(n), upper: new Float64Array(n), lateDelay: new Float64Array(n), gapProduct: new Float64Array(n) };
   if (out !== undefined) {
     if (out === null || typeof out !== 'object') throw new DesignInputError('out', 'an object of Float64Arrays { lower, upper, lateDelay, gapProduct }', out);
@@ -72,7 +65,7 @@ export function optimiseLateDelayBatch(model: ModelSpec, input: LateDelayBatchIn
       if (!(out[field] instanceof Float64Array && out[field].length >= n)) throw new DesignInputError(`out.${field}`, `a Float64Array of length ${n} or more`, out[field]?.length);
     }
   }
-  solveRange(model.id, model.sensitivity ?? 1, model.presentBias ?? 1, ratio, soonDelay, kSmall, kLarge, result, n);
+  solveRange(model.id, model.sensitivity ?? 1, model.presentBias ?? 1, ratio, soonDelay, kSmall, kLarge, result, n, (i) => fail(i, ratio[i], soonDelay[i], kSmall[i], kLarge[i]));
   return result;
 }
 

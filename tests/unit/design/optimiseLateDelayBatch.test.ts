@@ -64,7 +64,7 @@ describe('optimiseLateDelayBatch', () => {
     expect(optimiseLateDelayBatch({ id: 'hyperbolic' }, { ratio: none, soonDelay: none, kSmall: none, kLarge: none }).lower.length).toBe(0);
   });
 
-  it('names the first bad index of each array, before solving anything', () => {
+  it('names the first bad index, and the first bad field at that index', () => {
     const input = sweep(7, 100);
     const bad = (field: 'ratio' | 'soonDelay' | 'kSmall' | 'kLarge', at: number, value: number) => {
       const copy = { ...input, [field]: Float64Array.from(input[field]) };
@@ -87,6 +87,13 @@ describe('optimiseLateDelayBatch', () => {
     expect(bad('kSmall', 12, 0).message).toBe('kSmall[12] must be a finite number greater than 0 (per day) (received 0)');
     expect(bad('kLarge', 96, Infinity).message).toBe('kLarge[96] must be a finite number greater than 0 (per day) (received Infinity)');
     expect(bad('kLarge', 3, NaN).field).toBe('kLarge[3]');
+    // two arrays bad at different places: the earlier index wins; at one index, the fields in the order ratio, soonDelay, kSmall, kLarge
+    const both = { ...input, ratio: Float64Array.from(input.ratio), kLarge: Float64Array.from(input.kLarge) };
+    both.ratio[60] = 2;
+    both.kLarge[20] = -1;
+    expect(() => optimiseLateDelayBatch({ id: 'exponential' }, both)).toThrow('kLarge[20] must be');
+    both.ratio[20] = 2;
+    expect(() => optimiseLateDelayBatch({ id: 'hyperboloid', sensitivity: 0.5 }, both)).toThrow('ratio[20] must be');
   });
 
   it('refuses a bad model, arrays of another type or length, and output arrays that are too short', () => {
