@@ -8,7 +8,7 @@ import { POST as cancelRun } from '@/app/api/studies/[id]/power-runs/[runId]/can
 import { Design, DesignVersion, PriorSet } from '@/db/models';
 import { contentHash } from '@/lib/shared/canonical-json';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
-import { design } from '../unit/item-bank/fixtures';
+import { frozenDesign as design } from '../support/frozen-design';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs, type TestUser } from '../support/integration';
 
 const saved = { server: process.env.POWER_MAX_RUNS_PER_SERVER, study: process.env.POWER_MAX_RUNS_PER_STUDY };

@@ -1,3 +1,4 @@
+import { configuredOrigin } from '@/lib/server/env';
 import { ForbiddenError } from '@/lib/server/errors';
 
 // Cross-site request forgery: a page on another port or subdomain of the same host is "same-site",
@@ -28,17 +29,6 @@ export function isStateChanging(method: string): boolean {
 /** The media type of a Content-Type header, lower case and without parameters ('' when absent). */
 export function mediaType(contentType: string | null): string {
   return (contentType ?? '').split(';')[0]!.trim().toLowerCase();
-}
-
-/** The configured public origin (NEXTAUTH_URL), if any; links in e-mails use it too. */
-function configuredOrigin(): string | null {
-  const url = process.env.NEXTAUTH_URL;
-  if (!url) return null;
-  try {
-    return new URL(url).origin;
-  } catch {
-    return null;
-  }
 }
 
 /**

@@ -7,6 +7,7 @@ import { notifyPowerRunFinished } from './notices';
 import { buildScenario, runResult } from '@/lib/shared/power-scenario';
 import { powerRunLimits } from '@/lib/server/env';
 import { runScenario } from '@/lib/server/jobs/power/run-scenario';
+import { decodeJson } from '@/db/json';
 
 type RunState = { cancel: boolean; studyId: number };
 type Waiting = { runId: number; studyId: number; workers?: number; done: () => void };
@@ -21,9 +22,6 @@ const waiting = (holder.switchbackPowerQueue ??= []);
 export const HEARTBEAT_MS = 2000;
 export const STALE_MS = 20_000;
 
-function json<T>(value: T | string): T {
-  return typeof value === 'string' ? (JSON.parse(value) as T) : value;
-}
 
 /** Asks this process to stop a run before its next chunk, or drops it from the queue. */
 export function requestCancel(runId: number): void {
@@ -136,8 +134,8 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
       .catch((error) => console.warn(`[switchback] power run ${runId}: heartbeat not written (${error instanceof Error ? error.message : error})`)); // the next beat retries
   }, HEARTBEAT_MS);
   try {
-    const spec = json<PowerRunSpec>(run.spec);
-    const scenario = buildScenario(spec, json<FrozenDesign>(version.content));
+    const spec = decodeJson<PowerRunSpec>(run.spec);
+    const scenario = buildScenario(spec, decodeJson<FrozenDesign>(version.content));
     let lastWrite = 0;
     const outcome = await runScenario(scenario, {
       workers: options.workers,
@@ -152,7 +150,7 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
       },
     });
     if (!outcome) return; // cancelled: the cancel already wrote the status
-    const result: object = runResult(scenario, outcome, { number: version.number, hash: version.hash, content: json<FrozenDesign>(version.content) });
+    const result: object = runResult(scenario, outcome, { number: version.number, hash: version.hash, content: decodeJson<FrozenDesign>(version.content) });
     const [stored] = await PowerRun.update(
       {
         status: 'finished',

@@ -10,7 +10,7 @@ import { computeDesignSummary } from '@/lib/shared/planner/summary';
 import { buildScenario } from '@/lib/shared/power-scenario';
 import { frozenDesignSchema, MODEL_CHOICES, type FrozenDesign } from '@/lib/shared/validations/planner';
 import { powerRunSpecSchema } from '@/lib/shared/validations/power';
-import { design, HASH } from '../item-bank/fixtures';
+import { frozenDesign as design, HASH } from '../../support/frozen-design';
 
 const TINY = [Number.MIN_VALUE, 1e-300, 1e-12];
 
