@@ -159,7 +159,7 @@ describe('saved analyses', () => {
     expect(csv.headers.get('content-type')).toContain('text/csv');
     const text = await csv.text();
     expect(text).toContain('not a clinical assessment');
-    expect(text.split('\n').filter((l) => l.startsWith('"R-')).length).toBe(4 * 6);
+    expect(text.split('\r\n').filter((l) => l.startsWith('R-')).length).toBe(4 * 6);
     const json = await (await get('json')).json();
     expect(json.caution).toContain('not a clinical assessment');
     expect(await (await get('patterns.svg')).text()).toContain('<svg');

@@ -45,4 +45,4 @@ export const POST = route<Params>(async (request, { params }) => {
   const { user, study } = await requireRole(request, (await params).id, 'operator');
   const text = await readBodyText(request, CHOICES_MAX_BYTES, 'The file is larger than 5 MB; upload at most 100,000 rows, or split it by participant.');
   return NextResponse.json({ report: await uploadChoices(study.id, user.id, text) });
-});
+}, { bodyTypes: ['text/csv'] });
