@@ -41,7 +41,7 @@ export async function seed(sequelize: Sequelize): Promise<void> {
   const scenario = buildScenario(spec, content);
   const simulator = createPowerSimulator(scenario);
   const tally = simulator.run(0, spec.replications);
-  const result: object = runResult(scenario, { tally, longestCalibrationDelay: simulator.longestCalibrationDelay }, { number: version.number, hash: version.hash, content });
+  const result: object = runResult([scenario], [{ tally, longestCalibrationDelay: simulator.longestCalibrationDelay }], { number: version.number, hash: version.hash, content });
   const now = new Date();
   await sequelize.transaction(async (transaction) => {
     const run = await PowerRun.create(

@@ -1,6 +1,6 @@
 import { optimiseLateDelay } from '@/lib/design/optimiseLateDelay';
 import { locateFor } from './item-bank-plan';
-import { methodText, POWER_ENGINE_VERSION, summarisePower, type PowerSummary, type PowerTally } from '@/lib/design/power';
+import { describeStress, methodText, POWER_ENGINE_VERSION, stressScenarios, summarisePower, type PowerSummary, type PowerTally, type PowerWarning, type StressTruth } from '@/lib/design/power';
 import type { PowerScenario } from '@/lib/design/power/types';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpec } from '@/lib/shared/validations/power';
@@ -45,17 +45,64 @@ export function buildScenario(spec: PowerRunSpec, content: FrozenDesign): PowerS
   };
 }
 
-/** What a finished run stores as its result: the summary, the method paragraph, the software and the soon delay used. */
+/** The engine's scenarios of a run: the assumed truth first, then one per stress truth (runs saved before stress truths have none). */
+export function buildScenarios(spec: PowerRunSpec, content: FrozenDesign): PowerScenario[] {
+  return stressScenarios(buildScenario(spec, content), spec.stress ?? []);
+}
+
+/** Power under one stress truth, as a finished run stores it. */
+export type StressResult = { stress: StressTruth; label: string; summary: PowerSummary };
+
+export type PowerRunResult = { summary: PowerSummary; methodText: string; software: string; soonDelay: number; stress: StressResult[] };
+
+/**
+ * What a finished run stores as its result: the summary under the assumed truth, one per
+ * stress truth, the method paragraph, the software and the soon delay used. Under a stress
+ * truth that draws delay sensitivity below 1, the share of probe pairs outside the true zone is
+ * reported as a warning of the assumed summary: the extrapolation risk, simulated, not a rule.
+ */
 export function runResult(
-  scenario: PowerScenario,
-  outcome: { tally: PowerTally; longestCalibrationDelay: number | null },
+  scenarios: readonly PowerScenario[],
+  outcomes: ReadonlyArray<{ tally: PowerTally; longestCalibrationDelay: number | null }>,
   version: { number: number; hash: string; content: FrozenDesign },
-): { summary: PowerSummary; methodText: string; software: string; soonDelay: number } {
-  const summary = summarisePower(scenario, outcome.tally, outcome.longestCalibrationDelay);
-  const text = methodText(scenario, summary, {
-    software: POWER_SOFTWARE,
-    designLabel: `${version.content.spec.name}, frozen version ${version.number}`,
-    designHash: version.hash,
-  });
-  return { summary, methodText: text, software: POWER_SOFTWARE, soonDelay: scenario.design.soonDelay };
+  stress: readonly StressTruth[] = [],
+): PowerRunResult {
+  const summary = summarisePower(scenarios[0], outcomes[0].tally, outcomes[0].longestCalibrationDelay);
+  const stressed = stress.map((s, i): StressResult => ({
+    stress: s,
+    label: describeStress(s),
+    summary: summarisePower(scenarios[i + 1], outcomes[i + 1].tally, outcomes[i + 1].longestCalibrationDelay),
+  }));
+  summary.warnings.push(...stressWarnings(summary, stressed));
+  const text = methodText(
+    scenarios[0],
+    summary,
+    { software: POWER_SOFTWARE, designLabel: `${version.content.spec.name}, frozen version ${version.number}`, designHash: version.hash },
+    stressed,
+  );
+  return { summary, methodText: text, software: POWER_SOFTWARE, soonDelay: scenarios[0].design.soonDelay, stress: stressed };
+}
+
+function pct(v: number): string {
+  return `${(Math.round(v * 1000) / 10).toFixed(1)} %`;
+}
+
+function stressWarnings(assumed: PowerSummary, stressed: readonly StressResult[]): PowerWarning[] {
+  const warnings: PowerWarning[] = [];
+  const last = assumed.points[assumed.points.length - 1];
+  for (const s of stressed) {
+    const point = s.summary.points[s.summary.points.length - 1];
+    if (s.stress.kind === 'delay-sensitivity') {
+      warnings.push({
+        kind: 'extrapolation-risk',
+        message:
+          `Under delay sensitivity drawn from U(${s.stress.low}, ${s.stress.high}), ${pct(1 - point.probesInTrueZone)} of probe pairs fell outside the participants' true reversal zone ` +
+          `(${pct(1 - last.probesInTrueZone)} under the assumed truth; simulated at N = ${point.n}).`,
+      });
+    }
+    if (last.power - point.power > 0.1) {
+      warnings.push({ kind: 'stress', message: `Under ${s.label}, power at N = ${point.n} drops to ${pct(point.power)} (assumed truth: ${pct(last.power)}).` });
+    }
+  }
+  return warnings;
 }
