@@ -65,6 +65,11 @@ export function ItemBankPage() {
                 Design {preview.data.header.designVersion.name} v{preview.data.header.designVersion.number} · hash <span className="font-mono">{preview.data.header.designVersion.hash.slice(0, 16)}…</span> · seed {preview.data.header.seed} · amounts rounded to {preview.data.header.amountUnit} {preview.data.header.currency}
               </p>
               {preview.data.extrapolation ? <Notice tone="warning" title="Probe delays beyond the calibration range">{preview.data.extrapolation.message}</Notice> : null}
+              {preview.data.extrapolationRisk ? (
+                <Notice tone={preview.data.extrapolationRisk.outside > 0.5 ? 'warning' : 'info'} title="If delay sensitivity is below 1">
+                  <span data-testid="extrapolation-risk">{preview.data.extrapolationRisk.message}</span>
+                </Notice>
+              ) : null}
               {preview.data.notes.map((n) => (
                 <Notice key={n} tone="warning">
                   {n}

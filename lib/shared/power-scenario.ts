@@ -1,9 +1,9 @@
 import { optimiseLateDelay } from '@/lib/design/optimiseLateDelay';
 import { locateFor } from './item-bank-plan';
-import { describeStress, methodText, POWER_ENGINE_VERSION, stressScenarios, summarisePower, type PowerSummary, type PowerTally, type PowerWarning, type StressTruth } from '@/lib/design/power';
+import { createPowerSimulator, describeStress, methodText, POWER_ENGINE_VERSION, STRESS_DEFAULTS, stressScenarios, summarisePower, type PowerSummary, type PowerTally, type PowerWarning, type StressTruth } from '@/lib/design/power';
 import type { PowerScenario } from '@/lib/design/power/types';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
-import type { PowerRunSpec } from '@/lib/shared/validations/power';
+import { assumedTruth, type PowerRunSpec } from '@/lib/shared/validations/power';
 import packageJson from '@/package.json';
 
 /** "Switchback 0.1.0 (power engine 1)": the software version every run and method text cites. */
@@ -105,4 +105,65 @@ function stressWarnings(assumed: PowerSummary, stressed: readonly StressResult[]
     }
   }
   return warnings;
+}
+
+/** The extrapolation risk of a frozen design, computed by simulation (extrapolationRisk). */
+export type ExtrapolationRisk = {
+  low: number;
+  high: number;
+  participants: number;
+  /** share of probe pairs outside the participant's true reversal zone under the stress */
+  outside: number;
+  /** the same share when the truth is as the design assumes */
+  outsideAssumed: number;
+  message: string;
+};
+
+/**
+ * How often a personalised design's probe pairs would miss the true reversal zone when true
+ * delay sensitivity is below 1, computed rather than judged by a delay ratio: `participants`
+ * simulated people (seeded) answer the design's calibration block under the design's truth
+ * with s drawn from U(low, high) (stressTruth 'delay-sensitivity'), their rates are
+ * re-estimated as the probe-items API does, their probes are built from the estimates, and the
+ * share of probe pairs outside each person's true zone is counted; the same under the truth
+ * the design assumes is given beside it. Null for population designs (no calibration block).
+ */
+export function extrapolationRisk(
+  content: FrozenDesign,
+  options: { low?: number; high?: number; participants?: number; seed?: number } = {},
+): ExtrapolationRisk | null {
+  if (content.spec.mode !== 'personalised') return null;
+  const low = options.low ?? STRESS_DEFAULTS['delay-sensitivity'].low;
+  const high = options.high ?? STRESS_DEFAULTS['delay-sensitivity'].high;
+  const participants = options.participants ?? 400;
+  const spec = {
+    designVersionId: 1,
+    label: '',
+    truth: assumedTruth(content),
+    calibration: 'simulated' as const,
+    stress: [],
+    test: { kind: 'sign' as const, alpha: 0.05, alternative: 'greater' as const },
+    sampleSizes: [participants],
+    replications: 1,
+    seed: options.seed ?? 1,
+  };
+  const [assumed, stressed] = stressScenarios(buildScenario(spec, content), [{ kind: 'delay-sensitivity', low, high }]);
+  const outsideShare = (scenario: PowerScenario) => {
+    const tally = createPowerSimulator(scenario).run(0, 1);
+    const pairs = tally.patterns.probe[0].reduce((a, b) => a + b, 0);
+    return pairs > 0 ? 1 - tally.probesInTrueZone[0] / pairs : 0;
+  };
+  const outside = outsideShare(stressed);
+  const outsideAssumed = outsideShare(assumed);
+  return {
+    low,
+    high,
+    participants,
+    outside,
+    outsideAssumed,
+    message:
+      `Under delay sensitivity drawn from U(${low}, ${high}), ${pct(outside)} of probe pairs would fall outside the true reversal zone ` +
+      `(${pct(outsideAssumed)} when delay sensitivity is 1, as the design assumes); simulated for ${participants} participants answering this calibration block, ` +
+      'rates re-estimated as the probe-items API does.',
+  };
 }

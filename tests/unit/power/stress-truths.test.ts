@@ -111,3 +111,22 @@ describe('a run with stress truths, as stored and shown', () => {
     expect(runSeries('Old run', { summary: result.summary } as never).map((s) => s.label)).toEqual(['Old run']);
   });
 });
+
+describe('the extrapolation risk of a frozen design, computed by simulation', () => {
+  const content = { spec: { ...spec, name: 'Risk design', priorSetId: 1, criterion: 'gap-product' as const }, prior: { ...prior, name: 'Prior' } };
+
+  it('grows as true delay sensitivity falls further below the 1 the design assumes, and says so in numbers', async () => {
+    const { extrapolationRisk } = await import('@/lib/shared/power-scenario');
+    const mild = extrapolationRisk(content, { low: 0.9, high: 1, participants: 300, seed: 3 })!;
+    const strong = extrapolationRisk(content, { low: 0.3, high: 0.5, participants: 300, seed: 3 })!;
+    expect(strong.outside).toBeGreaterThan(mild.outside + 0.1);
+    expect(strong.outside).toBeGreaterThan(strong.outsideAssumed);
+    expect(strong.outsideAssumed).toBe(mild.outsideAssumed); // same seed, same assumed truth
+    expect(strong.message).toContain(`Under delay sensitivity drawn from U(0.3, 0.5), ${(Math.round(strong.outside * 1000) / 10).toFixed(1)} % of probe pairs would fall outside the true reversal zone`);
+  });
+
+  it('is not computed for a population design, which has no calibration block', async () => {
+    const { extrapolationRisk } = await import('@/lib/shared/power-scenario');
+    expect(extrapolationRisk({ ...content, spec: { ...content.spec, mode: 'population' } })).toBeNull();
+  });
+});
