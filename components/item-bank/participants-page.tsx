@@ -11,6 +11,7 @@ import { useFrozenVersions, useParticipants, type ParticipantDto } from '@/lib/c
 import { formatDateTime } from '@/lib/shared/format';
 import { BatchUpload } from './batch-upload';
 import { ItemTable } from './item-table';
+import { SessionsCard } from './sessions-card';
 
 const rate = (r: ParticipantDto['kSmall']) => `${r.rate.toPrecision(3)}${r.standardErrorLog !== null ? ` (SE ln k ${r.standardErrorLog.toFixed(2)})` : ''}`;
 
@@ -25,6 +26,7 @@ export function ParticipantsPage() {
         These rates are estimates from hypothetical choices in a short calibration block. They describe choices in this study, are not a clinical assessment of
         anyone, and are not a diagnostic test; follow your ethics board&apos;s rules on how they may be used.
       </Notice>
+      <SessionsCard studyId={study.id} canOperate={can('operator')} />
       <Card
         title="Participants served"
         actions={

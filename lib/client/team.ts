@@ -11,7 +11,7 @@ import { studyKeys } from './studies';
 export type InvitationDto = { id: number; email: string; role: Role; state: 'pending' | 'expired'; invitedBy: string | null; createdAt: string; expiresAt: string };
 export type InvitationReply = { invitation: InvitationDto; mailSent: boolean };
 export type AuditEventDto = { id: number; at: string; action: string; actorId: number | null; actorName: string | null; actorEmail: string | null; details: Record<string, unknown> };
-export type MailboxMessageDto = { id: string; receivedAt: string; from: string; to: string; subject: string; text: string };
+export type MailboxMessageDto = { id: string; receivedAt: string; from: string; to: string; subject: string; text: string; recipients: string[] };
 
 export const teamKeys = {
   invitations: (studyId: number) => ['study', studyId, 'invitations'] as const,
@@ -102,7 +102,7 @@ export function useAuditEvents(studyId: number) {
 export function useMailbox() {
   return useQuery({
     queryKey: teamKeys.mailbox,
-    queryFn: () => apiFetch<{ enabled: boolean; messages: MailboxMessageDto[] }>('/api/mailbox'),
+    queryFn: () => apiFetch<{ enabled: boolean; address: string; messages: MailboxMessageDto[] }>('/api/mailbox'),
     refetchInterval: 3000,
   });
 }
