@@ -154,3 +154,23 @@ describe('the prior picture', () => {
     for (let i = 0; i < view.draws.kSmall.length; i++) expect(view.canReverse[i]).toBe(view.draws.kSmall[i] > 0.5 * view.draws.kLarge[i] ? 1 : 0);
   });
 });
+
+describe('the accuracy of the expected reversal rates the design page shows', () => {
+  it('computes them on as many quadrature nodes as the 1e-4 target needs at the design’s γ, not a fixed 12', async () => {
+    const { expectationNodes } = await import('@/lib/shared/planner/points');
+    const { expectedRateNodes } = await import('@/lib/criteria');
+    // γ = 20 and spread 0.8: the node table (checked against fine-grid references in the criteria tests) asks for 40 per axis
+    expect(expectedRateNodes({ choice: { sensitivity: 20 }, prior }).nodes).toBe(40);
+    expect(expectationNodes(prior, 20).kSmall.length).toBe(40 * 40);
+    const s = spec({ mode: 'population', criterion: 'expected-reversal-rate', soonDelay: { mode: 'fixed', days: 14 }, choiceSensitivity: 20 });
+    const viaNodes = computeDesignSummary({ spec: s, prior }, { nodes: expectationNodes(prior, 20) });
+    expect(computeDesignSummary({ spec: s, prior }).expectedReversalRate).toBe(viaNodes.expectedReversalRate);
+    expect(viaNodes.warnings.some((w) => w.kind === 'accuracy')).toBe(false);
+  });
+
+  it('warns instead of claiming four decimals when γ × spread is beyond the largest rule', () => {
+    const s = computeDesignSummary({ spec: spec({ choiceSensitivity: 1000, soonDelay: { mode: 'fixed', days: 14 } }), prior });
+    const warning = s.warnings.find((w) => w.kind === 'accuracy');
+    expect(warning?.message).toContain('may be off by more than 0.0001');
+  }, 30_000);
+});
