@@ -18,6 +18,7 @@ import autocannon from 'autocannon';
 import { createHash, randomBytes } from 'node:crypto';
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
+import { parseEnv } from 'node:util';
 import * as mariadb from 'mariadb';
 import { tsImport } from 'tsx/esm/api';
 
@@ -32,31 +33,14 @@ const ITEMS_PER_MAGNITUDE = 12;
 function loadEnv() {
   const file = path.join(process.cwd(), '.env.local');
   if (!existsSync(file)) return;
-  for (const line of readFileSync(file, 'utf8').split('\n')) {
-    const m = /^\s*([A-Z0-9_]+)\s*=\s*(.*)\s*$/.exec(line);
-    if (m && process.env[m[1]] === undefined) process.env[m[1]] = m[2];
+  for (const [key, value] of Object.entries(parseEnv(readFileSync(file, 'utf8')))) {
+    if (process.env[key] === undefined) process.env[key] = value;
   }
 }
 
-const content = {
-  spec: {
-    name: 'Bench personalised design',
-    priorSetId: 1,
-    model: { id: 'hyperbolic' },
-    ratio: 0.6,
-    largeAmount: 100,
-    currency: 'EUR',
-    mode: 'personalised',
-    soonDelay: { mode: 'fixed', days: 14 },
-    lateDelayLimit: 730,
-    probePairs: 2,
-    lateAnchors: 1,
-    soonAnchors: 1,
-    criterion: 'gap-product',
-    calibration: { itemsPerMagnitude: ITEMS_PER_MAGNITUDE, minDelay: 1, maxDelay: 180 },
-  },
-  prior: { name: 'Bench prior', medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.5 },
-};
+// The tests' frozen design (tests/support/frozen-design.ts) with a 12-item calibration block.
+const { frozenDesign } = await tsImport('../tests/support/frozen-design.ts', import.meta.url);
+const content = frozenDesign({ name: 'Bench personalised design', calibration: { itemsPerMagnitude: ITEMS_PER_MAGNITUDE, minDelay: 1, maxDelay: 180 } }, { name: 'Bench prior' });
 
 /** Calibration answers of a consistent chooser: items are ordered by tie rate, so "sooner" up to a switch point, "later" after. */
 function answers(n) {

@@ -1,4 +1,7 @@
-import * as d3 from 'd3';
+import { axisBottom, axisLeft } from 'd3-axis';
+import { format } from 'd3-format';
+import { scaleBand, scaleLinear } from 'd3-scale';
+import { select } from 'd3-selection';
 import { CHART_COLOURS } from './draw-line-chart';
 
 export type BarChartSpec = {
@@ -21,18 +24,18 @@ const LEGEND_ROW = 14;
 export function drawBarChart(svgEl: SVGSVGElement, spec: BarChartSpec): void {
   const width = spec.width ?? 640;
   const height = spec.height ?? 300;
-  const svg = d3.select(svgEl).attr('viewBox', `0 0 ${width} ${height}`).attr('role', 'img').attr('aria-label', spec.title);
+  const svg = select(svgEl).attr('viewBox', `0 0 ${width} ${height}`).attr('role', 'img').attr('aria-label', spec.title);
   svg.selectAll('*').remove();
   const top = MARGIN.top + LEGEND_ROW * spec.series.length;
   const innerW = width - MARGIN.left - MARGIN.right;
   const innerH = height - top - MARGIN.bottom;
   const all = spec.series.flatMap((s) => s.values).filter((v): v is number => v !== null && Number.isFinite(v));
-  const x = d3.scaleBand().domain(spec.groups).range([0, innerW]).padding(0.2);
-  const inner = d3.scaleBand().domain(spec.series.map((_, i) => String(i))).range([0, x.bandwidth()]).padding(0.08);
-  const y = d3.scaleLinear().domain([0, spec.yMax ?? Math.max(1e-12, ...all)]).nice().range([innerH, 0]);
+  const x = scaleBand().domain(spec.groups).range([0, innerW]).padding(0.2);
+  const inner = scaleBand().domain(spec.series.map((_, i) => String(i))).range([0, x.bandwidth()]).padding(0.08);
+  const y = scaleLinear().domain([0, spec.yMax ?? Math.max(1e-12, ...all)]).nice().range([innerH, 0]);
   const g = svg.append('g').attr('transform', `translate(${MARGIN.left},${top})`);
-  g.append('g').attr('transform', `translate(0,${innerH})`).call(d3.axisBottom(x)).selectAll('text').attr('transform', 'rotate(-18)').attr('text-anchor', 'end');
-  g.append('g').call(d3.axisLeft(y).ticks(5).tickFormat((v) => (spec.yFormat ?? d3.format('~g'))(Number(v))));
+  g.append('g').attr('transform', `translate(0,${innerH})`).call(axisBottom(x)).selectAll('text').attr('transform', 'rotate(-18)').attr('text-anchor', 'end');
+  g.append('g').call(axisLeft(y).ticks(5).tickFormat((v) => (spec.yFormat ?? format('~g'))(Number(v))));
   g.append('text').attr('transform', 'rotate(-90)').attr('x', -innerH / 2).attr('y', -42).attr('text-anchor', 'middle').attr('font-size', 11).attr('fill', '#4a5a5f').text(spec.yLabel);
   spec.series.forEach((s, si) => {
     const colour = CHART_COLOURS[si % CHART_COLOURS.length];

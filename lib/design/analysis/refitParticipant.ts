@@ -59,7 +59,9 @@ export function refitParticipant(participant: ParticipantData, options: RefitOpt
     const predictiveLogScore = stage2.length === 0 ? 0 : choiceLogLikelihood(id, stage2Data, thetaOf(id, calibrationOnly.parameters), options.choice.sensitivity, options.choice.lapse ?? 0);
     return { model: id, full, calibrationOnly, predictiveLogScore, predictedChoices: stage2.length };
   });
-  const design = fitModel(calibrationData, { ...base, model: options.model, shape: 'fixed' });
+  // a design model without a shape parameter is the same fit as that model's calibration-only one
+  const same = options.model.id === 'exponential' || options.model.id === 'hyperbolic' ? models.find((m) => m.model === options.model.id) : undefined;
+  const design = same ? same.calibrationOnly : fitModel(calibrationData, { ...base, model: options.model, shape: 'fixed' });
   return { participantId: participant.participantId, models, design };
 }
 

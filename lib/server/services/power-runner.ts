@@ -6,6 +6,7 @@ import type { PowerRunSpec } from '@/lib/shared/validations/power';
 import { notifyPowerRunFinished } from './notices';
 import { buildScenarios, runResult } from '@/lib/shared/power-scenario';
 import { runScenarios } from '@/lib/server/jobs/power/run-scenario';
+import { decodeJson } from '@/db/json';
 
 /** Runs executing in this process, with their cancel flags (on globalThis to survive dev reloads). */
 const holder = globalThis as unknown as { switchbackPowerRuns?: Map<number, { cancel: boolean }> };
@@ -15,9 +16,6 @@ export const activeRuns = (holder.switchbackPowerRuns ??= new Map());
 export const HEARTBEAT_MS = 2000;
 export const STALE_MS = 20_000;
 
-function json<T>(value: T | string): T {
-  return typeof value === 'string' ? (JSON.parse(value) as T) : value;
-}
 
 /** Asks this process to stop a run before its next chunk. */
 export function requestCancel(runId: number): void {
@@ -62,8 +60,8 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
       .catch((error) => console.warn(`[switchback] power run ${runId}: heartbeat not written (${error instanceof Error ? error.message : error})`)); // the next beat retries
   }, HEARTBEAT_MS);
   try {
-    const spec = json<PowerRunSpec>(run.spec);
-    const content = json<FrozenDesign>(version.content);
+    const spec = decodeJson<PowerRunSpec>(run.spec);
+    const content = decodeJson<FrozenDesign>(version.content);
     const scenarios = buildScenarios(spec, content);
     const total = scenarios.reduce((sum, s) => sum + s.replications, 0);
     let lastWrite = 0;

@@ -2,6 +2,7 @@ import { Op } from 'sequelize';
 import { db } from '@/db';
 import { DesignVersion, PowerRun, User } from '@/db/models';
 import { ApiError, ConflictError, NotFoundError, ValidationError } from '@/lib/server/errors';
+import { parseEntityId } from '@/lib/server/route-ids';
 import { createPowerSimulator, POWER_ENGINE_VERSION } from '@/lib/design/power';
 import { DesignInputError } from '@/lib/design/DesignInputError';
 import { activeRuns, launchRun, markInterruptedRuns, requestCancel, STALE_MS } from './power-runner';
@@ -9,10 +10,8 @@ import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpec, PowerStatus } from '@/lib/shared/validations/power';
 import { recordAudit } from './audit';
 import { buildScenarios, type PowerRunResult } from '@/lib/shared/power-scenario';
+import { decodeJson } from '@/db/json';
 
-function json<T>(value: T | string): T {
-  return typeof value === 'string' ? (JSON.parse(value) as T) : value;
-}
 
 /** A finished run's result; runs saved before stress truths existed read with none. */
 export type PowerResultDto = PowerRunResult;
@@ -47,7 +46,7 @@ function readSpec(spec: PowerRunSpec): PowerRunSpec {
 }
 
 function toDto(row: PowerRun, version: DesignVersion, creator: User | null, withResult: boolean): PowerRunDto {
-  const content = json<FrozenDesign>(version.content);
+  const content = decodeJson<FrozenDesign>(version.content);
   let secondsLeft: number | null = null;
   if (row.status === 'running' && row.startedAt && row.completed > 0) {
     const elapsed = (Date.now() - row.startedAt.getTime()) / 1000;
@@ -62,14 +61,14 @@ function toDto(row: PowerRun, version: DesignVersion, creator: User | null, with
     percent: row.total > 0 ? Math.floor((100 * row.completed) / row.total) : 0,
     secondsLeft,
     message: row.message ?? null,
-    spec: readSpec(json<PowerRunSpec>(row.spec)),
+    spec: readSpec(decodeJson<PowerRunSpec>(row.spec)),
     design: { versionId: version.id, number: version.number, hash: version.hash, name: content.spec.name },
     engineVersion: row.engineVersion,
     createdBy: creator?.name ?? null,
     createdAt: row.createdAt.toISOString(),
     startedAt: row.startedAt?.toISOString() ?? null,
     finishedAt: row.finishedAt?.toISOString() ?? null,
-    result: withResult && row.result ? readResult(json<PowerResultDto>(row.result as PowerResultDto)) : null,
+    result: withResult && row.result ? readResult(decodeJson<PowerResultDto>(row.result as PowerResultDto)) : null,
   };
 }
 
@@ -107,8 +106,7 @@ export async function findPowerRun(studyId: number, runId: number): Promise<Powe
 
 /** Parses a run id from a route parameter; anything malformed is "not found". */
 export function parseRunId(raw: string | undefined): number {
-  if (!raw || !/^\d{1,10}$/.test(raw)) throw new NotFoundError('Power run not found.');
-  return Number(raw);
+  return parseEntityId(raw, 'Power run');
 }
 
 /**
@@ -121,7 +119,7 @@ export async function createPowerRun(actorId: number, studyId: number, spec: Pow
   const version = await DesignVersion.findOne({ where: { id: spec.designVersionId, studyId } });
   if (!version) throw new ValidationError([{ path: 'designVersionId', message: 'Choose a frozen design version of this study.' }]);
   try {
-    for (const scenario of buildScenarios(spec, json<FrozenDesign>(version.content))) createPowerSimulator(scenario);
+    for (const scenario of buildScenarios(spec, decodeJson<FrozenDesign>(version.content))) createPowerSimulator(scenario);
   } catch (error) {
     if (error instanceof DesignInputError) throw new ValidationError([{ path: error.field, message: error.message }]);
     throw error;

@@ -1,4 +1,5 @@
-import { area, line, scaleLinear } from 'd3';
+import { scaleLinear } from 'd3-scale';
+import { area, line } from 'd3-shape';
 
 /** One curve: a label and its points (sample size, power, Wilson interval). */
 export type PowerSeries = { label: string; points: ReadonlyArray<{ n: number; power: number; lower: number; upper: number }> };
