@@ -10,7 +10,7 @@ import { contentHash } from '@/lib/shared/canonical-json';
 import { pngInfo } from '@/lib/server/figures/png';
 import { markInterruptedRuns } from '@/lib/server/services/power-runner';
 import { runScenario } from '@/lib/server/jobs/power/run-scenario';
-import { buildScenario } from '@/lib/shared/power-scenario';
+import { buildScenario, runResult } from '@/lib/shared/power-scenario';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpecInput } from '@/lib/shared/validations/power';
 import { POWER_PRIOR, powerDesign } from '../support/frozen-design';
@@ -119,19 +119,20 @@ describe('power runs', () => {
     expect(svg.headers.get('content-type')).toBe('image/svg+xml');
     const svgText = await svg.text();
     const parsed = new Resvg(svgText); // resvg parses the SVG and refuses malformed XML
-    // 6.5 × 4.35 inches (4.2 plus one warning line: the run uses the pooled McNemar test) at the
-    // CSS 96 px per inch resvg reads "in" with
-    expect([parsed.width, parsed.height]).toEqual([624, 418]);
+    // 6.5 × 4.5 inches (4.2 plus two warning lines: the run uses the pooled McNemar test, and fewer
+    // than 1,000 replications) at the CSS 96 px per inch resvg reads "in" with
+    expect([parsed.width, parsed.height]).toEqual([624, 432]);
     expect(svgText).toContain('Wilson 95 %');
     expect(svgText).toContain('Pooled McNemar test assumes independent pairs');
+    expect(svgText).toContain('Fewer than 1,000 replications (20): Monte Carlo standard error up to');
 
     const png = Buffer.from(await (await download(team.viewer, study.id, a.id, 'format=png')).arrayBuffer());
     expect(png.subarray(1, 4).toString()).toBe('PNG');
-    // 6.5 × 4.35 inches at 300 dpi; 300 dpi = 11811 pixels per metre (300 / 0.0254, rounded)
-    expect(pngInfo(png)).toEqual({ width: 1950, height: 1305, pixelsPerMetre: 11811 });
+    // 6.5 × 4.5 inches at 300 dpi; 300 dpi = 11811 pixels per metre (300 / 0.0254, rounded)
+    expect(pngInfo(png)).toEqual({ width: 1950, height: 1350, pixelsPerMetre: 11811 });
 
     const csv = await (await download(team.viewer, study.id, a.id, 'format=csv')).text();
-    expect(csv.split('\r\n')[0]).toMatch(/^n,power,wilson_lower,wilson_upper,/);
+    expect(csv.split('\r\n')[0]).toMatch(/^truth,n,power,wilson_lower,wilson_upper,/);
     expect(csv.trim().split('\n')).toHaveLength(4);
     const json = await (await download(team.viewer, study.id, a.id, 'format=json')).json();
     expect(json.design.hash).toBe(version.hash);
@@ -208,5 +209,63 @@ describe('power runs', () => {
     const early = await download(team.viewer, study.id, running.id, 'format=csv');
     expect(early.status).toBe(409);
     await cancelRun(await requestAs(team.editor, 'POST', `/api/studies/${study.id}/power-runs/${running.id}/cancel`), ctx({ id: String(study.id), runId: String(running.id) }));
+  });
+
+  it('simulates stress truths beside the assumed one and shows power under each in the result, the figure and the CSV', async () => {
+    const { study, team } = await makeStudyWithTeam('Power stress');
+    const version = await frozenVersion(study.id, team.owner.id);
+    const stress = [{ kind: 'delay-sensitivity', low: 0.4, high: 0.9 }, { kind: 'choice-noise', factor: 0.5 }];
+    const response = await start(team.editor, study.id, { ...runSpec(version.id, { replications: 20, test: { kind: 'sign', alpha: 0.05, alternative: 'greater' } }), stress });
+    expect(response.status).toBe(202);
+    const { run } = await response.json();
+    expect(run.total).toBe(60); // 20 replicates under each of three truths
+    const finished = await waitFor(team.viewer, study.id, run.id, (r) => r.status === 'finished');
+    expect(finished.completed).toBe(60);
+    expect(finished.result.stress.map((s: { stress: { kind: string } }) => s.stress.kind)).toEqual(['delay-sensitivity', 'choice-noise']);
+    expect(finished.result.stress[0].summary.points.map((p: { n: number }) => p.n)).toEqual([5, 10, 20]);
+    expect(finished.result.methodText).toContain('2 stress truth(s)');
+    expect(finished.result.methodText).toMatch(/Monte Carlo standard error of up to/);
+    expect(finished.result.summary.warnings.map((w: { kind: string }) => w.kind)).toContain('extrapolation-risk');
+
+    const svg = await (await download(team.viewer, study.id, run.id, 'format=svg')).text();
+    expect(svg).toContain('Stress: s ~ U(0.4, 0.9)');
+    expect(svg).toContain('Stress: noisier choices (γ × 0.5)');
+    expect(svg).toContain('Fewer than 1,000 replications (20)');
+    const csv = (await (await download(team.viewer, study.id, run.id, 'format=csv')).text()).trim().split('\n');
+    expect(csv).toHaveLength(1 + 3 * 3);
+    expect(csv.filter((line) => line.startsWith('"s ~ U(0.4, 0.9)"'))).toHaveLength(3);
+
+    // a stress truth out of range is a 422 naming its field
+    const bad = await start(team.editor, study.id, { ...runSpec(version.id), stress: [{ kind: 'present-bias', beta: 1.5 }] });
+    expect(bad.status).toBe(422);
+    expect(JSON.stringify(await bad.json())).toContain('stress.0.beta');
+  });
+
+  it('still opens a run saved before stress truths and participant-level tests existed, with its stored test name', async () => {
+    const { study, team } = await makeStudyWithTeam('Power old run');
+    const version = await frozenVersion(study.id, team.owner.id);
+    const { stress: _none, ...oldSpec } = { ...runSpec(version.id), stress: [] };
+    const scenario = buildScenario({ ...oldSpec, label: '', stress: [] } as never, version.content as FrozenDesign);
+    const outcome = await runScenario(scenario, { workers: 1 });
+    const { stress: _s, ...oldResult } = runResult([scenario], [outcome!], { number: 1, hash: version.hash, content: version.content as FrozenDesign });
+    const row = await PowerRun.create({
+      studyId: study.id,
+      designVersionId: version.id,
+      label: 'Saved last year',
+      spec: oldSpec as never, // as stored before: no stress list
+      status: 'finished',
+      completed: 40,
+      total: 40,
+      tally: outcome!.tally,
+      result: oldResult,
+      engineVersion: '1',
+      createdBy: team.owner.id,
+    });
+    const opened = await read(team.viewer, study.id, row.id);
+    expect(opened.spec.test.kind).toBe('mcnemar');
+    expect(opened.spec.stress).toEqual([]);
+    expect(opened.result.stress).toEqual([]);
+    const svg = await (await download(team.viewer, study.id, row.id, 'format=svg')).text();
+    expect(svg).toContain('Pooled McNemar test assumes independent pairs');
   });
 });
