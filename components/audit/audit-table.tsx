@@ -114,7 +114,7 @@ export function AuditTable() {
                     return (
                       <Th key={header.id} aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}>
                         {header.column.getCanSort() ? (
-                          <button type="button" className="uppercase tracking-wide hover:text-ink" onClick={header.column.getToggleSortingHandler()}>
+                          <button type="button" className="hover:text-ink" onClick={header.column.getToggleSortingHandler()}>
                             {flexRender(header.column.columnDef.header, header.getContext())}
                             <SortMark state={sorted} />
                           </button>

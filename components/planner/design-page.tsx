@@ -2,6 +2,7 @@
 
 import Link from 'next/link';
 import { useRouter } from 'next/navigation';
+import { useState } from 'react';
 import { useStudyContext } from '@/components/studies/study-context';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
@@ -20,6 +21,7 @@ export function DesignPage({ designId }: { designId: number }) {
   const priors = usePriors(study.id);
   const remove = useDeleteDesign(study.id);
   const canEdit = can('editor');
+  const [dirty, setDirty] = useState(false);
   if (design.error instanceof ApiClientError && design.error.status === 404) {
     return (
       <Notice tone="error" title="Design not found">
@@ -48,9 +50,9 @@ export function DesignPage({ designId }: { designId: number }) {
               ) : null}
             </div>
             {remove.error ? <Notice tone="error">{remove.error.message}</Notice> : null}
-            <DesignEditor key={design.data.id} studyId={study.id} design={design.data} priors={priors.data} canEdit={canEdit} />
+            <DesignEditor key={design.data.id} studyId={study.id} design={design.data} priors={priors.data} canEdit={canEdit} onDirtyChange={setDirty} />
             <div className="grid gap-6 lg:grid-cols-2">
-              <FreezePanel studyId={study.id} design={design.data} canEdit={canEdit} />
+              <FreezePanel studyId={study.id} design={design.data} canEdit={canEdit} unsaved={dirty} />
               <CommentsPanel studyId={study.id} designId={designId} />
             </div>
           </div>

@@ -6,6 +6,7 @@ import { signOut } from 'next-auth/react';
 import { Button, buttonClass } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
+import { formatDateTime } from '@/lib/shared/format';
 import { ROLE_LABELS } from '@/lib/shared/roles';
 import { useAcceptInvitation, useInvitationLink } from '@/lib/client/team';
 import type { InvitationLinkView } from '@/lib/server/services/invitations';
@@ -84,7 +85,7 @@ function InvitationResponse({ token, view, user }: { token: string; view: Invita
       >
         {accept.isPending || accept.isSuccess ? 'Joining…' : 'Accept and open the study'}
       </Button>
-      <p className="text-xs text-ink-soft">The link works once and until {new Date(view.expiresAt).toUTCString()}.</p>
+      <p className="text-xs text-ink-soft">The link works once and until {formatDateTime(view.expiresAt)}.</p>
     </div>
   );
 }

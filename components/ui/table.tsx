@@ -11,8 +11,9 @@ export function Table({ children, caption }: { children: ReactNode; caption?: st
   );
 }
 
+/** A column header. Never upper-cased: symbols such as k and K must keep their case. */
 export function Th({ className = '', ...props }: ThHTMLAttributes<HTMLTableCellElement>) {
-  return <th scope="col" className={`px-4 py-2 text-left text-xs font-semibold uppercase tracking-wide text-ink-soft ${className}`} {...props} />;
+  return <th scope="col" className={`px-4 py-2 text-left text-xs font-semibold text-ink-soft ${className}`} {...props} />;
 }
 
 export function Td({ className = '', ...props }: TdHTMLAttributes<HTMLTableCellElement>) {

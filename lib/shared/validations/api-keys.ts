@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '@/lib/shared/validations/error-map';
 import { nameText } from '@/lib/shared/validations/text';
 
 /** Creating an API key: a name people recognise and the frozen design version it serves. */

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '@/lib/shared/validations/error-map';
 
 /**
  * The item bank's entities, one zod schema each: export options (query string), probe-items

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '@/lib/shared/validations/error-map';
 import { freeText, nameText } from '@/lib/shared/validations/text';
 
 /**
