@@ -101,7 +101,7 @@ function quoteList(values: ReadonlyArray<unknown>): string {
   return values.map((v) => (typeof v === 'string' ? `“${v}”` : String(v))).join(', ');
 }
 
-type Issue = Parameters<NonNullable<Parameters<typeof z.config>[0]['customError']>>[0];
+type Issue = Parameters<z.core.$ZodErrorMap>[0];
 
 /** The message for one issue the schema did not word itself. */
 export function friendlyMessage(issue: Issue): string {

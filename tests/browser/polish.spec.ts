@@ -1,0 +1,87 @@
+import { expect, test, type Page } from '@playwright/test';
+import { openDemoStudy, shot, signInAs } from './helpers';
+
+/** Pixels the page can be scrolled sideways (0 when nothing sticks out). */
+async function sideways(page: Page): Promise<number> {
+  return page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+}
+
+test('the glossary explains each term with its formula and source, and a help button opens a term’s explanation by tap or keyboard', async ({ page }) => {
+  await signInAs(page, 'viewer');
+  await page.getByTestId('glossary-link').click();
+  await expect(page.getByRole('heading', { name: 'Methods and glossary' })).toBeVisible();
+  const gap = page.locator('#gap-product');
+  await expect(gap).toContainText('C(D) = A(D) · B(D)');
+  await expect(gap).toContainText('Source');
+  for (const id of ['maximin-gap', 'patterns', 'far-near-view', 'standing-day', 'reversal-zone']) await expect(page.locator(`#${id}`)).toBeVisible();
+  await expect(page.locator('#reversal-zone')).toContainText('D_lower = d + (1 − x)/(xK)');
+  expect(await page.getByTestId('glossary-entry').count()).toBeGreaterThan(20);
+  await page.screenshot(shot('glossary'));
+
+  // on a design page, the help button beside "Reversal zone" opens its explanation (click, not hover) and links to the entry
+  await openDemoStudy(page);
+  await page.getByRole('link', { name: 'Designs' }).click();
+  await page.getByRole('link', { name: 'Personalised, two-week soon delay' }).click();
+  const help = page.getByTestId('help-reversal-zone').first();
+  await expect(help).toHaveAttribute('aria-expanded', 'false');
+  await help.click();
+  await expect(help).toHaveAttribute('aria-expanded', 'true');
+  const panel = page.getByTestId('help-panel-reversal-zone');
+  await expect(panel).toContainText('late delays D');
+  await page.screenshot({ path: 'tests/artifacts/screens/glossary-help-open.png' });
+  await page.keyboard.press('Escape');
+  await expect(panel).toHaveCount(0);
+  // keyboard: focus and Enter opens it too
+  await help.focus();
+  await page.keyboard.press('Enter');
+  await expect(panel).toBeVisible();
+  await panel.getByRole('link', { name: 'Formula and source' }).click();
+  await expect(page).toHaveURL(/\/glossary#reversal-zone$/);
+
+  // viewers see the design's fields greyed out: disabled, with the disabled background
+  await page.goBack();
+  const field = page.getByLabel('Design name');
+  await expect(field).toBeDisabled();
+  const background = await field.evaluate((el) => getComputedStyle(el).backgroundColor);
+  const enabledLook = await page.evaluate(() => {
+    const probe = document.createElement('input');
+    probe.className = (document.querySelector('input[aria-invalid]') as HTMLInputElement).className;
+    document.body.append(probe);
+    const colour = getComputedStyle(probe).backgroundColor;
+    probe.remove();
+    return colour;
+  });
+  expect(background).not.toBe(enabledLook);
+});
+
+test('at phone width nothing scrolls sideways and Sign out is fully on screen', async ({ page }) => {
+  await page.setViewportSize({ width: 375, height: 740 });
+  await signInAs(page, 'owner');
+  await openDemoStudy(page);
+  const base = page.url().replace(/\/$/, '');
+  const paths = ['', '/priors', '/designs', '/compare', '/power', '/item-bank', '/api', '/participants', '/team', '/audit'];
+  const wide: string[] = [];
+  for (const path of paths) {
+    await page.goto(`${base}${path}`);
+    await expect(page.getByTestId('study-title')).toBeVisible();
+    await page.waitForLoadState('networkidle');
+    const over = await sideways(page);
+    if (over > 0) wide.push(`${path || '/'}: ${over}px`);
+  }
+  for (const path of ['/studies', '/account', '/glossary']) {
+    await page.goto(path);
+    await page.waitForLoadState('networkidle');
+    const over = await sideways(page);
+    if (over > 0) wide.push(`${path}: ${over}px`);
+  }
+  expect(wide).toEqual([]);
+  const signOut = page.getByRole('button', { name: 'Sign out' });
+  const box = await signOut.boundingBox();
+  expect(box).not.toBeNull();
+  expect(box!.x).toBeGreaterThanOrEqual(0);
+  expect(box!.x + box!.width).toBeLessThanOrEqual(375);
+  await page.goto(`${base}/designs`);
+  await page.screenshot(shot('phone-designs'));
+  await page.goto(base);
+  await page.screenshot({ path: 'tests/artifacts/screens/phone-overview.png' });
+});
