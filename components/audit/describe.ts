@@ -105,7 +105,7 @@ export function describeEvent(event: Pick<AuditEventDto, 'action' | 'details'>, 
     case 'invitation.revoke':
       return [`Withdrew the invitation to ${str('email') ?? 'someone'} (${role('role')}).`];
     case 'invitation.accept':
-      return [d.alreadyMember ? `Accepted an invitation while already a member (stays ${role('role')}).` : `Accepted the invitation and joined as ${role('role')}.`];
+      return [d.alreadyMember ? `Accepted the invitation sent to ${str('email') ?? 'them'} while already a member (stays ${role('role')}).` : `Accepted the invitation sent to ${str('email') ?? 'them'} and joined as ${role('role')}.`];
     case 'member.role-change':
       return [`Changed the role of ${person()} from ${role('from')} to ${role('to')}.`];
     case 'member.remove':
