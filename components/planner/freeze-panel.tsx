@@ -7,13 +7,17 @@ import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { useFreezeDesign, useVersions, type DesignDto } from '@/lib/client/planner';
 import { formatDateTime } from '@/lib/shared/format';
+import { createFlag, useFlagValue, type Flag } from './unsaved-flag';
+
+const NEVER = createFlag();
 
 /**
  * Freeze status, the freeze button for editors, and the design's frozen versions with their hashes.
  * Freezing asks for confirmation first, and is refused while the form above has unsaved edits
  * (freezing stores the saved draft, so it would silently leave those edits out).
  */
-export function FreezePanel({ studyId, design, canEdit, unsaved = false }: { studyId: number; design: DesignDto; canEdit: boolean; unsaved?: boolean }) {
+export function FreezePanel({ studyId, design, canEdit, unsaved: unsavedFlag }: { studyId: number; design: DesignDto; canEdit: boolean; unsaved?: Flag }) {
+  const unsaved = useFlagValue(unsavedFlag ?? NEVER);
   const freeze = useFreezeDesign(studyId, design.id);
   const [asking, setAsking] = useState(false);
   const versions = useVersions(studyId, design.id);
