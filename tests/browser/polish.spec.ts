@@ -85,3 +85,34 @@ test('at phone width nothing scrolls sideways and Sign out is fully on screen', 
   await page.goto(base);
   await page.screenshot({ path: 'tests/artifacts/screens/phone-overview.png' });
 });
+
+test('charts use one font at legible sizes, and their labels do not sit on each other', async ({ page }) => {
+  await signInAs(page, 'viewer');
+  await openDemoStudy(page);
+  await page.getByRole('link', { name: 'Designs' }).click();
+  await page.getByRole('link', { name: 'Personalised, two-week soon delay' }).click();
+  for (const id of ['gap-chart', 'value-chart']) {
+    const chart = page.getByTestId(id);
+    await expect(chart.locator('path[data-series]').first()).toBeVisible();
+    const report = await chart.evaluate((root) => {
+      const svg = root.tagName.toLowerCase() === 'svg' ? root : root.querySelector('svg')!;
+      const texts = [...svg.querySelectorAll('text')];
+      const fonts = new Set(texts.map((t) => getComputedStyle(t).fontFamily));
+      const sizes = texts.map((t) => Number(getComputedStyle(t).fontSize.replace('px', ''))); // in viewBox units: SVG text sizes are not scaled in computed style
+      const labels = [...svg.querySelectorAll('text[data-label]')].map((t) => (t as SVGTextElement).getBBox());
+      let overlaps = 0;
+      for (let i = 0; i < labels.length; i++)
+        for (let j = i + 1; j < labels.length; j++) {
+          const a = labels[i];
+          const b = labels[j];
+          if (a.x < b.x + b.width && b.x < a.x + a.width && a.y < b.y + b.height && b.y < a.y + a.height) overlaps++;
+        }
+      return { fonts: [...fonts], smallest: Math.min(...sizes), labels: labels.length, overlaps, bodyFont: getComputedStyle(document.body).fontFamily };
+    });
+    expect(report.fonts).toEqual([report.bodyFont]); // ticks no longer fall back to d3's "sans-serif"
+    expect(report.smallest).toBeGreaterThanOrEqual(12);
+    expect(report.overlaps).toBe(0);
+  }
+  await page.getByTestId('gap-chart').scrollIntoViewIfNeeded();
+  await page.screenshot({ path: 'tests/artifacts/screens/chart-style-gap.png' });
+});
