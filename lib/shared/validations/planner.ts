@@ -104,6 +104,9 @@ export const commentSchema = z.strictObject({ text: freeText({ label: 'The comme
 export const priorSetUpdateSchema = z.strictObject({ prior: priorSetSchema, version: z.number().int().positive() });
 export type PriorSetUpdate = z.input<typeof priorSetUpdateSchema>;
 
+/** Query of a pilot upload: the model raw pilot choices are estimated under (files of per-person rates ignore it). */
+export const pilotQuerySchema = z.strictObject({ model: z.enum(MODEL_CHOICES).default('hyperbolic') });
+
 /** Pilot-data upload limits: bigger files are refused before parsing. */
 export const PILOT_MAX_BYTES = 5 * 1024 * 1024;
 export const PILOT_MAX_ROWS = 100_000;
