@@ -12,6 +12,8 @@ import { glossaryEntry } from '@/lib/shared/glossary';
 export function TermHelp({ id, children }: { id: string; children?: ReactNode }) {
   const entry = glossaryEntry(id);
   const [open, setOpen] = useState(false);
+  // open towards the left when the button sits in the right part of the screen, so the panel never sticks out sideways
+  const [alignRight, setAlignRight] = useState(false);
   const panelId = useId();
   const root = useRef<HTMLSpanElement>(null);
   useEffect(() => {
@@ -38,7 +40,10 @@ export function TermHelp({ id, children }: { id: string; children?: ReactNode })
         aria-controls={panelId}
         aria-label={`What is “${entry.term}”?`}
         title={entry.short}
-        onClick={() => setOpen((o) => !o)}
+        onClick={(event) => {
+          setAlignRight(event.currentTarget.getBoundingClientRect().left > window.innerWidth - 300);
+          setOpen((o) => !o);
+        }}
         className="ml-1 inline-flex h-4 w-4 translate-y-[-1px] items-center justify-center rounded-full border border-ink/30 align-middle text-[0.65rem] font-semibold normal-case leading-none text-ink-soft hover:border-teal-600 hover:text-teal-700 focus-visible:outline focus-visible:outline-2 focus-visible:outline-teal-600"
         data-testid={`help-${id}`}
       >
@@ -48,7 +53,7 @@ export function TermHelp({ id, children }: { id: string; children?: ReactNode })
         <span
           id={panelId}
           role="note"
-          className="absolute left-0 top-full z-20 mt-1 block w-72 max-w-[calc(100vw-2rem)] rounded-md border border-ink/15 bg-paper-raised p-3 text-left text-xs font-normal normal-case leading-snug text-ink shadow-lg"
+          className={`absolute ${alignRight ? 'right-0' : 'left-0'} top-full z-20 mt-1 block w-72 max-w-[calc(100vw-2rem)] rounded-md border border-ink/15 bg-paper-raised p-3 text-left text-xs font-normal normal-case leading-snug text-ink shadow-lg`}
           data-testid={`help-panel-${id}`}
         >
           <span className="block font-semibold">{entry.term}</span>

@@ -46,7 +46,8 @@ export function DesignEditor({
   const { register, handleSubmit, formState, setError, reset, control } = useForm<DesignFormValues, unknown, DesignSpec>({
     resolver,
     values: toForm(design.spec),
-    resetOptions: { keepDirtyValues: true },
+    // a background refetch of the design must neither drop typed values nor forget that they are unsaved
+    resetOptions: { keepDirtyValues: true, keepDirty: true },
     mode: 'onChange',
   });
   const values = useWatch({ control }) as DesignFormValues;

@@ -2,7 +2,8 @@ import type { ReactNode, TdHTMLAttributes, ThHTMLAttributes } from 'react';
 
 export function Table({ children, caption }: { children: ReactNode; caption?: string }) {
   return (
-    <div className="overflow-x-auto rounded-lg border border-ink/10 bg-paper-raised">
+    // relative: absolutely placed children (screen-reader-only header text) scroll inside the box instead of widening the page
+    <div className="relative overflow-x-auto rounded-lg border border-ink/10 bg-paper-raised">
       <table className="min-w-full divide-y divide-ink/10 text-sm">
         {caption ? <caption className="sr-only">{caption}</caption> : null}
         {children}

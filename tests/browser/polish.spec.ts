@@ -1,9 +1,18 @@
 import { expect, test, type Page } from '@playwright/test';
 import { openDemoStudy, shot, signInAs } from './helpers';
 
-/** Pixels the page can be scrolled sideways (0 when nothing sticks out). */
-async function sideways(page: Page): Promise<number> {
-  return page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+/** Pixels the page can be scrolled sideways (0 when nothing sticks out), with the elements sticking out for the failure message. */
+async function sideways(page: Page): Promise<string | 0> {
+  return page.evaluate(() => {
+    const over = document.documentElement.scrollWidth - document.documentElement.clientWidth;
+    if (over <= 0) return 0;
+    const width = document.documentElement.clientWidth;
+    const culprits = [...document.querySelectorAll('body *')]
+      .filter((el) => el.getBoundingClientRect().right > width + 1 && !el.closest('.overflow-x-auto'))
+      .slice(-3)
+      .map((el) => `${el.tagName.toLowerCase()}.${String(el.getAttribute('class') ?? '').split(' ').slice(0, 3).join('.')}`);
+    return `${over}px (${culprits.join(', ')})`;
+  });
 }
 
 test('the glossary explains each term with its formula and source, and a help button opens a term’s explanation by tap or keyboard', async ({ page }) => {
@@ -66,13 +75,13 @@ test('at phone width nothing scrolls sideways and Sign out is fully on screen', 
     await expect(page.getByTestId('study-title')).toBeVisible();
     await page.waitForLoadState('networkidle');
     const over = await sideways(page);
-    if (over > 0) wide.push(`${path || '/'}: ${over}px`);
+    if (over) wide.push(`${path || '/'}: ${over}`);
   }
   for (const path of ['/studies', '/account', '/glossary']) {
     await page.goto(path);
     await page.waitForLoadState('networkidle');
     const over = await sideways(page);
-    if (over > 0) wide.push(`${path}: ${over}px`);
+    if (over) wide.push(`${path}: ${over}`);
   }
   expect(wide).toEqual([]);
   const signOut = page.getByRole('button', { name: 'Sign out' });
