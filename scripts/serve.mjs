@@ -1,8 +1,9 @@
 // The production server that scripts/start.mjs and scripts/test.mjs run instead of `next start`:
 // the same Next app (`next({ dev: false })` over the build in .next, or NEXT_DIST_DIR), on one
-// node:http server, except that POST /api/v1/studies/{id}/probe-items is answered directly by
-// lib/server/http/direct-api.ts (the survey-facing hot path; Next's own request handling costs more
-// than the endpoint). Everything else, this endpoint's other methods included, goes to Next.
+// node:http server, except that the participant-session endpoints (GET …/calibration, POST
+// …/probe-items, POST …/stage2-answers under /api/v1/studies/{id}/, and their OPTIONS preflights)
+// are answered directly by lib/server/http/direct-api.ts (the survey-facing hot path; Next's own request
+// handling costs more than the endpoints). Everything else, their other methods included, goes to Next.
 //
 //   node scripts/serve.mjs [-H 127.0.0.1] [-p 3000]      (the port defaults to PORT, else 3000)
 //
@@ -10,6 +11,7 @@
 import { createServer } from 'node:http';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { announcePeerStamping, stampPeerAddress } from './peer-address.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -37,7 +39,12 @@ await app.prepare(); // runs instrumentation.ts's register(), as `next start` do
 const { tsImport } = await import('tsx/esm/api');
 const { answerDirect } = await tsImport('../lib/server/http/direct-api.ts', import.meta.url);
 
+// Rate limits count the connection's address, which Next's route handlers cannot see: it is handed
+// over in a header of our own that no client can set (scripts/peer-address.mjs).
+announcePeerStamping();
+
 const server = createServer((request, response) => {
+  stampPeerAddress(request);
   if (answerDirect(request, response)) return;
   handle(request, response);
 });
@@ -61,5 +68,5 @@ server.on('error', (error) => {
   process.exit(1);
 });
 server.listen(port, hostname, () => {
-  console.log(`[switchback] serving ${path.relative(process.cwd(), ROOT) || '.'} on http://${hostname}:${port} (probe-items API answered directly)`);
+  console.log(`[switchback] serving ${path.relative(process.cwd(), ROOT) || '.'} on http://${hostname}:${port} (participant-session API answered directly)`);
 });

@@ -11,7 +11,7 @@ import { Notice } from '@/components/ui/notice';
 import { signInSchema, type SignInInput } from '@/lib/shared/validations/user';
 
 const MESSAGES: Record<string, string> = {
-  TooManyAttempts: 'Too many failed attempts for this address. Wait 15 minutes and try again.',
+  TooManyAttempts: 'Too many failed attempts for this account or from this connection. Wait 15 minutes and try again.',
   CredentialsSignin: 'That e-mail and password do not match an account.',
 };
 

@@ -13,6 +13,7 @@ import { signUpSchema, type SignUpInput } from '@/lib/shared/validations/user';
 
 export function SignUpForm({ callbackUrl, email }: { callbackUrl: string; email?: string }) {
   const [failure, setFailure] = useState<string | null>(null);
+  const [answer, setAnswer] = useState<string | null>(null);
   const { register, handleSubmit, formState, setError } = useForm<SignUpInput>({
     resolver: zodResolver(signUpSchema),
     defaultValues: { email: email ?? '' },
@@ -20,8 +21,10 @@ export function SignUpForm({ callbackUrl, email }: { callbackUrl: string; email?
 
   const onSubmit = handleSubmit(async (values) => {
     setFailure(null);
+    setAnswer(null);
+    let reply: { message: string };
     try {
-      await apiFetch('/api/users', { method: 'POST', json: values });
+      reply = await apiFetch<{ message: string }>('/api/users', { method: 'POST', json: values });
     } catch (error) {
       if (error instanceof ApiClientError) {
         for (const issue of error.issues) setError(issue.path as keyof SignUpInput, { message: issue.message });
@@ -30,9 +33,11 @@ export function SignUpForm({ callbackUrl, email }: { callbackUrl: string; email?
       }
       throw error;
     }
+    // The reply is the same whether or not the address was new; signing in with what was typed
+    // works only for a new account (or the owner's own password).
     const result = await signIn('credentials', { email: values.email, password: values.password, redirect: false, callbackUrl });
     if (result?.error) {
-      setFailure('Your account was created, but signing in failed. Try signing in.');
+      setAnswer(reply.message);
       return;
     }
     window.location.assign(callbackUrl);
@@ -42,6 +47,7 @@ export function SignUpForm({ callbackUrl, email }: { callbackUrl: string; email?
     <form onSubmit={onSubmit} className="space-y-4" noValidate>
       <h1 className="text-xl">Create an account</h1>
       {failure ? <Notice tone="error">{failure}</Notice> : null}
+      {answer ? <Notice title="Check your inbox">{answer}</Notice> : null}
       <TextField label="Name" autoComplete="name" {...register('name')} error={formState.errors.name?.message} />
       <TextField label="E-mail" type="email" autoComplete="email" {...register('email')} error={formState.errors.email?.message} />
       <TextField

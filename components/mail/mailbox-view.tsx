@@ -34,7 +34,7 @@ function MessageView({ message }: { message: MailboxMessageDto }) {
   );
 }
 
-/** Every message the local test mail server kept, newest first, with the chosen one beside the list. */
+/** The messages the local test mail server kept for the signed-in user's address, newest first, with the chosen one beside the list. */
 export function MailboxView() {
   const query = useMailbox();
   const [chosen, setChosen] = useState<string | null>(null);
@@ -45,15 +45,15 @@ export function MailboxView() {
       <div>
         <h1>Mailbox</h1>
         <p className="mt-1 text-sm text-ink-soft">
-          Messages Switchback sent through its local test mail server. Nothing here left this computer; every signed-in user of this installation
-          can read them. Set SMTP_URL to deliver mail for real.
+          Messages Switchback sent to your address{query.data?.address ? ` (${query.data.address})` : ''} through its local test mail server. Nothing here
+          left this computer, and each person sees only the mail sent to their own address. Set SMTP_URL to deliver mail for real.
         </p>
       </div>
       <QueryState query={query} label="Loading the mailbox…">
         {query.data && !query.data.enabled ? (
           <Notice>Mail goes to a real mail server here, so there is no local mailbox.</Notice>
         ) : messages.length === 0 ? (
-          <Notice>No messages yet. Invitations and password-reset links appear here a moment after they are sent.</Notice>
+          <Notice>No messages for your address yet. Confirmation links, invitations and password-reset links sent to it appear here a moment after they are sent.</Notice>
         ) : (
           <div className="grid gap-6 lg:grid-cols-3">
             <ul className="divide-y divide-ink/10 overflow-hidden rounded-lg border border-ink/10 bg-paper-raised" aria-label="Messages">

@@ -35,7 +35,7 @@ export function DesignFields({ register, errors: e, values, priors }: Props) {
         </SelectField>
         {usesS ? <TextField label="Delay sensitivity s" type="number" step="any" {...register('model.sensitivity', num)} error={e.model?.sensitivity?.message} hint="1 gives the model’s usual form" /> : null}
         {values.model?.id === 'quasi-hyperbolic' ? <TextField label="Present bias β" type="number" step="any" {...register('model.presentBias', num)} error={e.model?.presentBias?.message} hint="0 < β ≤ 1" /> : null}
-        <TextField label="Choice sensitivity γ (per unit of L)" type="number" step="any" {...register('choiceSensitivity', num)} error={e.choiceSensitivity?.message} hint="logistic choice noise; larger is less noisy" />
+        <TextField label="Choice sensitivity γ (per unit of the larger amount)" type="number" step="any" {...register('choiceSensitivity', num)} error={e.choiceSensitivity?.message} hint="logistic choice noise; larger is less noisy" />
       </fieldset>
       <fieldset className="grid gap-3 sm:grid-cols-3">
         <legend className="mb-1 text-sm font-semibold">Rewards</legend>

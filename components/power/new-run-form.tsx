@@ -9,8 +9,9 @@ import { useStudyContext } from '@/components/studies/study-context';
 import { ApiClientError } from '@/lib/client/api';
 import { useVersions, type VersionDto } from '@/lib/client/planner';
 import { useStartPowerRun } from '@/lib/client/power';
+import { DEFAULT_CHOICE_SENSITIVITY } from '@/lib/design/designChoiceModel';
 import { MODEL_CHOICES } from '@/lib/shared/validations/planner';
-import { parseSampleSizes, POWER_TEST_LABELS, POWER_TESTS, powerRunSpecSchema } from '@/lib/shared/validations/power';
+import { assumedTruth, DEFAULT_LAPSE, DEFAULT_POWER_TEST, parseSampleSizes, POWER_TEST_LABELS, POWER_TESTS, powerRunSpecSchema } from '@/lib/shared/validations/power';
 
 type Values = Record<string, string>;
 
@@ -24,23 +25,27 @@ const MODEL_LABELS: Record<string, string> = {
 };
 
 function fromVersion(v: VersionDto | undefined, previous: Values): Values {
-  const p = v?.content.prior;
-  const m = v?.content.spec.model;
+  if (!v) return { ...previous, version: '' };
+  const truth = assumedTruth(v.content);
+  const { prior: p, model: m } = truth;
   return {
     ...previous,
-    version: v ? String(v.id) : '',
-    model: m?.id ?? 'hyperbolic',
-    sensitivity: String(m?.sensitivity ?? 1),
-    presentBias: String(m?.presentBias ?? 1),
-    medianSmall: String(p?.medianSmall ?? 0.02),
-    medianLarge: String(p?.medianLarge ?? 0.008),
-    sdLogSmall: String(p?.sdLogSmall ?? 1),
-    sdLogLarge: String(p?.sdLogLarge ?? 1),
-    correlation: String(p?.correlation ?? 0.8),
+    version: String(v.id),
+    model: m.id,
+    sensitivity: String(m.sensitivity ?? 1),
+    presentBias: String(m.presentBias ?? 1),
+    medianSmall: String(p.medianSmall),
+    medianLarge: String(p.medianLarge),
+    sdLogSmall: String(p.sdLogSmall),
+    sdLogLarge: String(p.sdLogLarge),
+    correlation: String(p.correlation),
+    // the truth chooses as the design assumes unless the user says otherwise: one γ per frozen version
+    gamma: String(truth.gamma),
+    lapse: String(truth.lapse),
   };
 }
 
-const DEFAULTS: Values = { label: '', gamma: '10', lapse: '0.02', calibration: 'simulated', test: 'mcnemar', alpha: '0.05', alternative: 'greater', sizes: '20:200:20', replications: '500', seed: '1' };
+const DEFAULTS: Values = { label: '', gamma: String(DEFAULT_CHOICE_SENSITIVITY), lapse: String(DEFAULT_LAPSE), calibration: 'simulated', test: DEFAULT_POWER_TEST, alpha: '0.05', alternative: 'greater', sizes: '20:200:20', replications: '500', seed: '1' };
 
 /** Starts a run: the frozen version, the simulated truth (prefilled as the design assumes), the test and the simulation size. */
 export function NewRunForm() {
@@ -131,7 +136,7 @@ export function NewRunForm() {
           <TextField label="Correlation" inputMode="decimal" value={current.correlation} onChange={set('correlation')} error={err('truth.prior.correlation')} />
         </div>
         <div className="grid gap-4 sm:grid-cols-3">
-          <TextField label="Choice sensitivity γ (per large amount)" inputMode="decimal" value={current.gamma} onChange={set('gamma')} error={err('truth.gamma')} />
+          <TextField label="Choice sensitivity γ (per unit of the larger amount)" inputMode="decimal" value={current.gamma} onChange={set('gamma')} error={err('truth.gamma')} />
           <TextField label="Lapse rate ε" inputMode="decimal" value={current.lapse} onChange={set('lapse')} error={err('truth.lapse')} />
           <SelectField label="Calibration block" value={current.calibration} onChange={set('calibration')}>
             <option value="simulated">Simulated, rates re-estimated</option>

@@ -7,7 +7,7 @@ import { powerCurveSvg, type PowerSeries } from '@/lib/shared/figures/power-curv
  * The power curve(s) with Wilson bands, drawn by the same d3 code that renders the SVG and PNG
  * downloads, so the page and the figure a grant uses always match.
  */
-export function PowerChart({ series, title, caption }: { series: PowerSeries[]; title?: string; caption?: string }) {
-  const svg = useMemo(() => powerCurveSvg(series, { title, caption }), [series, title, caption]);
+export function PowerChart({ series, title, caption, notes }: { series: PowerSeries[]; title?: string; caption?: string; notes?: string[] }) {
+  const svg = useMemo(() => powerCurveSvg(series, { title, caption, notes }), [series, title, caption, notes]);
   return <div data-testid="power-chart" className="w-full max-w-3xl [&>svg]:h-auto [&>svg]:w-full" dangerouslySetInnerHTML={{ __html: svg }} />;
 }

@@ -7,6 +7,7 @@ import { Notice } from '@/components/ui/notice';
 import { Table, Td, Th } from '@/components/ui/table';
 import type { SampleSizeAnswer } from '@/lib/design/power/sampleSizeFor';
 import { powerExportUrl, type PowerRunDto } from '@/lib/client/power';
+import { testWarning } from '@/lib/shared/validations/power';
 import { PowerChart } from './power-chart';
 
 const pct = (v: number) => `${(v * 100).toFixed(1)} %`;
@@ -29,6 +30,8 @@ export function RunResults({ run, studyId }: { run: PowerRunDto; studyId: number
   if (!result) return null;
   const { summary } = result;
   const label = run.label || `${run.design.name} v${run.design.number}`;
+  const warning = testWarning(run.spec.test.kind);
+  const notes = warning ? [warning] : [];
   return (
     <div className="space-y-6">
       {summary.warnings.length ? (
@@ -41,7 +44,7 @@ export function RunResults({ run, studyId }: { run: PowerRunDto; studyId: number
         </Notice>
       ) : null}
       <Card title="Power curve">
-        <PowerChart series={[{ label, points: summary.points }]} title={`Power: ${label}`} caption={`${run.spec.replications} replications, seed ${run.spec.seed}.`} />
+        <PowerChart series={[{ label, points: summary.points }]} title={`Power: ${label}`} caption={`${run.spec.replications} replications, seed ${run.spec.seed}.`} notes={notes} />
         <dl className="mt-4 grid gap-2 text-sm sm:grid-cols-2">
           <div>
             <dt className="font-semibold">Sample size for 80 % power</dt>

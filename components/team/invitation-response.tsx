@@ -3,6 +3,7 @@
 import Link from 'next/link';
 import { useRouter } from 'next/navigation';
 import { signOut } from 'next-auth/react';
+import { AddressUnconfirmed } from '@/components/account/address-confirmation';
 import { Button, buttonClass } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
@@ -16,7 +17,9 @@ import type { InvitationLinkView } from '@/lib/server/services/invitations';
  * What an invitation link shows: a clear page for every state. A pending invitation is accepted
  * with a button (never just by opening the link, which mail scanners also do).
  */
-function InvitationResponse({ token, view, user }: { token: string; view: InvitationLinkView; user: { email: string } | null }) {
+type LinkUser = { email: string; emailVerified: boolean } | null;
+
+function InvitationResponse({ token, view, user, mailbox }: { token: string; view: InvitationLinkView; user: LinkUser; mailbox: boolean }) {
   const accept = useAcceptInvitation();
   const router = useRouter();
   const here = `/invitations/${token}`;
@@ -73,6 +76,17 @@ function InvitationResponse({ token, view, user }: { token: string; view: Invita
     );
   }
 
+  if (!user.emailVerified) {
+    return (
+      <div className="space-y-4">
+        <h1 className="text-xl">Join a study</h1>
+        {intro}
+        <AddressUnconfirmed email={user.email} blocks="this invitation cannot be accepted" mailbox={mailbox} />
+        <p className="text-xs text-ink-soft">Once it is confirmed, open this invitation link again.</p>
+      </div>
+    );
+  }
+
   return (
     <div className="space-y-4">
       <h1 className="text-xl">Join a study</h1>
@@ -91,11 +105,11 @@ function InvitationResponse({ token, view, user }: { token: string; view: Invita
 }
 
 /** The invitation page's body: loads what the link leads to, then shows the matching answer. */
-export function InvitationGate({ token, user }: { token: string; user: { email: string } | null }) {
+export function InvitationGate({ token, user, mailbox }: { token: string; user: LinkUser; mailbox: boolean }) {
   const link = useInvitationLink(token);
   return (
     <QueryState query={link} label="Opening the invitation…">
-      {link.data ? <InvitationResponse token={token} view={link.data} user={user} /> : null}
+      {link.data ? <InvitationResponse token={token} view={link.data} user={user} mailbox={mailbox} /> : null}
     </QueryState>
   );
 }

@@ -8,12 +8,15 @@ import { ApiKey, Participant } from './item-bank';
 import { Invitation, NoticeSetting, PasswordResetToken } from './team';
 import { PowerRun } from './power';
 import { ParticipantSession, Stage2Answer } from './session';
+// account security: address confirmation and signed-out sessions
+import { EmailConfirmationToken, EndedSession } from './account';
 
 export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
 export { ApiKey, Participant };
 export { Invitation, PasswordResetToken, NoticeSetting };
 export { PowerRun };
 export { ParticipantSession, Stage2Answer };
+export { EmailConfirmationToken, EndedSession };
 
 /**
  * Registers every model and association on one Sequelize instance. A new model is added here
@@ -34,6 +37,8 @@ export function registerModels(sequelize: Sequelize): void {
   PasswordResetToken.register(sequelize);
   NoticeSetting.register(sequelize);
   PowerRun.register(sequelize);
+  EmailConfirmationToken.register(sequelize);
+  EndedSession.register(sequelize);
   ParticipantSession.register(sequelize);
   Stage2Answer.register(sequelize);
 

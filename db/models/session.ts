@@ -30,6 +30,8 @@ export class ParticipantSession extends Model<InferAttributes<ParticipantSession
   declare servedAt: Date | null;
   declare completedAt: Date | null;
   declare lastActivityAt: Date;
+  /** SHA-256 of the session token handed to a browser session (null for server-key sessions) */
+  declare tokenHash: CreationOptional<string | null>;
 
   static register(sequelize: Sequelize) {
     ParticipantSession.init(
@@ -47,6 +49,7 @@ export class ParticipantSession extends Model<InferAttributes<ParticipantSession
         servedAt: { type: DataTypes.DATE, allowNull: true },
         completedAt: { type: DataTypes.DATE, allowNull: true },
         lastActivityAt: { type: DataTypes.DATE, allowNull: false },
+        tokenHash: { type: DataTypes.CHAR(64), allowNull: true },
       },
       { sequelize, tableName: 'participant_sessions', timestamps: false },
     );

@@ -7,6 +7,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare passwordHash: string;
   /** Raised by a password reset; session tokens carry the value they were issued with. */
   declare sessionEpoch: CreationOptional<number>;
+  /** When the owner proved the address by opening a confirmation link; null until then. */
+  declare emailVerifiedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -18,6 +20,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         name: { type: DataTypes.STRING(120), allowNull: false },
         passwordHash: { type: DataTypes.STRING(100), allowNull: false },
         sessionEpoch: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
+        emailVerifiedAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

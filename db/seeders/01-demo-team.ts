@@ -10,11 +10,13 @@ export async function seed(sequelize: Sequelize): Promise<void> {
   await sequelize.transaction(async (transaction) => {
     const users = [];
     for (const account of demoAccounts) {
+      // Demo addresses are confirmed, so the demo's invitation flows work without a real inbox.
       const [user] = await User.findOrCreate({
         where: { email: account.email },
-        defaults: { email: account.email, name: account.name, passwordHash: await bcrypt.hash(account.password, 10) },
+        defaults: { email: account.email, name: account.name, passwordHash: await bcrypt.hash(account.password, 10), emailVerifiedAt: new Date() },
         transaction,
       });
+      if (!user.emailVerifiedAt) await user.update({ emailVerifiedAt: new Date() }, { transaction });
       users.push({ user, role: account.role });
     }
     const owner = users.find((u) => u.role === 'owner')!.user;

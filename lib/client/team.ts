@@ -17,7 +17,7 @@ export type AuditNamesDto = {
   priors: Record<string, string>;
   users: Record<string, string>;
 };
-export type MailboxMessageDto = { id: string; receivedAt: string; from: string; to: string; subject: string; text: string };
+export type MailboxMessageDto = { id: string; receivedAt: string; from: string; to: string; subject: string; text: string; recipients: string[] };
 
 export const teamKeys = {
   invitations: (studyId: number) => ['study', studyId, 'invitations'] as const,
@@ -108,7 +108,7 @@ export function useAuditEvents(studyId: number) {
 export function useMailbox() {
   return useQuery({
     queryKey: teamKeys.mailbox,
-    queryFn: () => apiFetch<{ enabled: boolean; messages: MailboxMessageDto[] }>('/api/mailbox'),
+    queryFn: () => apiFetch<{ enabled: boolean; address: string; messages: MailboxMessageDto[] }>('/api/mailbox'),
     refetchInterval: 3000,
   });
 }

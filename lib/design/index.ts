@@ -17,6 +17,7 @@ export { priorPoints, checkPrior, type RatePrior, type RatePoints, type PriorPoi
 export { fitPrior } from './fitPrior';
 export { reversibleShare } from './reversibleShare';
 export { choiceProbability, checkChoiceModel, probabilityLarger, type ChoiceModel } from './choiceProbability';
+export { designChoiceModel, DEFAULT_CHOICE_SENSITIVITY, CHOICE_SENSITIVITY_UNIT } from './designChoiceModel';
 export { indifferenceRate, type ChoiceItem } from './indifferenceRate';
 export { calibrationItems, type CalibrationItem, type CalibrationOptions, type Magnitude } from './calibrationItems';
 export { extrapolationWarning, type ExtrapolationWarning } from './extrapolationWarning';
@@ -25,3 +26,4 @@ export { estimateRates, type Choice, type EstimateFlag, type EstimateOptions, ty
 export { checkDelay, checkInteger, checkLateDelay, checkModel, checkRatio } from './validate';
 export * from './power';
 export * from './item-bank';
+export * from './analysis';

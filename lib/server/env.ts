@@ -12,6 +12,13 @@ const serverEnvSchema = z.object({
   NEXTAUTH_URL: z.url().optional(),
   SMTP_URL: z.string().optional(),
   MAIL_FROM: z.string().default('Switchback <no-reply@switchback.local>'),
+  // account security: the reverse proxies whose X-Forwarded-For is believed (addresses or CIDR
+  // ranges, comma-separated). Empty: rate limits count the address of the connection itself.
+  TRUSTED_PROXIES: z
+    .string()
+    .default('')
+    .transform((list) => list.split(',').map((entry) => entry.trim()).filter(Boolean))
+    .pipe(z.array(z.union([z.ipv4(), z.ipv6(), z.cidrv4(), z.cidrv6()], { error: 'list IP addresses or CIDR ranges, separated by commas' }))),
 });
 
 export type ServerEnv = z.infer<typeof serverEnvSchema>;

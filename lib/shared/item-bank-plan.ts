@@ -1,9 +1,6 @@
 import { optimisePopulationDesign, priorScenarios, type PopulationCriterion } from '@/lib/criteria';
-import { buildItemBank, optimiseLateDelay, priorPoints, type DelayUnit, type ItemBank, type LocatePoint } from '@/lib/design';
+import { buildItemBank, designChoiceModel, optimiseLateDelay, priorPoints, type DelayUnit, type ItemBank, type LocatePoint } from '@/lib/design';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
-
-/** Logistic choice sensitivity the expected reversal rate is computed with (the estimator's default γ = 10). */
-const CHOICE = { sensitivity: 10 };
 
 /**
  * Where a design puts its probe pairs for given rates.
@@ -23,7 +20,7 @@ export function locateFor(design: FrozenDesign): LocatePoint {
       if (cached !== undefined) return cached;
       const criterion: PopulationCriterion =
         spec.criterion === 'expected-reversal-rate'
-          ? { kind: 'expected-reversal-rate', choice: CHOICE, points: priorPoints(prior, { method: 'quadrature' }) }
+          ? { kind: 'expected-reversal-rate', choice: designChoiceModel(spec), points: priorPoints(prior, { method: 'quadrature' }) }
           : spec.criterion === 'maximin'
             ? { kind: 'maximin-gap', scenarios: priorScenarios(prior) }
             : { kind: 'gap-product', kSmall: prior.medianSmall, kLarge: prior.medianLarge };

@@ -20,14 +20,37 @@ export async function signInAs(page: Page, role: DemoRole) {
   return account;
 }
 
-/** Makes a fresh account through the sign-up page (so the demo passwords stay as they are) and waits for the study list. */
-export async function signUpFresh(page: Page, name: string, email: string, password: string) {
+/**
+ * Makes a fresh account through the sign-up page (so the demo passwords stay as they are) and waits
+ * for the study list. The address is then unconfirmed; pass `confirm: true` to confirm it through
+ * the mailed link, as invitees must before they can accept.
+ */
+export async function signUpFresh(page: Page, name: string, email: string, password: string, options: { confirm?: boolean } = {}) {
   await page.goto('/sign-up');
   await page.getByLabel('Name').fill(name);
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Create account' }).click();
   await expect(page.getByRole('heading', { name: 'Your studies' })).toBeVisible();
+  if (options.confirm) await confirmAddress(page);
+}
+
+/** The href of the first link in the newest message of the signed-in user's mailbox whose subject matches. */
+export async function linkFromMailbox(page: Page, subject: string | RegExp, linkPath: RegExp) {
+  await page.goto('/mailbox');
+  await expect(page.getByRole('heading', { name: 'Mailbox' })).toBeVisible();
+  await page.getByTestId('mailbox-item').filter({ hasText: subject }).first().click();
+  const href = await page.getByTestId('mailbox-message').getByRole('link', { name: linkPath }).first().getAttribute('href');
+  expect(href).toBeTruthy();
+  return href!;
+}
+
+/** Confirms the signed-in user's address with the link the mailbox holds for it. */
+export async function confirmAddress(page: Page) {
+  const link = await linkFromMailbox(page, 'Confirm your e-mail address', /\/confirm-email\//);
+  await page.goto(link);
+  await page.getByRole('button', { name: 'Confirm my address' }).click();
+  await expect(page.getByRole('heading', { name: 'Address confirmed' })).toBeVisible();
 }
 
 /** Opens the seeded demo study from the study list. */

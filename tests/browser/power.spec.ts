@@ -31,7 +31,7 @@ test.describe('power simulation', () => {
 
     await expect(page.getByTestId('run-status')).toHaveText('Finished', { timeout: 180_000 });
     await expect(page.getByTestId('power-chart').locator('svg')).toBeVisible();
-    await expect(page.getByTestId('method-text')).toContainText('exact McNemar');
+    await expect(page.getByTestId('method-text')).toContainText('sign test at the participant level');
     await expect(page.getByTestId('n-for-80')).not.toBeEmpty();
     await page.screenshot(shot('power-results'));
 

@@ -1,7 +1,7 @@
 import { expect, test } from '@playwright/test';
-import { openDemoStudy, shot, signInAs, signUpFresh } from './helpers';
+import { confirmAddress, linkFromMailbox, openDemoStudy, shot, signInAs, signUpFresh } from './helpers';
 
-test('the demo owner invites an address, and the invitee joins through the mailed link with the invited role', async ({ page, browser }) => {
+test('the demo owner invites an address, and the invitee confirms the address and joins through the mailed link with the invited role', async ({ page, browser }) => {
   test.setTimeout(120_000);
   const email = `invitee-${Date.now()}@harbourlight.example.org`;
   await signInAs(page, 'owner');
@@ -16,27 +16,26 @@ test('the demo owner invites an address, and the invitee joins through the maile
   await expect(page.getByTestId('invitation-row').filter({ hasText: email })).toContainText('Editor');
   await page.screenshot(shot('team-invited'));
 
+  // The owner's mailbox holds only the owner's mail: the invitation is not there for them to read.
   await page.getByTestId('mailbox-link').click();
   await expect(page.getByRole('heading', { name: 'Mailbox' })).toBeVisible();
-  await page.getByTestId('mailbox-item').filter({ hasText: email }).first().click();
-  const message = page.getByTestId('mailbox-message');
-  await expect(message.getByTestId('mailbox-message-to')).toContainText(email);
-  const link = await message.getByRole('link', { name: /\/invitations\// }).getAttribute('href');
-  expect(link).toBeTruthy();
-  await page.screenshot(shot('mailbox-invitation'));
+  await expect(page.getByTestId('mailbox-item').filter({ hasText: email })).toHaveCount(0);
 
-  // The invitee has never been here: a fresh browser context, no session.
+  // The invitee has never been here: a fresh browser context, a new account with the invited address.
   const invitee = await browser.newContext();
   const guest = await invitee.newPage();
-  await guest.goto(link!);
+  await signUpFresh(guest, 'Marlowe Quist', email, 'harbour-invitee-2026');
+  const link = await linkFromMailbox(guest, /^Join /, /\/invitations\//);
+  await guest.screenshot(shot('mailbox-invitation'));
+  await guest.goto(link);
   await expect(guest.getByText(/You are invited to join/)).toContainText('as editor');
+  // Until the address is confirmed, the invitation cannot be accepted.
+  await expect(guest.getByTestId('address-unconfirmed')).toContainText('Your address is not confirmed yet');
+  await expect(guest.getByRole('button', { name: 'Accept and open the study' })).toHaveCount(0);
   await guest.screenshot(shot('invitation-landing'));
-  await guest.getByRole('link', { name: 'Create an account' }).click();
-  await expect(guest.getByLabel('E-mail')).toHaveValue(email);
-  await guest.getByLabel('Name').fill('Marlowe Quist');
-  await guest.getByLabel('Password').fill('harbour-invitee-2026');
-  await guest.getByRole('button', { name: 'Create account' }).click();
+  await confirmAddress(guest);
 
+  await guest.goto(link);
   await expect(guest.getByRole('button', { name: 'Accept and open the study' })).toBeVisible();
   await guest.getByRole('button', { name: 'Accept and open the study' }).click();
   await expect(guest.getByTestId('study-title')).toContainText('Rainy-day savings');
@@ -44,12 +43,12 @@ test('the demo owner invites an address, and the invitee joins through the maile
   await guest.screenshot(shot('invitee-joined'));
 
   // The link worked once: opening it again says so instead of failing.
-  await guest.goto(link!);
+  await guest.goto(link);
   await expect(guest.getByRole('heading', { name: 'Invitation already used' })).toBeVisible();
 
   // The owner sees the new member and the trail of what happened; then removes them again, so the
   // demo study keeps its seeded team for other specs.
-  await page.goto(new URL(link!).origin + '/studies');
+  await page.goto(new URL(link).origin + '/studies');
   await openDemoStudy(page);
   await page.getByRole('link', { name: 'Audit trail' }).click();
   await expect(page.getByRole('heading', { name: 'Audit trail' })).toBeVisible({ timeout: 30_000 });
@@ -86,10 +85,8 @@ test('a forgotten password is reset through the mailed link, and the request pag
   await expect(guest.getByRole('status').filter({ hasText: 'Check your inbox' })).toHaveText(answer);
   await guest.screenshot(shot('reset-requested'));
 
-  await page.getByTestId('mailbox-link').click();
-  await page.getByTestId('mailbox-item').filter({ hasText: email }).first().click();
-  const link = await page.getByTestId('mailbox-message').getByRole('link', { name: /\/reset-password\// }).getAttribute('href');
-  await guest.goto(link!);
+  const link = await linkFromMailbox(page, 'Choose a new Switchback password', /\/reset-password\//);
+  await guest.goto(link);
   await expect(guest.getByRole('heading', { name: 'Choose a new password' })).toBeVisible();
   await guest.getByLabel('New password').fill('second-password-2026');
   await guest.getByLabel('The same again').fill('second-password-2026');
@@ -103,7 +100,7 @@ test('a forgotten password is reset through the mailed link, and the request pag
   await guest.getByRole('button', { name: 'Sign in' }).click();
   await expect(guest.getByRole('heading', { name: 'Your studies' })).toBeVisible();
 
-  await guest.goto(link!);
+  await guest.goto(link);
   await expect(guest.getByRole('heading', { name: 'This link cannot be used' })).toBeVisible();
   await guest.screenshot(shot('reset-link-used'));
 
@@ -146,6 +143,9 @@ test('a signed-in user changes their password on the account page, is signed out
 
 test('a withdrawn invitation link says so instead of failing', async ({ page, browser }) => {
   const email = `withdrawn-${Date.now()}@harbourlight.example.org`;
+  const guest = await (await browser.newContext()).newPage();
+  await signUpFresh(guest, 'Wren Halloway', email, 'harbour-withdrawn-2026');
+
   await signInAs(page, 'owner');
   await openDemoStudy(page);
   await page.getByRole('link', { name: 'Team' }).first().click();
@@ -153,18 +153,13 @@ test('a withdrawn invitation link says so instead of failing', async ({ page, br
   await page.getByRole('button', { name: 'Send invitation' }).click();
   const row = page.getByTestId('invitation-row').filter({ hasText: email });
   await expect(row).toBeVisible();
+  const link = await linkFromMailbox(guest, /^Join /, /\/invitations\//);
 
-  await page.getByTestId('mailbox-link').click();
-  await page.getByTestId('mailbox-item').filter({ hasText: email }).first().click();
-  const link = await page.getByTestId('mailbox-message').getByRole('link', { name: /\/invitations\// }).getAttribute('href');
-
-  await page.goBack();
-  await page.getByTestId('invitation-row').filter({ hasText: email }).getByRole('button', { name: 'Withdraw' }).click();
+  await row.getByRole('button', { name: 'Withdraw' }).click();
   await expect(page.getByText(`The invitation for ${email} was withdrawn`)).toBeVisible();
   await expect(page.getByTestId('invitation-row').filter({ hasText: email })).toHaveCount(0);
 
-  const guest = await (await browser.newContext()).newPage();
-  await guest.goto(link!);
+  await guest.goto(link);
   await expect(guest.getByRole('heading', { name: 'Invitation withdrawn' })).toBeVisible();
   await expect(guest.getByText('This invitation was withdrawn by the study owner.')).toBeVisible();
   await guest.screenshot(shot('invitation-withdrawn'));

@@ -2,7 +2,7 @@
 // three batch-served participants; running them again adds nothing.
 import { beforeAll, describe, expect, it } from 'vitest';
 import { db } from '@/db';
-import { AuditEvent, Participant, PowerRun, Study } from '@/db/models';
+import { AuditEvent, Participant, PowerRun, Study, User } from '@/db/models';
 import { DEMO_STUDY_NAME, seed as seedTeam } from '@/db/seeders/01-demo-team';
 import { seed as seedPlanner } from '@/db/seeders/02-demo-planner';
 import { seed as seedItemBank } from '@/db/seeders/03-demo-item-bank';
@@ -32,5 +32,18 @@ describe('the demo item-bank and power seeders', () => {
     expect(run?.status).toBe('finished');
     const event = await AuditEvent.findOne({ where: { studyId: study.id, action: 'power-run.start' } });
     expect(event?.details).toMatchObject({ runId: run!.id });
+  }, 60_000);
+});
+
+describe('the demo accounts', () => {
+  it('are seeded with confirmed addresses, and an older unconfirmed demo account is confirmed on the next seeding', async () => {
+    const { demoAccounts } = await import('@/db/seeders/demo-accounts.mjs');
+    await seedTeam(db());
+    const owner = demoAccounts.find((a) => a.role === 'owner')!;
+    await User.update({ emailVerifiedAt: null }, { where: { email: owner.email } });
+    await seedTeam(db());
+    for (const account of demoAccounts) {
+      expect((await User.findOne({ where: { email: account.email } }))?.emailVerifiedAt, account.email).toBeInstanceOf(Date);
+    }
   }, 60_000);
 });

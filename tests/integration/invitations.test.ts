@@ -8,7 +8,8 @@ import { POST as resendRoute } from '@/app/api/studies/[id]/invitations/[invitat
 import { POST as acceptRoute } from '@/app/api/invitations/accept/route';
 import { POST as signUpRoute } from '@/app/api/users/route';
 import { GET as getStudyRoute } from '@/app/api/studies/[id]/route';
-import { AuditEvent, Invitation, Membership } from '@/db/models';
+import { POST as confirmRoute } from '@/app/api/email-confirmation/route';
+import { AuditEvent, Invitation, Membership, User } from '@/db/models';
 import { hashToken } from '@/lib/server/auth/tokens';
 import { inspectInvitation } from '@/lib/server/services/invitations';
 import { ctx, makeStudyWithTeam, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
@@ -39,16 +40,20 @@ async function accept(user: TestUser, token: string) {
   return { status: response.status, body: await response.json() };
 }
 
+/** Signs up through the route and confirms the address with the mailed link, as a new colleague would. */
 async function signUp(email: string): Promise<TestUser> {
   const password = `pw-${randomUUID()}`;
   const response = await signUpRoute(await requestAs(null, 'POST', '/api/users', { json: { name: 'New Colleague', email, password } }), ctx({}));
-  expect(response.status).toBe(201);
-  const { user } = await response.json();
-  return { ...user, password };
+  expect(response.status).toBe(202);
+  const user = (await User.findOne({ where: { email } }))!;
+  const confirmation = await mailbox.waitFor((m) => m.to.includes(email) && m.text.includes('/confirm-email/'));
+  const token = tokenOf(linkIn(confirmation, '/confirm-email/'));
+  expect((await confirmRoute(await requestAs(null, 'POST', '/api/email-confirmation', { json: { token } }), ctx({}))).status).toBe(200);
+  return { id: user.id, email: user.email, name: user.name, password };
 }
 
 async function invitedToken(email: string) {
-  const message = await mailbox.waitFor((m) => m.to.includes(email));
+  const message = await mailbox.waitFor((m) => m.to.includes(email) && m.text.includes('/invitations/'));
   return { message, link: linkIn(message, '/invitations/'), token: tokenOf(linkIn(message, '/invitations/')) };
 }
 

@@ -172,6 +172,12 @@ describe('the probe-items API', () => {
     const reply = await openapi(await requestAs(null, 'GET', '/api/v1/openapi.json'), ctx({}));
     const doc = (await reply.json()) as { openapi: string; paths: Record<string, unknown> };
     expect(doc.openapi).toBe('3.1.0');
-    expect(Object.keys(doc.paths)).toContain('/api/v1/studies/{id}/probe-items');
+    expect(Object.keys(doc.paths)).toEqual(expect.arrayContaining(['/api/v1/studies/{id}/probe-items', '/api/v1/studies/{id}/calibration', '/api/v1/studies/{id}/stage2-answers']));
+    // every error status the session endpoints answer is documented, and each endpoint has an example
+    const text = JSON.stringify(doc.paths);
+    const answers = (doc.paths['/api/v1/studies/{id}/stage2-answers'] as { post: { responses: Record<string, unknown>; requestBody: { content: { 'application/json': { example: unknown } } } } }).post;
+    expect(Object.keys(answers.responses).sort()).toEqual(['200', '400', '401', '403', '404', '409', '413', '422', '429']);
+    expect(answers.requestBody.content['application/json'].example).toBeDefined();
+    expect(text).toContain('length varies');
   });
 });

@@ -7,7 +7,10 @@ import { pathToFileURL } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { apiPermissions, type Access, type Method } from '@/lib/server/auth/permissions';
 import { ROLES, roleAtLeast, type Role } from '@/lib/shared/roles';
+import { ApiKey } from '@/db/models';
+import { hashSecret } from '@/lib/server/services/api-keys';
 import { ctx, makeStudyWithTeam, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
+import { makeFrozenVersion } from './item-bank-support';
 
 const METHODS: Method[] = ['GET', 'POST', 'PUT', 'PATCH', 'DELETE'];
 const API_DIR = path.join(process.cwd(), 'app', 'api');
@@ -24,6 +27,17 @@ const routes = findRouteFiles(API_DIR).map((file) => ({
   file,
   pattern: '/' + path.relative(path.join(process.cwd(), 'app'), path.dirname(file)).split(path.sep).join('/'),
 }));
+
+/**
+ * A browser key of the study (the key kind shipped inside public pages), listing one origin. It
+ * must be refused everywhere but the participant-session endpoints, and there without its origin.
+ */
+async function browserKeyOf(studyId: number): Promise<string> {
+  const version = await makeFrozenVersion(studyId);
+  const secret = `sbk_matrix${studyId}_${'x'.repeat(32)}`;
+  await ApiKey.create({ studyId, designVersionId: version.id, name: 'matrix browser key', prefix: `sbk_matrix${studyId}`.slice(0, 16), secretHash: hashSecret(secret), createdBy: null, lastUsedAt: null, revokedAt: null, revokedBy: null, kind: 'browser', allowedOrigins: ['http://lab.example.test'] });
+  return secret;
+}
 
 /** Values for dynamic segments: the scratch study for [id], a catch-all sample, a missing id otherwise. */
 function paramsFor(pattern: string, studyId: number): { url: string; params: Record<string, string | string[]> } {
@@ -42,9 +56,9 @@ function paramsFor(pattern: string, studyId: number): { url: string; params: Rec
 
 type Handler = (request: unknown, context: unknown) => Promise<Response>;
 
-async function call(handler: Handler, user: TestUser | null, method: Method, url: string, params: Record<string, string | string[]>) {
+async function call(handler: Handler, user: TestUser | null, method: Method, url: string, params: Record<string, string | string[]>, headers: Record<string, string> = {}) {
   const withBody = method === 'POST' || method === 'PUT' || method === 'PATCH';
-  const request = await requestAs(user, method, url, withBody ? { json: {} } : {});
+  const request = await requestAs(user, method, url, withBody ? { json: {}, headers } : { headers });
   const response = await handler(request, ctx(params));
   return response.status;
 }
@@ -83,11 +97,16 @@ describe('the permission matrix', () => {
         return;
       }
       expect(anonymous, 'anonymous callers get 401').toBe(401);
+      const browserKey = { authorization: `Bearer ${await browserKeyOf(study.id)}` };
 
       if (access === 'api-key') {
         expect(await call(handler, outsider, method, url, params), 'a browser session is not an API key').toBe(401);
+        expect(await call(handler, null, method, url, params, browserKey), 'a browser key works only from its listed origins').toBe(403);
+        expect(await call(handler, null, method, url, params, { ...browserKey, origin: 'http://unlisted.example.test' }), 'a browser key works only from its listed origins').toBe(403);
         return;
       }
+      expect(await call(handler, null, method, url, params, browserKey), 'a browser key is refused outside the participant-session API').toBe(401);
+      expect(await call(handler, null, method, url, params, { ...browserKey, origin: 'http://lab.example.test' }), 'a browser key is refused outside the participant-session API').toBe(401);
       if (access === 'signed-in') {
         expect([401, 403, 404]).not.toContain(await call(handler, outsider, method, url, params));
         return;

@@ -20,11 +20,15 @@ export async function migrateUp() {
 
 export type TestUser = { id: number; email: string; name: string; password: string };
 
-/** A new user with a unique e-mail; bcrypt cost 4 keeps set-up quick (the app uses 10). */
-export async function makeUser(label = 'user'): Promise<TestUser> {
+/**
+ * A new user with a unique e-mail; bcrypt cost 4 keeps set-up quick (the app uses 10). The address
+ * counts as confirmed unless `verified: false`.
+ */
+export async function makeUser(label = 'user', options: { verified?: boolean } = {}): Promise<TestUser> {
   const password = `pw-${randomUUID()}`;
   const email = `${label}-${randomUUID().slice(0, 8)}@tests.example.org`;
-  const user = await User.create({ email, name: `Test ${label}`, passwordHash: await bcrypt.hash(password, 4) });
+  const emailVerifiedAt = options.verified === false ? null : new Date();
+  const user = await User.create({ email, name: `Test ${label}`, passwordHash: await bcrypt.hash(password, 4), emailVerifiedAt });
   return { id: user.id, email, name: user.name, password };
 }
 
@@ -42,14 +46,15 @@ export async function makeStudyWithTeam(name = 'Matrix study') {
 
 /** A NextRequest carrying a session cookie for `user` (or none), as the browser would send it. */
 export async function requestAs(
-  user: (Pick<TestUser, 'id' | 'email' | 'name'> & { sessionEpoch?: number }) | null,
+  user: (Pick<TestUser, 'id' | 'email' | 'name'> & { sessionEpoch?: number; sid?: string }) | null,
   method: string,
   path: string,
   options: { json?: unknown; body?: string; headers?: Record<string, string> } = {},
 ): Promise<NextRequest> {
   const headers: Record<string, string> = { ...options.headers };
   if (user) {
-    const token = await encode({ token: { sub: String(user.id), email: user.email, name: user.name, epoch: user.sessionEpoch ?? 0 }, secret: process.env.NEXTAUTH_SECRET! });
+    const claims = { sub: String(user.id), email: user.email, name: user.name, epoch: user.sessionEpoch ?? 0, ...(user.sid ? { sid: user.sid } : {}) };
+    const token = await encode({ token: claims, secret: process.env.NEXTAUTH_SECRET! });
     headers.cookie = `next-auth.session-token=${token}`;
   }
   let body = options.body;

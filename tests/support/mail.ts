@@ -22,7 +22,7 @@ export async function startTestMailbox(): Promise<TestMailbox> {
   const before = { SMTP_URL: process.env.SMTP_URL, MAILBOX_DIR: process.env.MAILBOX_DIR };
   process.env.SMTP_URL = smtp.url;
   process.env.MAILBOX_DIR = dir;
-  const all = () => listMailbox(dir, 10_000);
+  const all = () => listMailbox(dir, { recipient: null, limit: 10_000 });
   return {
     url: smtp.url,
     dir,

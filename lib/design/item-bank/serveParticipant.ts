@@ -1,4 +1,5 @@
 import type { CalibrationItem } from '../calibrationItems';
+import { designChoiceModel } from '../designChoiceModel';
 import { estimateRates, type Choice, type EstimateFlag, type RateEstimate } from '../estimateRates';
 import { extrapolationWarning, type ExtrapolationWarning } from '../extrapolationWarning';
 import { createRandom } from '../random';
@@ -41,7 +42,8 @@ const FALLBACK_FLAGS: readonly EstimateFlag[] = ['non-monotone', 'all-sooner', '
  * 1. Responses are checked: every calibration item answered, no unknown item ids, only
  *    'sooner' or 'later' (the calibration attention check may be answered too); all problems
  *    are reported at once (ItemBankInputError, naming the items).
- * 2. kSmall and kLarge are estimated by maximum likelihood (estimateRates, logistic choice, γ = 10).
+ * 2. kSmall and kLarge are estimated by maximum likelihood (estimateRates) under the design's one
+ *    choice model (designChoiceModel: the design's γ, no lapse).
  * 3. Personalised designs: probe and anchor pairs at the estimates (pairDelays around `locate`'s
  *    point). Fallback (documented): a participant whose small or large estimate is flagged
  *    non-monotone, all-sooner or all-later, or whose estimates have no reversal zone within the
@@ -67,7 +69,7 @@ export function serveParticipant(
     laterDelay: i.laterDelay,
     targetRate: Number.NaN, // not read by estimateRates, which computes each tie rate itself
   }));
-  const fit = estimateRates(calibration.map((i) => choices.get(i.id)!), fitItems, design.spec.model);
+  const fit = estimateRates(calibration.map((i) => choices.get(i.id)!), fitItems, design.spec.model, designChoiceModel(design.spec));
   const rates = { kSmall: fit.small.rate, kLarge: fit.large.rate };
   let flag: ServeFlag | null = (FALLBACK_FLAGS.find((f) => fit.small.flags.includes(f) || fit.large.flags.includes(f)) as ServeFlag | undefined) ?? null;
   let delays = null;

@@ -52,6 +52,8 @@ export type BankDesign = {
     lateAnchors: number;
     soonAnchors: number;
     calibration: { itemsPerMagnitude: number; minDelay: number; maxDelay: number };
+    /** choice sensitivity γ per unit of the larger amount (designChoiceModel); default DEFAULT_CHOICE_SENSITIVITY */
+    choiceSensitivity?: number;
   };
   prior: { medianSmall: number; medianLarge: number; sdLogSmall: number; sdLogLarge: number; correlation: number };
 };

@@ -1,4 +1,5 @@
 import { probabilityLarger } from '../choiceProbability';
+import { designChoiceModel } from '../designChoiceModel';
 import { discountAt } from '../discountFactor';
 import { calibrationBlock } from '../item-bank/calibrationBlock';
 import { amountUnit } from '../item-bank/rounding';
@@ -36,7 +37,8 @@ export class CalibrationModel {
     private readonly scenario: PowerScenario,
     coverDelay: number,
   ) {
-    const { design, truth } = scenario;
+    const { design } = scenario;
+    const choice = designChoiceModel(design.spec);
     const unit = amountUnit({ currency: design.spec.currency, largeAmount: design.spec.largeAmount, smallAmount: design.spec.ratio * design.spec.largeAmount });
     const items = calibrationBlock(design, { amountUnit: unit, delayUnit: 'days', coverDelay }).items.filter((item) => item.role === 'calibration');
     this.longestDelay = Math.max(...items.map((item) => item.laterDelay));
@@ -46,7 +48,7 @@ export class CalibrationModel {
         count: rows.length,
         soonerShare: Float64Array.from(rows, (r) => r.soonerAmount / r.laterAmount),
         laterDelay: Float64Array.from(rows, (r) => r.laterDelay),
-        estimator: new FastRateEstimator(design.spec.model, rows, truth.gamma, truth.lapse),
+        estimator: new FastRateEstimator(design.spec.model, rows, choice.sensitivity, choice.lapse),
       };
     };
     this.blocks = [block('small'), block('large')];

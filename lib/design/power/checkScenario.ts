@@ -2,7 +2,7 @@ import { checkChoiceModel } from '../choiceProbability';
 import { DesignInputError } from '../DesignInputError';
 import { checkPrior } from '../ratePrior';
 import { checkInteger, checkModel, checkPositive, checkRatio } from '../validate';
-import type { PowerScenario } from './types';
+import { POWER_TEST_KINDS, type PowerScenario } from './types';
 
 /** Largest number of simulated participants per study and of replicates (keeps runs finite). */
 export const POWER_LIMITS = { maxSampleSize: 5000, maxReplications: 100000, maxSampleSizes: 40 } as const;
@@ -36,7 +36,7 @@ export function checkScenario(scenario: PowerScenario): void {
   checkPrior(truth.prior, 'truth.prior');
   checkChoiceModel({ sensitivity: truth.gamma, lapse: truth.lapse }, 'truth');
   if (scenario.calibration !== 'simulated' && scenario.calibration !== 'known') throw new DesignInputError('calibration', "'simulated' or 'known'", scenario.calibration);
-  if (!['mcnemar', 'sign', 'probes-vs-anchors'].includes(test?.kind)) throw new DesignInputError('test.kind', "'mcnemar', 'sign' or 'probes-vs-anchors'", test?.kind);
+  if (!POWER_TEST_KINDS.includes(test?.kind)) throw new DesignInputError('test.kind', POWER_TEST_KINDS.map((k) => `'${k}'`).join(', '), test?.kind);
   if (!(test.alpha > 0 && test.alpha < 1)) throw new DesignInputError('test.alpha', 'a number strictly between 0 and 1', test.alpha);
   if (test.alternative !== 'greater' && test.alternative !== 'two-sided') throw new DesignInputError('test.alternative', "'greater' or 'two-sided'", test.alternative);
   if (test.kind === 'probes-vs-anchors' && spec.lateAnchors + spec.soonAnchors === 0) {

@@ -1,3 +1,4 @@
+import { designChoiceModel } from '../designChoiceModel';
 import { describeModel, type PowerSummary } from './summarisePower';
 import type { SampleSizeAnswer } from './sampleSizeFor';
 import type { PowerScenario } from './types';
@@ -12,8 +13,14 @@ export type MethodTextContext = {
 };
 
 const TESTS = {
-  mcnemar: 'an exact McNemar test on the reversal probes (LS patterns against SL patterns among discordant probe pairs, pooled over participants)',
+  mcnemar:
+    'an exact McNemar test on the reversal probes (LS patterns against SL patterns among discordant probe pairs, pooled over participants). ' +
+    'This pooled test assumes that every probe pair is independent; pairs answered by the same person are not, so with more than one probe pair per participant ' +
+    'its type I error can exceed α and this power can be optimistic; a participant-level test avoids that',
   sign: 'an exact sign test at the participant level (participants with more LS than SL probe patterns against those with fewer; ties dropped)',
+  'sign-flip':
+    'an exact sign-flip permutation test at the participant level (Fisher 1935; Pitman 1937) on the sum over participants of each participant’s count of LS minus SL probe patterns, ' +
+    'so that several probe pairs of one person count as one unit',
   'probes-vs-anchors':
     'an exact sign test at the participant level on the difference between the LS rate among reversal probes and the LS rate among anchor pairs (ties and participants without anchors dropped)',
 } as const;
@@ -49,7 +56,7 @@ export function methodText(scenario: PowerScenario, summary: PowerSummary, conte
       : scenario.calibration === 'simulated'
         ? `Each simulated participant first answers the design's calibration block (${spec.calibration.itemsPerMagnitude} items per magnitude, ` +
           `later delays from ${spec.calibration.minDelay} days up to the longest probe delay of the design point, as the item bank exports it); choices follow the truth, ` +
-          `both rates are re-estimated by maximum likelihood under the design's model with the same γ and ε (per unit of each item's later amount), ` +
+          `both rates are re-estimated by maximum likelihood under the design's model and its choice model (γ = ${num(designChoiceModel(spec).sensitivity)} per unit of each item's later amount, no lapse), as the probe-items API estimates them, ` +
           `and the participant's probe block is built from these estimates.`
         : 'Calibration is not simulated: each participant’s probe block is built from their true rates (the rates are treated as known).'
   const probeBlock =

@@ -8,6 +8,7 @@ import { CalibrationModel } from './calibrationModel';
 import { checkScenario } from './checkScenario';
 import { probeSet, type ProbeSet } from './probeSet';
 import { replicateSeed } from './replicateSeed';
+import { SignFlipDistribution } from './signFlipTest';
 import { emptyTally } from './tally';
 import type { PowerScenario, PowerTally } from './types';
 
@@ -49,6 +50,8 @@ export function createPowerSimulator(scenario: PowerScenario): PowerSimulator {
   const cover = Math.max(...fallback.probe, ...fallback.lateAnchor, ...fallback.soonAnchor);
   const calibration = personal && scenario.calibration === 'simulated' ? new CalibrationModel(scenario, cover) : null;
   const pValues = new Map<number, number>();
+  const nMax = scenario.sampleSizes[scenario.sampleSizes.length - 1];
+  const signFlip = scenario.test.kind === 'sign-flip' ? new SignFlipDistribution(nMax * Math.max(design.spec.probePairs, fallback.probe.length)) : null;
   return {
     longestCalibrationDelay: calibration ? calibration.longestDelay : null,
     run(from, to) {
@@ -57,7 +60,7 @@ export function createPowerSimulator(scenario: PowerScenario): PowerSimulator {
       }
       const tally = emptyTally(scenario.sampleSizes);
       for (let r = from; r < to; r++) {
-        simulateReplicate(scenario, createRandom({ seed: replicateSeed(scenario.seed, r) }), calibration, fallback, pValues, tally);
+        simulateReplicate(scenario, createRandom({ seed: replicateSeed(scenario.seed, r) }), calibration, fallback, pValues, signFlip, tally);
       }
       tally.replicates = to - from;
       return tally;
@@ -73,8 +76,10 @@ function simulateReplicate(
   calibration: CalibrationModel | null,
   fallback: ProbeSet,
   pValues: Map<number, number>,
+  signFlip: SignFlipDistribution | null,
   tally: PowerTally,
 ): void {
+  signFlip?.reset();
   const { design, truth, test } = scenario;
   const sizes = scenario.sampleSizes;
   const nMax = sizes[sizes.length - 1];
@@ -140,7 +145,8 @@ function simulateReplicate(
         }
       }
     }
-    if (test.kind === 'sign') {
+    if (signFlip) signFlip.add(probeLS - probeSL);
+    else if (test.kind === 'sign') {
       if (probeLS > probeSL) positive++;
       else if (probeLS < probeSL) negative++;
     } else if (test.kind === 'probes-vs-anchors' && anchorPairs > 0) {
@@ -151,7 +157,8 @@ function simulateReplicate(
     if (i + 1 === sizes[checkpoint]) {
       const b = test.kind === 'mcnemar' ? patterns[1] : positive;
       const c = test.kind === 'mcnemar' ? patterns[2] : negative;
-      if (pValue(b, c, test.kind, test.alternative, pValues) < test.alpha) tally.rejections[checkpoint]++;
+      const p = signFlip ? signFlip.pValue(test.alternative) : pValue(b, c, test.kind, test.alternative, pValues);
+      if (p < test.alpha) tally.rejections[checkpoint]++;
       tally.probeReversals[checkpoint] += patterns[1];
       tally.flagged[checkpoint] += flagged;
       tally.fallback[checkpoint] += fallbacks;

@@ -3,8 +3,13 @@ import type { RatePrior } from '../ratePrior';
 import type { ModelSpec } from '../types';
 import type { Alternative } from './binomialTest';
 
-/** The participant-level or pair-level test a replicate runs on its simulated choices. */
-export type PowerTestKind = 'mcnemar' | 'sign' | 'probes-vs-anchors';
+/**
+ * The test a replicate runs on its simulated choices. 'sign', 'sign-flip' and
+ * 'probes-vs-anchors' take the participant as the unit; 'mcnemar' pools every probe pair of
+ * every participant and so assumes the pairs are independent (stored runs keep this name).
+ */
+export type PowerTestKind = 'mcnemar' | 'sign' | 'sign-flip' | 'probes-vs-anchors';
+export const POWER_TEST_KINDS: readonly PowerTestKind[] = ['sign', 'sign-flip', 'probes-vs-anchors', 'mcnemar'];
 
 /** Pair roles in the probe block. */
 export type PairRole = 'probe' | 'lateAnchor' | 'soonAnchor';

@@ -1,7 +1,7 @@
 import bcrypt from 'bcryptjs';
 import { User } from '@/db/models';
 import { db } from '@/db';
-import { signInLimiter } from './rate-limit';
+import { signInAccountLimiter, signInAddressLimiter } from './rate-limit';
 
 export const TOO_MANY_ATTEMPTS = 'TooManyAttempts';
 
@@ -10,19 +10,22 @@ const DUMMY_HASH = '$2b$10$CwTycUXWue0Thq9StjUM0uJ8.ZtpwvKM3W4aEaHc9zxtO6rXkhHdW
 
 /**
  * Checks an e-mail and password. Returns the user on success, null on a wrong pair; throws
- * TOO_MANY_ATTEMPTS once the (e-mail, address) pair has 10 failures in 15 minutes.
+ * TOO_MANY_ATTEMPTS once the e-mail has 10 failures in 15 minutes (from any address) or the client
+ * address has 30 (whichever e-mails they named). `address` comes from `clientAddress`, never from a
+ * header the client controls. A success clears the account's count, not the address's, so signing
+ * in to one's own account does not buy more guesses at others.
  */
 export async function verifyCredentials(email: string, password: string, address: string) {
   const normalised = email.trim().toLowerCase();
-  const key = `${normalised}|${address}`;
-  if (signInLimiter.isBlocked(key)) throw new Error(TOO_MANY_ATTEMPTS);
+  if (signInAccountLimiter.isBlocked(normalised) || signInAddressLimiter.isBlocked(address)) throw new Error(TOO_MANY_ATTEMPTS);
   db();
   const user = await User.findOne({ where: { email: normalised } });
   const ok = await bcrypt.compare(password, user?.passwordHash ?? DUMMY_HASH);
   if (!user || !ok) {
-    signInLimiter.recordFailure(key);
+    signInAccountLimiter.recordFailure(normalised);
+    signInAddressLimiter.recordFailure(address);
     return null;
   }
-  signInLimiter.reset(key);
+  signInAccountLimiter.reset(normalised);
   return { id: String(user.id), email: user.email, name: user.name, sessionEpoch: user.sessionEpoch };
 }

@@ -1,14 +1,9 @@
+import { randomBytes } from 'node:crypto';
 import type { NextAuthOptions } from 'next-auth';
 import CredentialsProvider from 'next-auth/providers/credentials';
+import { clientAddress } from '@/lib/server/auth/client-address';
+import { endSession } from '@/lib/server/auth/ended-sessions';
 import { verifyCredentials } from './credentials';
-
-/** The caller's address for rate limits: the first X-Forwarded-For hop, X-Real-IP, or "local". */
-export function clientAddress(headers: Record<string, unknown> | undefined): string {
-  const forwarded = headers?.['x-forwarded-for'];
-  const first = typeof forwarded === 'string' ? forwarded.split(',')[0]?.trim() : undefined;
-  const real = headers?.['x-real-ip'];
-  return first || (typeof real === 'string' ? real : '') || 'local';
-}
 
 export const authOptions: NextAuthOptions = {
   session: { strategy: 'jwt', maxAge: 7 * 24 * 60 * 60 },
@@ -28,6 +23,9 @@ export const authOptions: NextAuthOptions = {
       if (user) {
         token.sub = user.id;
         token.epoch = (user as { sessionEpoch?: number }).sessionEpoch ?? 0;
+        // The session's own id, fixed at sign-in and kept when the token is re-issued: signing out
+        // records it as ended, so a copy of the cookie stops working too.
+        token.sid = randomBytes(24).toString('base64url');
       }
       return token;
     },
@@ -35,8 +33,14 @@ export const authOptions: NextAuthOptions = {
       if (session.user && token.sub) {
         session.user.id = token.sub;
         session.user.epoch = typeof token.epoch === 'number' ? token.epoch : 0;
+        session.user.sid = typeof token.sid === 'string' ? token.sid : undefined;
       }
       return session;
+    },
+  },
+  events: {
+    async signOut({ token }) {
+      await endSession(token);
     },
   },
 };

@@ -31,6 +31,9 @@ export const apiPermissions: Record<string, Partial<Record<Method, Access>>> = {
   '/api/account/notices': { GET: 'signed-in', PUT: 'signed-in' },
   '/api/account/password': { PUT: 'signed-in' },
   '/api/mailbox': { GET: 'signed-in' },
+  // account security: confirming an address (the link's token is the proof) and asking for a new link
+  '/api/email-confirmation': { POST: 'public' },
+  '/api/email-confirmation/resend': { POST: 'signed-in' },
   // planner: viewers read; editors write; any member may comment
   '/api/studies/[id]/priors': { GET: 'viewer', POST: 'editor' },
   '/api/studies/[id]/priors/pilot': { POST: 'editor' },
@@ -57,4 +60,8 @@ export const apiPermissions: Record<string, Partial<Record<Method, Access>>> = {
   '/api/studies/[id]/participants/batch': { POST: 'operator' },
   '/api/v1/studies/[id]/probe-items': { POST: 'api-key' },
   '/api/v1/openapi.json': { GET: 'public' },
+  // Two-stage session API (issue 13): server and browser keys of the study; a browser key also
+  // needs the participant's session token and a listed origin (CORS preflights, OPTIONS, are public).
+  '/api/v1/studies/[id]/calibration': { GET: 'api-key' },
+  '/api/v1/studies/[id]/stage2-answers': { POST: 'api-key' },
 };

@@ -1,5 +1,5 @@
 /**
- * Counts failed sign-ins per (e-mail, address) in a sliding window. In memory: one app process
+ * Counts failed sign-ins (or any attempts) per key in a sliding window. In memory: one app process
  * serves a study team, and a restart forgiving old failures is acceptable.
  */
 export class FailureLimiter {
@@ -30,9 +30,19 @@ export class FailureLimiter {
     this.failures.set(key, [...this.recent(key), this.now()]);
   }
 
+  /** Counts one attempt unless the key is already blocked; false (nothing counted) when it is. */
+  tryAttempt(key: string): boolean {
+    if (this.isBlocked(key)) return false;
+    this.recordFailure(key);
+    return true;
+  }
+
   reset(key: string): void {
     this.failures.delete(key);
   }
 }
 
-export const signInLimiter = new FailureLimiter({ limit: 10, windowMs: 15 * 60_000 });
+/** Failed sign-ins (and wrong current passwords) per account: 10 in 15 minutes, from any address. */
+export const signInAccountLimiter = new FailureLimiter({ limit: 10, windowMs: 15 * 60_000 });
+/** Failed sign-ins per client address, whichever accounts they name: 30 in 15 minutes. */
+export const signInAddressLimiter = new FailureLimiter({ limit: 30, windowMs: 15 * 60_000 });

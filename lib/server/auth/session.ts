@@ -4,29 +4,32 @@ import type { NextRequest } from 'next/server';
 import { Membership, Study, User } from '@/db/models';
 import { db } from '@/db';
 import { NotFoundError, UnauthorizedError, ForbiddenError } from '@/lib/server/errors';
+import { sessionEnded } from '@/lib/server/auth/ended-sessions';
 import { authOptions } from './options';
 import { roleAtLeast, type Role } from '@/lib/shared/roles';
 
-export type SessionUser = { id: number; email: string; name: string };
+/** The signed-in account; `emailVerified` once its owner opened a confirmation link. */
+export type SessionUser = { id: number; email: string; name: string; emailVerified: boolean };
 
 /**
- * The account behind a session token, or null when it no longer stands: the user was deleted, or
- * their password was reset after the token was issued (the epochs differ). Name and e-mail are
- * read fresh, so a rename shows at once.
+ * The account behind a session token, or null when it no longer stands: the user was deleted,
+ * their password was reset or changed after the token was issued (the epochs differ), or this
+ * session was signed out (its id is recorded as ended). Name and e-mail are read fresh, so a
+ * rename shows at once.
  */
-async function currentAccount(id: number, epoch: unknown): Promise<SessionUser | null> {
+async function currentAccount(id: number, epoch: unknown, sid: unknown): Promise<SessionUser | null> {
   if (!Number.isInteger(id) || id <= 0) return null;
   db();
-  const user = await User.findByPk(id, { attributes: ['id', 'email', 'name', 'sessionEpoch'] });
-  if (!user || user.sessionEpoch !== (typeof epoch === 'number' ? epoch : 0)) return null;
-  return { id: user.id, email: user.email, name: user.name };
+  const [user, ended] = await Promise.all([User.findByPk(id, { attributes: ['id', 'email', 'name', 'sessionEpoch', 'emailVerifiedAt'] }), sessionEnded(sid)]);
+  if (!user || ended || user.sessionEpoch !== (typeof epoch === 'number' ? epoch : 0)) return null;
+  return { id: user.id, email: user.email, name: user.name, emailVerified: user.emailVerifiedAt != null };
 }
 
 /** The signed-in user of an API request (from the JWT cookie), or null. */
 export async function getRequestUser(request: NextRequest): Promise<SessionUser | null> {
   const token = await getToken({ req: request, secret: process.env.NEXTAUTH_SECRET });
   if (!token) return null;
-  return currentAccount(Number(token.sub), token.epoch);
+  return currentAccount(Number(token.sub), token.epoch, token.sid);
 }
 
 /** The signed-in user of an API request; 401 when there is none. */
@@ -65,5 +68,5 @@ export async function requireRole(request: NextRequest, rawStudyId: string | und
 export async function getPageUser(): Promise<SessionUser | null> {
   const session = await getServerSession(authOptions);
   if (!session?.user) return null;
-  return currentAccount(Number(session.user.id), session.user.epoch);
+  return currentAccount(Number(session.user.id), session.user.epoch, session.user.sid);
 }

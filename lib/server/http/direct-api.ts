@@ -3,29 +3,45 @@ import { ApiError } from '@/lib/server/errors';
 import { errorReply, type PlainReply } from '@/lib/server/http/error-reply';
 import { BODY_TOO_LARGE, MAX_BODY_BYTES } from '@/lib/server/http/read-json';
 import { handleProbeItems } from '@/lib/server/http/probe-endpoint';
+import { preflightReply } from '@/lib/server/http/cors';
+import { handleCalibration, handleStage2Answers, studyIdOf, type SessionCall } from '@/lib/server/http/session-endpoints';
 
-// The production server (scripts/serve.mjs) answers POST /api/v1/studies/{id}/probe-items here,
-// on node:http, instead of handing it to Next: the survey-facing hot path is measured in
-// `npm run bench:api`, and Next's own request handling alone costs more than the endpoint.
-// Everything else goes to Next. This is the only route answered outside Next; the logic is
-// `handleProbeItems`, the same function the Next route (dev mode, tests) calls.
+// The production server (scripts/serve.mjs) answers the participant-session endpoints that lab
+// software calls for every participant here, on node:http, instead of handing them to Next: the
+// calibration block (GET), probe items and stage-2 answers (POST), and their CORS preflights
+// (OPTIONS). Next's own request handling alone costs more than these endpoints (`npm run bench:api`).
+// Everything else goes to Next. The logic is one framework-free function per endpoint, the same
+// the Next routes (dev mode, tests) call.
 
-const PROBE_PATH = /^\/api\/v1\/studies\/([^/]+)\/probe-items$/;
+const SESSION_PATH = /^\/api\/v1\/studies\/([^/]+)\/(probe-items|stage2-answers|calibration)$/;
 
 /** The header that says a reply came from this direct path rather than through Next. */
 export const DIRECT_PATH_HEADER = 'x-switchback-path';
 
-/** The study id segment when `method url` is the probe-items endpoint, else null. */
-export function probeItemsStudyId(method: string | undefined, url: string | undefined): string | null {
-  if (method !== 'POST' || !url) return null;
-  const query = url.indexOf('?');
-  const match = PROBE_PATH.exec(query === -1 ? url : url.slice(0, query));
+type Endpoint = { method: 'GET' | 'POST'; handle: (call: SessionCall) => Promise<PlainReply> };
+const ENDPOINTS: Record<string, Endpoint> = {
+  'probe-items': { method: 'POST', handle: handleProbeItems },
+  'stage2-answers': { method: 'POST', handle: handleStage2Answers },
+  calibration: { method: 'GET', handle: handleCalibration },
+};
+
+/** The session endpoint, study id segment and query of `url`, else null. */
+function sessionPath(url: string | undefined): { endpoint: string; studyId: string; query: string } | null {
+  if (!url) return null;
+  const q = url.indexOf('?');
+  const match = SESSION_PATH.exec(q === -1 ? url : url.slice(0, q));
   if (!match) return null;
   try {
-    return decodeURIComponent(match[1]);
+    return { studyId: decodeURIComponent(match[1]), endpoint: match[2], query: q === -1 ? '' : url.slice(q + 1) };
   } catch {
     return null; // malformed escapes: Next answers those as it always did
   }
+}
+
+/** The study id segment when `method url` is the probe-items endpoint, else null. */
+export function probeItemsStudyId(method: string | undefined, url: string | undefined): string | null {
+  const path = method === 'POST' ? sessionPath(url) : null;
+  return path && path.endpoint === 'probe-items' ? path.studyId : null;
 }
 
 /**
@@ -65,13 +81,33 @@ function send(response: ServerResponse, reply: PlainReply): void {
   response.end(reply.body);
 }
 
-/** Answers the request when it is the probe-items endpoint (true), else leaves it alone (false). */
+const header = (request: IncomingMessage, name: string): string | null => {
+  const value = request.headers[name];
+  return typeof value === 'string' ? value : null;
+};
+
+/** Answers the request when it is a participant-session endpoint or its preflight (true), else leaves it alone (false). */
 export function answerDirect(request: IncomingMessage, response: ServerResponse): boolean {
-  const studyId = probeItemsStudyId(request.method, request.url);
-  if (studyId === null) return false;
-  const authorization = request.headers.authorization;
-  handleProbeItems({ studyId, authorization: authorization === undefined ? null : authorization, readBody: () => readNodeBody(request) })
-    .catch((error: unknown) => errorReply(error))
-    .then((reply) => send(response, reply));
+  const path = sessionPath(request.url);
+  if (!path) return false;
+  const endpoint = ENDPOINTS[path.endpoint];
+  const origin = header(request, 'origin');
+  let pending: Promise<PlainReply>;
+  if (request.method === 'OPTIONS') {
+    const studyId = studyIdOf(path.studyId);
+    pending = preflightReply(studyId < 0 ? null : studyId, origin, endpoint.method);
+  } else if (request.method === endpoint.method) {
+    pending = endpoint.handle({
+      studyId: path.studyId,
+      authorization: header(request, 'authorization'),
+      origin,
+      sessionToken: header(request, 'x-session-token'),
+      query: new URLSearchParams(path.query),
+      readBody: () => readNodeBody(request),
+    });
+  } else {
+    return false; // other methods: Next answers (405), as before
+  }
+  pending.catch((error: unknown) => errorReply(error)).then((reply) => send(response, reply));
   return true;
 }

@@ -1,3 +1,5 @@
+import { SESSION_TAG_TEXT, sessionPaths, sessionSchemas } from '@/lib/server/http/session-openapi';
+
 /**
  * The OpenAPI 3.1 description of the probe-items API, served at /api/v1/openapi.json.
  * Schemas mirror lib/shared/validations/item-bank.ts (request) and lib/design/item-bank (items).
@@ -17,12 +19,13 @@ export function probeApiDocument(serverUrl: string) {
   return {
     openapi: '3.1.0',
     info: {
-      title: 'Switchback probe-items API',
+      title: 'Switchback session API',
       version: '1.0.0',
       description:
         'Second-stage (probe block) items for a two-stage delay-discounting study, computed per participant from the calibration block. ' +
         'Estimates describe hypothetical choices; they are not a clinical assessment. Rate limit: per key and per server process ' +
-        '(default a burst of 200, then 100 requests a second); 429 carries Retry-After.',
+        '(default a burst of 200, then 100 requests a second; browser keys: 120, then 30 a second); 429 carries Retry-After. ' +
+        SESSION_TAG_TEXT,
     },
     servers: [{ url: serverUrl }],
     security: [{ studyKey: [] }],
@@ -34,8 +37,16 @@ export function probeApiDocument(serverUrl: string) {
           description:
             'Idempotent per participant: the same participant id with the same responses returns the same items; different responses for a participant ' +
             'already served give 409 and change nothing. Participants flagged all-sooner, all-later or non-monotone (or whose estimates have no reversal ' +
-            'zone) get the fallback set (itemSet "fallback": the probe block built at the prior medians, as in the exported item bank) and the flag.',
-          parameters: [{ name: 'id', in: 'path', required: true, schema: { type: 'integer' }, description: 'study id' }],
+            'zone) get the fallback set (itemSet "fallback": the probe block built at the prior medians, as in the exported item bank) and the flag. ' +
+            'The items use the key\'s presentation settings, the same units as its calibration block. ' +
+            'The stage-2 block\'s length varies between participants: personalised pairs are built around each person\'s reversal zone, and late or soon ' +
+            'anchor pairs that do not fit (no room below the zone, or beyond the design\'s late-delay limit) are left out; flagged participants get the ' +
+            'fallback set, whose length is the bank\'s. Use the items array as given. ' +
+            'Browsers: CORS headers on every reply for the key\'s listed origins; a browser key sends the participant\'s session token (X-Session-Token).',
+          parameters: [
+            { name: 'id', in: 'path', required: true, schema: { type: 'integer' }, description: 'study id' },
+            { name: 'X-Session-Token', in: 'header', required: false, schema: { type: 'string' }, description: 'browser keys only: the participant\'s session token' },
+          ],
           requestBody: {
             required: true,
             content: {
@@ -51,25 +62,32 @@ export function probeApiDocument(serverUrl: string) {
                       description: 'calibration item id → chosen option; every calibration item must be answered; check-calibration is optional',
                       additionalProperties: { type: 'string', enum: ['sooner', 'later'] },
                     },
+                    itemBankId: { type: 'string', pattern: '^[0-9a-f]{16}$', description: 'the item-bank id of the calibration items shown (calibration reply or export header); answers to another item bank are refused with 422' },
                   },
                 },
+                example: { participantId: 'P-017', itemBankId: '9a41c07e55d2b310', responses: { 'cal-small-01': 'sooner', 'cal-small-02': 'later', 'cal-large-01': 'later', 'check-calibration': 'sooner' } },
               },
             },
           },
           responses: {
             '200': { description: 'the participant\'s items', content: { 'application/json': { schema: { $ref: '#/components/schemas/ProbeItems' } } } },
             '401': { description: 'missing, unknown or revoked key', content: { 'application/json': { schema: error } } },
+            '403': { description: 'browser key: origin not listed, or the participant\'s session token missing or wrong', content: { 'application/json': { schema: error } } },
             '404': { description: 'the key belongs to another study', content: { 'application/json': { schema: error } } },
             '409': { description: 'participant already served with different responses', content: { 'application/json': { schema: error } } },
-            '422': { description: 'unknown item ids, missing responses or invalid choices; issues name the items', content: { 'application/json': { schema: error } } },
+            '422': { description: 'unknown item ids, missing responses or invalid choices (issues name the items); an itemBankId other than the key\'s', content: { 'application/json': { schema: error } } },
             '429': { description: 'rate limit', headers: { 'Retry-After': { schema: { type: 'integer' } } }, content: { 'application/json': { schema: error } } },
           },
         },
+        options: { operationId: 'probeItemsPreflight', summary: 'CORS preflight', parameters: [{ name: 'id', in: 'path', required: true, schema: { type: 'integer' } }], responses: { '204': { description: 'allowed methods and headers for a listed origin' } }, security: [] },
       },
+      // Two-stage session endpoints (issue 13)
+      ...sessionPaths(),
     },
     components: {
-      securitySchemes: { studyKey: { type: 'http', scheme: 'bearer', description: 'a study API key (created by an operator; shown once)' } },
+      securitySchemes: { studyKey: { type: 'http', scheme: 'bearer', description: 'a study API key, server or browser kind (created by an operator; shown once)' } },
       schemas: {
+        ...sessionSchemas(),
         Issue: { type: 'object', properties: { path: { type: 'string' }, message: { type: 'string' } } },
         Item: {
           type: 'object',

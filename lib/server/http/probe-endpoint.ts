@@ -1,42 +1,40 @@
-import { ApiError } from '@/lib/server/errors';
-import { errorReply, jsonReply, type PlainReply } from '@/lib/server/http/error-reply';
+import { ValidationError } from '@/lib/server/errors';
+import type { PlainReply } from '@/lib/server/http/error-reply';
 import { parseJsonText } from '@/lib/server/http/read-json';
-import { requireApiKey } from '@/lib/server/services/api-keys';
-import { frozenVersionById } from '@/lib/server/services/item-bank';
-import { probeRateLimiter } from './key-rate-limit';
+import { keyPresentation, sessionEndpoint, versionOfKey, type SessionCall } from './session-endpoints';
+import { requireParticipantToken } from '@/lib/server/services/session-tokens';
+import { itemBankId } from '@/lib/server/services/item-bank-id';
 import { serveProbeItemsJson } from '@/lib/server/services/participants';
 import { probeItemsRequestSchema } from '@/lib/shared/validations/item-bank';
 
-export type ProbeItemsCall = {
-  /** The `{id}` segment of /api/v1/studies/{id}/probe-items, as given. */
-  studyId: string;
-  /** The Authorization header's value, null when it is missing. */
-  authorization: string | null;
-  /**
-   * Reads the body as text, throwing ApiError 413 past 1 MB (MAX_BODY_BYTES). Called only once
-   * the key and the rate limit let the request through, so a refused caller's body is never read.
-   */
-  readBody: () => Promise<string>;
-};
+/** One call of the probe-items endpoint (a session-endpoint call: key, origin, token, body). */
+export type ProbeItemsCall = SessionCall;
 
 /**
  * POST /api/v1/studies/{id}/probe-items without a framework: a participant's personalised probe
- * block from their calibration responses, for a Bearer API key of the study. Every outcome is a
- * reply, errors included (statuses through `errorReply`). Both the Next route and the production
- * server's direct path (scripts/serve.mjs) answer with this one function.
+ * block from their calibration responses, for a key of the study, scored with the items of the
+ * key's presentation settings (the same as its calibration block and an export with them). A
+ * request naming another item bank (`itemBankId`) is refused, never rescored. Every outcome is a
+ * reply, errors included (statuses through `errorReply`, CORS through `sessionEndpoint`). Both the
+ * Next route and the production server's direct path (scripts/serve.mjs) answer with this function.
  */
-export async function handleProbeItems(call: ProbeItemsCall): Promise<PlainReply> {
-  try {
-    const key = await requireApiKey(call.authorization, /^\d{1,10}$/.test(call.studyId) ? Number(call.studyId) : -1);
-    const wait = probeRateLimiter.take(key.id);
-    if (wait > 0) return jsonReply(429, { error: `Too many requests for this key; retry in ${wait} s.` }, { 'Retry-After': String(wait) });
+export function handleProbeItems(call: ProbeItemsCall): Promise<PlainReply> {
+  return sessionEndpoint(call, async (key) => {
     const body = parseJsonText(await call.readBody(), probeItemsRequestSchema);
-    const version = await frozenVersionById(key.designVersionId);
-    if (version.studyId !== key.studyId) throw new ApiError(500, 'API key and design version disagree.');
+    const version = await versionOfKey(key);
+    const presentation = keyPresentation(key, version);
+    if (body.itemBankId !== undefined) {
+      const expected = itemBankId(version.hash, presentation);
+      if (body.itemBankId !== expected) {
+        throw new ValidationError(
+          [{ path: 'itemBankId', message: `These calibration answers are for item bank ${body.itemBankId}, but this key presents and scores item bank ${expected} (delays in ${presentation.delayUnit}, gap ${presentation.minGap}, seed ${presentation.seed}). Export the items with the key's settings, or use a key bound to the export's settings.` }],
+          'The calibration items do not match this key\'s item bank; nothing was scored.',
+        );
+      }
+    }
+    await requireParticipantToken(key, body.participantId, call.sessionToken ?? null);
     // The reply's JSON text as stored with the participant: built once, sent as is.
-    const json = await serveProbeItemsJson(version, body.participantId, body.responses, { source: 'api', key });
+    const json = await serveProbeItemsJson(version, body.participantId, body.responses, { source: 'api', key }, presentation);
     return { status: 200, headers: { 'content-type': 'application/json' }, body: json };
-  } catch (error) {
-    return errorReply(error);
-  }
+  });
 }

@@ -64,3 +64,24 @@ export function powerRunFinishedMessage(input: { to: string; studyName: string; 
     'You get this notice because you turned it on in your account settings; you can turn it off there.',
   ]);
 }
+
+// account security: proof of an address, and the notice that replaces a second sign-up
+
+/** The link that confirms a new account's address (single use, expiring). */
+export function addressConfirmationMessage(input: { to: string; link: string; expiresAt: Date }): MailMessage {
+  return compose(input.to, 'Confirm your e-mail address for Switchback', [
+    'An account on Switchback was created with this address. Confirm that the address is yours; until then, invitations to studies cannot be accepted with it.',
+    { link: input.link, label: 'Confirm my address' },
+    `The link works once and until ${formatDateTime(input.expiresAt)}. If you did not create this account, ignore this message: the address stays unconfirmed.`,
+  ]);
+}
+
+/** Sent instead of a confirmation when someone signs up with an address that already has an account. */
+export function accountExistsMessage(input: { to: string; signInLink: string; resetLink: string }): MailMessage {
+  return compose(input.to, 'Someone tried to create a Switchback account with your address', [
+    'Someone asked to create a Switchback account with this address, which already has one, so no new account was made and nothing changed.',
+    { link: input.signInLink, label: 'Sign in' },
+    { link: input.resetLink, label: 'Forgot your password? Choose a new one' },
+    'If it was not you, you can ignore this message.',
+  ]);
+}

@@ -1,10 +1,11 @@
 import { createHash, randomBytes } from 'node:crypto';
-import { ApiKey, User } from '@/db/models';
+import { ApiKey, DesignVersion, User } from '@/db/models';
 import { db } from '@/db';
 import { NotFoundError, UnauthorizedError } from '@/lib/server/errors';
-import type { ApiKeyCreateInput } from '@/lib/shared/validations/api-keys';
+import { apiKeyCreateSchema, type ApiKeyCreateInput } from '@/lib/shared/validations/api-keys';
 import { recordAudit } from './audit';
 import { bankOrInvalid, loadVersion } from './item-bank';
+import { itemBankId, presentationOf } from './item-bank-id';
 
 /** SHA-256 (hex) of a key's secret: the only form in which a key is stored. */
 export function hashSecret(secret: string): string {
@@ -15,27 +16,44 @@ export function hashSecret(secret: string): string {
  * Creates a key for one frozen design version. The secret (`sbk_` + 8 characters of prefix +
  * `_` + 32 random base64url characters, 192 bits) is returned once and never stored.
  */
-export async function createApiKey(actorId: number, studyId: number, input: ApiKeyCreateInput) {
+export async function createApiKey(actorId: number, studyId: number, raw: ApiKeyCreateInput) {
+  const input = apiKeyCreateSchema.parse(raw);
   const version = await loadVersion(studyId, input.designVersionId);
-  bankOrInvalid(version); // refuse a key for a design that cannot serve items
+  bankOrInvalid(version, { delayUnit: input.delayUnit, minGap: input.minGap, seed: input.seed ?? undefined }); // refuse a key for a design that cannot serve items
   const prefix = `sbk_${randomBytes(6).toString('base64url')}`;
   const secret = `${prefix}_${randomBytes(24).toString('base64url')}`;
   const key = await db().transaction(async (transaction) => {
-    const created = await ApiKey.create({ studyId, designVersionId: version.id, name: input.name, prefix, secretHash: hashSecret(secret), createdBy: actorId, lastUsedAt: null, revokedAt: null, revokedBy: null }, { transaction });
-    await recordAudit({ actorId, studyId, action: 'api-key.create', details: { keyId: created.id, name: input.name, prefix, designVersionId: version.id } }, transaction);
+    const created = await ApiKey.create(
+      {
+        studyId, designVersionId: version.id, name: input.name, prefix, secretHash: hashSecret(secret), createdBy: actorId, lastUsedAt: null, revokedAt: null, revokedBy: null,
+        kind: input.kind, allowedOrigins: input.allowedOrigins, delayUnit: input.delayUnit, minGap: input.minGap, seed: input.seed,
+      },
+      { transaction },
+    );
+    await recordAudit(
+      { actorId, studyId, action: 'api-key.create', details: { keyId: created.id, name: input.name, prefix, designVersionId: version.id, kind: input.kind, allowedOrigins: input.allowedOrigins, delayUnit: input.delayUnit, minGap: input.minGap, seed: input.seed } },
+      transaction,
+    );
     return created;
   });
-  return { key: apiKeyJson(key, null), secret };
+  forgetStudyOrigins(studyId);
+  return { key: apiKeyJson(key, null, version.hash), secret };
 }
 
 export type ApiKeyDto = ReturnType<typeof apiKeyJson>;
 
-function apiKeyJson(key: ApiKey, creator: { name: string } | null) {
+function apiKeyJson(key: ApiKey, creator: { name: string } | null, versionHash: string | null) {
+  const presentation = versionHash ? presentationOf(versionHash, { seed: key.seed ?? null, delayUnit: key.delayUnit ?? 'days', minGap: key.minGap ?? 2 }) : null;
   return {
     id: key.id,
     name: key.name,
     prefix: key.prefix,
+    kind: key.kind ?? 'server',
+    allowedOrigins: key.allowedOrigins ?? [],
     designVersionId: key.designVersionId,
+    /** the settings of the items this key presents and scores, and their item-bank id (as in an export with them) */
+    presentation,
+    itemBankId: presentation && versionHash ? itemBankId(versionHash, presentation) : null,
     createdBy: creator?.name ?? null,
     createdAt: key.createdAt.toISOString(),
     lastUsedAt: key.lastUsedAt ? key.lastUsedAt.toISOString() : null,
@@ -47,7 +65,8 @@ function apiKeyJson(key: ApiKey, creator: { name: string } | null) {
 export async function listApiKeys(studyId: number) {
   db();
   const rows = await ApiKey.findAll({ where: { studyId }, include: [{ model: User, as: 'creator', attributes: ['name'] }], order: [['createdAt', 'DESC'], ['id', 'DESC']] });
-  return rows.map((k) => apiKeyJson(k, (k as unknown as { creator: User | null }).creator));
+  const hashes = new Map((await DesignVersion.findAll({ where: { studyId }, attributes: ['id', 'hash'] })).map((v) => [v.id, v.hash]));
+  return rows.map((k) => apiKeyJson(k, (k as unknown as { creator: User | null }).creator, hashes.get(k.designVersionId) ?? null));
 }
 
 /**
@@ -70,10 +89,21 @@ export async function revokeApiKey(actorId: number, studyId: number, rawKeyId: s
   });
   // After the commit: a lookup that read the row before it would otherwise cache it as active.
   forgetApiKey(key.secretHash);
-  return apiKeyJson(key, null);
+  forgetStudyOrigins(studyId);
+  return apiKeyJson(key, null, null);
 }
 
-export type CachedKey = { id: number; studyId: number; designVersionId: number; revoked: boolean };
+export type CachedKey = {
+  id: number;
+  studyId: number;
+  designVersionId: number;
+  revoked: boolean;
+  kind: 'server' | 'browser';
+  allowedOrigins: string[];
+  delayUnit: 'days' | 'weeks' | 'months';
+  minGap: number;
+  seed: number | null;
+};
 
 /**
  * Key lookups by hashed secret, cached in this process for KEY_CACHE_MS so the hot path of the
@@ -122,8 +152,13 @@ export async function requireApiKey(authorization: string | null, studyId: numbe
   if (key === undefined) {
     const startedAt = cache.generation;
     db();
-    const row = await ApiKey.findOne({ where: { secretHash: hash }, attributes: ['id', 'studyId', 'designVersionId', 'revokedAt'] });
-    key = row ? { id: row.id, studyId: row.studyId, designVersionId: row.designVersionId, revoked: row.revokedAt !== null } : null;
+    const row = await ApiKey.findOne({ where: { secretHash: hash }, attributes: ['id', 'studyId', 'designVersionId', 'revokedAt', 'kind', 'allowedOrigins', 'delayUnit', 'minGap', 'seed'] });
+    key = row
+      ? {
+          id: row.id, studyId: row.studyId, designVersionId: row.designVersionId, revoked: row.revokedAt !== null,
+          kind: row.kind ?? 'server', allowedOrigins: parseOrigins(row.allowedOrigins), delayUnit: row.delayUnit ?? 'days', minGap: row.minGap ?? 2, seed: row.seed ?? null,
+        }
+      : null;
     if (startedAt === cache.generation) {
       if (keyCache.size >= KEY_CACHE_LIMIT) keyCache.clear();
       keyCache.set(hash, { key, expires: now + KEY_CACHE_MS });
@@ -138,4 +173,32 @@ export async function requireApiKey(authorization: string | null, studyId: numbe
     ApiKey.update({ lastUsedAt: new Date(now) }, { where: { id } }).catch(() => lastUsedWritten.delete(id));
   }
   return key;
+}
+
+/** A JSON column as the driver returns it (MariaDB's JSON is LONGTEXT: text, or already parsed). */
+function parseOrigins(raw: unknown): string[] {
+  const value = typeof raw === 'string' ? (JSON.parse(raw) as unknown) : raw;
+  return Array.isArray(value) ? value.filter((o): o is string => typeof o === 'string') : [];
+}
+
+// The origins any active key of a study lists: what a preflight (which carries no key) is answered
+// with. Cached like the keys, on globalThis for the same reason, and dropped on create and revoke.
+const originsHolder = globalThis as unknown as { switchbackStudyOrigins?: Map<number, { origins: Set<string>; expires: number }> };
+const studyOrigins = (originsHolder.switchbackStudyOrigins ??= new Map());
+
+function forgetStudyOrigins(studyId: number): void {
+  studyOrigins.delete(studyId);
+}
+
+/** Every origin listed by an active key of the study (cached for KEY_CACHE_MS). */
+export async function allowedOriginsOfStudy(studyId: number): Promise<Set<string>> {
+  const now = Date.now();
+  const hit = studyOrigins.get(studyId);
+  if (hit && hit.expires > now) return hit.origins;
+  db();
+  const rows = await ApiKey.findAll({ where: { studyId, revokedAt: null }, attributes: ['allowedOrigins'] });
+  const origins = new Set(rows.flatMap((r) => parseOrigins(r.allowedOrigins)));
+  if (studyOrigins.size >= KEY_CACHE_LIMIT) studyOrigins.clear();
+  studyOrigins.set(studyId, { origins, expires: now + KEY_CACHE_MS });
+  return origins;
 }

@@ -168,7 +168,7 @@ export async function describeInvitationLink(token: string): Promise<InvitationL
  * Accepts an invitation for the signed-in user, once. The row is locked, so two clicks racing each
  * other cannot both succeed. Someone already in the study keeps their role.
  * @throws LinkUnusableError (410) for used, expired, withdrawn or unknown links; ForbiddenError when
- * the user's address is not the invited one.
+ * the user's address is not the invited one, or is not confirmed yet.
  */
 export async function acceptInvitation(user: { id: number }, token: string) {
   return db().transaction(async (transaction) => {
@@ -179,6 +179,10 @@ export async function acceptInvitation(user: { id: number }, token: string) {
     if (!account) throw new NotFoundError('Your account no longer exists.');
     if (account.email.toLowerCase() !== invitation.email.toLowerCase()) {
       throw new ForbiddenError(`This invitation was sent to ${invitation.email}, but you are signed in as ${account.email}. Sign out and sign in (or create an account) with the invited address.`);
+    }
+    // The address matching proves nothing until its owner has shown they receive its mail.
+    if (!account.emailVerifiedAt) {
+      throw new ForbiddenError(`Confirm that ${account.email} is yours first: open the link in the confirmation message we sent to it (or ask for a new one under Account), then accept.`);
     }
     const existing = await Membership.findOne({ where: { studyId: invitation.studyId, userId: user.id }, transaction, lock: transaction.LOCK.UPDATE });
     if (!existing) await Membership.create({ studyId: invitation.studyId, userId: user.id, role: invitation.role }, { transaction });

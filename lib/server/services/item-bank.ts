@@ -3,12 +3,13 @@ import { Design, DesignVersion } from '@/db/models';
 import { db } from '@/db';
 import { NotFoundError, ValidationError } from '@/lib/server/errors';
 import { neutraliseRows } from '@/lib/shared/csv/formula-guard';
-import { DesignInputError, type BankItem } from '@/lib/design';
+import { CHOICE_SENSITIVITY_UNIT, DesignInputError, designChoiceModel, type BankItem } from '@/lib/design';
 import type { Study } from '@/db/models';
 import { exportOptionsSchema, type ExportOptions } from '@/lib/shared/validations/item-bank';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import { recordAudit } from './audit';
 import { bankFor, defaultSeed } from '@/lib/shared/item-bank-plan';
+import { itemBankId, presentationOf } from './item-bank-id';
 
 /** Column order of the CSV export; the JSON export's items have exactly these fields. */
 export const ITEM_COLUMNS: ReadonlyArray<keyof BankItem> = [
@@ -66,6 +67,9 @@ export function previewItemBank(study: Study, version: DesignVersion, options: E
       minGap: bank.minGap,
       probeGap: bank.probeGap,
       monthDays: 30,
+      /** the id an API key bound to the same settings reports; send it with calibration answers so a mismatch is refused */
+      itemBankId: itemBankId(version.hash, presentationOf(version.hash, { seed, delayUnit: bank.delayUnit, minGap: bank.minGap })),
+      choiceModel: { ...designChoiceModel(version.content.spec), unit: CHOICE_SENSITIVITY_UNIT },
     },
     designPoint: bank.designPoint,
     probeRule:
@@ -133,7 +137,8 @@ export async function exportItemBank(actorId: number, study: Study, version: Des
     filename = csvName;
     body = itemsCsv(preview.items, [
       `Switchback item bank · study ${study.id} "${study.name}"`,
-      `design version ${version.number} · hash ${version.hash} · seed ${seed}`,
+      `design version ${version.number} · hash ${version.hash} · seed ${seed} · item bank ${preview.header.itemBankId} (gap ${options.minGap})`,
+      `choice model: logistic, sensitivity γ = ${preview.header.choiceModel.sensitivity} ${CHOICE_SENSITIVITY_UNIT}, no lapse (rate estimates use it)`,
       `mode ${preview.header.mode} · currency ${preview.header.currency} · amounts rounded to ${preview.header.amountUnit} · delays in whole ${preview.header.delayUnit} (a month is 30 days)`,
       preview.probeRule ?? 'Population design: every participant runs these items.',
     ]);

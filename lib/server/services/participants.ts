@@ -38,8 +38,14 @@ function sqlDate(date: Date): string {
  * the UNIQUE (study_id, participant_id) index: the insert is tried first, and a request that
  * loses the race reads the winner's record back (no application locks).
  */
-export async function serveProbeItemsJson(version: ServedVersion, participantId: string, responses: Record<string, string>, by: ServeSource): Promise<string> {
-  const { bank, locate } = bankOrInvalid(version);
+export async function serveProbeItemsJson(
+  version: ServedVersion,
+  participantId: string,
+  responses: Record<string, string>,
+  by: ServeSource,
+  presentation: { seed?: number; delayUnit?: 'days' | 'weeks' | 'months'; minGap?: number } = {},
+): Promise<string> {
+  const { bank, locate } = bankOrInvalid(version, presentation);
   let served: ServedItems;
   try {
     served = serveParticipant(version.content, bank, { participantId, responses, locate });

@@ -37,20 +37,25 @@ function stateOf(row: PasswordResetToken | null, now = new Date()): ResetTokenSt
 
 /**
  * Starts a reset: for a known address, stores a hashed single-use token and sends the link; for an
- * unknown one, does nothing. The caller answers RESET_REQUEST_ANSWER either way, and the mail is
- * sent in the background so the reply time does not reveal whether the address exists.
- * Returns the delivery promise (true when sent) for callers that want to wait, such as tests.
+ * unknown one, does nothing. The caller answers RESET_REQUEST_ANSWER either way, at once: only the
+ * in-memory flood count happens before the reply, and the account lookup, the token and the mail
+ * all run after it, so neither the answer nor its timing says whether the address has an account.
+ * Returns that background work (true when a message was handed to the mail server), for tests.
  */
-export async function requestPasswordReset(email: string): Promise<{ delivery: Promise<boolean> }> {
-  db();
-  const user = await User.findOne({ where: { email } });
-  if (requestLimiter.isBlocked(email)) return { delivery: Promise.resolve(false) };
-  requestLimiter.recordFailure(email);
-  if (!user) return { delivery: Promise.resolve(false) };
-  const { token, hash } = newToken();
-  const expiresAt = new Date(Date.now() + RESET_MINUTES * 60_000);
-  await PasswordResetToken.create({ userId: user.id, tokenHash: hash, expiresAt, usedAt: null });
-  const delivery = queueMail(passwordResetMessage({ to: user.email, link: appLink(`/reset-password/${token}`), expiresAt }), 'a password-reset message');
+export function requestPasswordReset(email: string): { delivery: Promise<boolean> } {
+  if (!requestLimiter.tryAttempt(email)) return { delivery: Promise.resolve(false) };
+  const delivery = (async () => {
+    db();
+    const user = await User.findOne({ where: { email } });
+    if (!user) return false;
+    const { token, hash } = newToken();
+    const expiresAt = new Date(Date.now() + RESET_MINUTES * 60_000);
+    await PasswordResetToken.create({ userId: user.id, tokenHash: hash, expiresAt, usedAt: null });
+    return queueMail(passwordResetMessage({ to: user.email, link: appLink(`/reset-password/${token}`), expiresAt }), 'a password-reset message');
+  })().catch((error: unknown) => {
+    console.error('[switchback] could not start a password reset:', error instanceof Error ? error.message : error);
+    return false;
+  });
   return { delivery };
 }
 

@@ -2,6 +2,7 @@ import { Parser } from '@json2csv/plainjs';
 import { figurePng } from '@/lib/server/figures/png';
 import { powerCurveSvg, type PowerSeries } from '@/lib/shared/figures/power-curve';
 import { PAIR_ROLES } from '@/lib/design/power/types';
+import { testWarning } from '@/lib/shared/validations/power';
 import { finishedResult, type PowerRunDto, type PowerResultDto } from './power-runs';
 
 export const EXPORT_FORMATS = ['svg', 'png', 'csv', 'json'] as const;
@@ -23,9 +24,10 @@ export function runFigureSvg(runs: Array<{ run: PowerRunDto; result: PowerResult
     runs.length === 1
       ? `${first.run.spec.replications} replications, seed ${first.run.spec.seed}; ${first.result.software}; design ${first.run.design.hash.slice(0, 12)}.`
       : `${first.result.software}.`;
+  const notes = [...new Set(runs.map((r) => testWarning(r.run.spec.test.kind)).filter((n): n is string => n !== null))];
   return powerCurveSvg(
     runs.map((r) => series(r.run, r.result)),
-    { title: runs.length === 1 ? `Power: ${runLabel(first.run)}` : 'Power: compared runs', caption },
+    { title: runs.length === 1 ? `Power: ${runLabel(first.run)}` : 'Power: compared runs', caption, notes },
   );
 }
 

@@ -9,6 +9,8 @@ export type PowerFigureOptions = {
   caption?: string;
   /** horizontal guide lines; default 0.8 and 0.9 */
   targets?: number[];
+  /** warnings a reader of the figure must see (e.g. a test's assumption), one line each below the caption */
+  notes?: string[];
 };
 
 /** Figure size: 6.5 × 4.2 inches; one SVG unit is 1/100 inch, so 300 dpi is 3 pixels per unit. */
@@ -29,9 +31,12 @@ function escapeXml(text: string): string {
  * as SVG, and rendered to PNG, so all three always agree.
  */
 export function powerCurveSvg(series: readonly PowerSeries[], options: PowerFigureOptions = {}): string {
-  const { width, height } = FIGURE;
+  const notes = options.notes ?? [];
+  const { width } = FIGURE;
+  // each note adds a line of 15 units below the plot, so the plot itself keeps its size
+  const height = FIGURE.height + 15 * notes.length;
   const innerW = width - MARGIN.left - MARGIN.right;
-  const innerH = height - MARGIN.top - MARGIN.bottom;
+  const innerH = FIGURE.height - MARGIN.top - MARGIN.bottom;
   const all = series.flatMap((s) => s.points.map((p) => p.n));
   const maxN = Math.max(1, ...all);
   const minN = Math.min(maxN, ...all);
@@ -50,7 +55,7 @@ export function powerCurveSvg(series: readonly PowerSeries[], options: PowerFigu
     .y1((p) => y(p.upper));
   const parts: string[] = [];
   parts.push(
-    `<svg xmlns="http://www.w3.org/2000/svg" width="${FIGURE.inchesWide}in" height="${FIGURE.inchesHigh}in" viewBox="0 0 ${width} ${height}" ` +
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${FIGURE.inchesWide}in" height="${height / 100}in" viewBox="0 0 ${width} ${height}" ` +
       `font-family="${FIGURE_FONT}, sans-serif" role="img" aria-label="${escapeXml(options.title ?? 'Power curve')}">`,
   );
   parts.push(`<rect width="${width}" height="${height}" fill="#ffffff"/>`);
@@ -120,7 +125,10 @@ export function powerCurveSvg(series: readonly PowerSeries[], options: PowerFigu
     parts.push(`<text x="${lx + 22}" y="${y0 + 9}" font-size="12" fill="#1f2933">${escapeXml(s.label)}</text>`);
   });
   const caption = `Shaded: Wilson 95 % interval. Dashed lines: 80 % and 90 % power.${options.caption ? ` ${options.caption}` : ''}`;
-  parts.push(`<text x="${MARGIN.left}" y="${height - 12}" font-size="11" fill="#4b5563">${escapeXml(caption)}</text>`);
+  parts.push(`<text x="${MARGIN.left}" y="${FIGURE.height - 12}" font-size="11" fill="#4b5563">${escapeXml(caption)}</text>`);
+  notes.forEach((note, i) => {
+    parts.push(`<text x="${MARGIN.left}" y="${FIGURE.height + 3 + 15 * i}" font-size="11" font-weight="600" fill="#92400e">${escapeXml(note)}</text>`);
+  });
   parts.push('</svg>');
   return parts.join('\n');
 }

@@ -3,7 +3,8 @@ import { gapCurve, valueCurve } from './curves';
 import { fallbackProbe, personalCriterion, personalSoonDelay, populationDelays, type Setting } from './choose-delays';
 import { personalDelays, sharesAt } from './personal';
 import { priorDraws, priorNodes, quantileSorted } from './points';
-import { DEFAULT_CHOICE_SENSITIVITY, type DesignSummary, type PlannerInput, type PlannerWarning, type RoleSummary } from './types';
+import { designChoiceModel } from '@/lib/design/designChoiceModel';
+import { type DesignSummary, type PlannerInput, type PlannerWarning, type RoleSummary } from './types';
 
 /** The model as the core wants it: s only for the models that have it, β only for quasi-hyperbolic. */
 export function modelOf(spec: PlannerInput['spec']): ModelSpec {
@@ -26,7 +27,7 @@ export function modelOf(spec: PlannerInput['spec']): ModelSpec {
 export function computeDesignSummary(input: PlannerInput, options: { draws?: RatePoints; nodes?: RatePoints } = {}): DesignSummary {
   const { spec, prior } = input;
   const model = modelOf(spec);
-  const gamma = spec.choiceSensitivity ?? DEFAULT_CHOICE_SENSITIVITY;
+  const gamma = designChoiceModel(spec).sensitivity;
   const nodes = options.nodes ?? priorNodes(prior);
   const draws = options.draws ?? priorDraws(prior);
   const s: Setting = { model, ratio: spec.ratio, limit: spec.lateDelayLimit, gamma, prior, nodes };

@@ -1,8 +1,8 @@
 import type { ChoicePattern, ModelSpec } from '@/lib/design';
 import type { DesignSpec, PriorValues } from '@/lib/shared/validations/planner';
 
-/** The γ the planner assumes when a design does not set one (a planning assumption, to be set from pilot data). */
-export const DEFAULT_CHOICE_SENSITIVITY = 20;
+/** The γ every part of the app assumes when a design does not set one (lib/design/designChoiceModel). */
+export { DEFAULT_CHOICE_SENSITIVITY } from '@/lib/design/designChoiceModel';
 /** Monte Carlo draws behind the charts and the spread of zone bounds. */
 export const PRIOR_DRAWS = 2000;
 /** Fixed seed, so the browser and the server draw the same points. */

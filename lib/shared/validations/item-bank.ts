@@ -36,6 +36,8 @@ export const participantIdSchema = z
 export const probeItemsRequestSchema = z.strictObject({
   participantId: participantIdSchema,
   responses: z.record(z.string().max(64), z.string().max(16), { error: 'Give responses as an object: item id → "sooner" or "later".' }),
+  /** the item-bank id of the calibration items the participant saw (export file header, calibration endpoint); refused when it is not the key's */
+  itemBankId: z.string().regex(/^[0-9a-f]{16}$/, 'The item-bank id is 16 hexadecimal digits, as in the export file or the calibration reply.').optional(),
 });
 export type ProbeItemsRequest = z.infer<typeof probeItemsRequestSchema>;
 

@@ -1,19 +1,28 @@
 import { z } from 'zod';
 import '@/lib/shared/validations/error-map';
+import { designChoiceModel } from '@/lib/design/designChoiceModel';
 import { nameText } from '@/lib/shared/validations/text';
-import { modelSpecSchema, priorValuesSchema } from './planner';
+import { modelSpecSchema, priorValuesSchema, type FrozenDesign } from './planner';
 
 /**
  * A power run's specification, saved with the run: which frozen design, the simulated truth,
  * the calibration treatment, the test, the sample sizes, replications and seed. Shared by the
  * new-run form (zodResolver) and the route handler (readJson).
  */
-export const POWER_TESTS = ['mcnemar', 'sign', 'probes-vs-anchors'] as const;
+export const POWER_TESTS = ['sign', 'sign-flip', 'probes-vs-anchors', 'mcnemar'] as const;
+/** The test a new run starts with: participant level, so a person's several probe pairs count once. */
+export const DEFAULT_POWER_TEST: (typeof POWER_TESTS)[number] = 'sign';
 export const POWER_TEST_LABELS: Record<(typeof POWER_TESTS)[number], string> = {
-  mcnemar: 'Exact McNemar test: LS vs SL among probe pairs',
-  sign: 'Sign test at the participant level',
+  sign: 'Sign test at the participant level (LS − SL per participant)',
+  'sign-flip': 'Sign-flip permutation test at the participant level (sum of LS − SL)',
   'probes-vs-anchors': 'LS rate in probes vs anchors (participant-level sign test)',
+  mcnemar: 'Exact McNemar test, pooled over participants (assumes independent pairs)',
 };
+
+/** The warning the page and the figure carry for a test whose assumption a reviewer would question; null when none. */
+export function testWarning(kind: (typeof POWER_TESTS)[number]): string | null {
+  return kind === 'mcnemar' ? 'Pooled McNemar test assumes independent pairs; a person’s pairs are not, so this power may be optimistic.' : null;
+}
 
 export const MAX_SAMPLE_SIZE = 5000;
 export const MAX_REPLICATIONS = 20000;
@@ -24,6 +33,21 @@ export const powerTruthSchema = z.strictObject({
   gamma: z.number({ error: 'Choice sensitivity γ must be a number.' }).gt(0, 'Choice sensitivity γ must be above 0.').max(1000, 'Choice sensitivity γ must be at most 1000.'),
   lapse: z.number({ error: 'Lapse rate ε must be a number.' }).min(0, 'Lapse rate ε must be 0 or more.').max(0.5, 'Lapse rate ε must be at most 0.5.'),
 });
+
+/**
+ * The truth a new run starts from for a frozen version: the design's model, prior and its one
+ * choice sensitivity γ (designChoiceModel), with a small lapse rate as a planning assumption.
+ * The new-run form shows these values; the user changes them to simulate another truth.
+ */
+export function assumedTruth(content: Pick<FrozenDesign, 'spec' | 'prior'>): PowerTruthValues {
+  const { name: _name, ...prior } = content.prior;
+  return { model: content.spec.model, prior, gamma: designChoiceModel(content.spec).sensitivity, lapse: DEFAULT_LAPSE };
+}
+
+/** Lapse rate ε a new run's truth starts with (common practice: a few per cent of choices at random). */
+export const DEFAULT_LAPSE = 0.02;
+
+export type PowerTruthValues = z.infer<typeof powerTruthSchema>;
 
 export const powerRunSpecSchema = z
   .strictObject({

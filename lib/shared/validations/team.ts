@@ -18,6 +18,9 @@ export type MemberRoleInput = z.infer<typeof memberRoleSchema>;
 /** Accepting an invitation by the token from its link. */
 export const acceptInvitationSchema = z.strictObject({ token: tokenSchema });
 
+/** Confirming an account's address with the token from the confirmation link. */
+export const addressConfirmationSchema = z.strictObject({ token: tokenSchema });
+
 /** Asking for a password-reset link. */
 export const passwordResetRequestSchema = z.strictObject({ email: emailSchema });
 export type PasswordResetRequestInput = z.infer<typeof passwordResetRequestSchema>;

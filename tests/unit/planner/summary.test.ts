@@ -1,7 +1,7 @@
 import * as d3 from 'd3';
 import jstatModule from 'jstat';
 import { describe, expect, it } from 'vitest';
-import { discountFactor, MODEL_IDS, reversalZone, type ModelSpec } from '@/lib/design';
+import { DEFAULT_CHOICE_SENSITIVITY, discountFactor, MODEL_IDS, reversalZone, type ModelSpec } from '@/lib/design';
 import { defaultSpec } from '@/lib/shared/planner/design-form-values';
 import { priorDraws } from '@/lib/shared/planner/points';
 import { priorView } from '@/lib/shared/planner/prior-view';
@@ -64,7 +64,7 @@ describe('the design page numbers', () => {
       const K = Math.exp(Math.log(0.008) + 0.8 * (0.6 * z1 + Math.sqrt(1 - 0.36) * z2));
       const far = discountFactor(model, K, D) - 0.6 * discountFactor(model, k, d);
       const near = 0.6 - discountFactor(model, K, D - d);
-      sum += sigma(20 * far) * sigma(20 * near);
+      sum += sigma(DEFAULT_CHOICE_SENSITIVITY * far) * sigma(DEFAULT_CHOICE_SENSITIVITY * near); // the γ a design without its own assumes
     }
     // standard error ≤ 0.5/√n ≈ 0.0011; 0.006 allows > 5 SE plus the 12×12 quadrature error
     expect(Math.abs(s.expectedReversalRate - sum / n)).toBeLessThan(0.006);

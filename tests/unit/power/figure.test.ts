@@ -36,3 +36,15 @@ describe('power figure legend', () => {
     expect(svg).toContain('misspecified');
   });
 });
+
+describe('warnings under the figure', () => {
+  it('prints each note below the caption and grows the figure by a line per note, keeping the plot', () => {
+    const plain = powerCurveSvg([series('A', (n) => n / 250)]);
+    const noted = powerCurveSvg([series('A', (n) => n / 250)], { notes: ['Pooled McNemar test assumes independent pairs.'] });
+    expect(plain).toContain('viewBox="0 0 650 420"');
+    expect(noted).toContain('viewBox="0 0 650 435"');
+    expect(noted).toContain('height="4.35in"');
+    expect(noted).toContain('>Pooled McNemar test assumes independent pairs.</text>');
+    expect(legendBox(noted)).toEqual(legendBox(plain));
+  });
+});

@@ -1,0 +1,54 @@
+import { createHash, randomBytes } from 'node:crypto';
+import { rawQuery } from '@/db';
+import { ConflictError, ForbiddenError } from '@/lib/server/errors';
+import type { CachedKey } from './api-keys';
+import type { FrozenVersionRef } from './item-bank';
+
+// Participant sessions started through the session API, and the token that binds a browser key's
+// calls to one participant (only its SHA-256 is stored, in participant_sessions.token_hash).
+
+function tokenHash(token: string): string {
+  return createHash('sha256').update(token).digest('hex');
+}
+
+const SELECT_SESSION = 'SELECT token_hash, status FROM participant_sessions WHERE study_id = ? AND participant_id = ?';
+
+/**
+ * A browser key acts for one participant only with that participant's session token (handed out
+ * when their session started): 403 otherwise, so a key copied from a public page can neither act
+ * as nor read another participant. Server keys are trusted with every participant of their study.
+ */
+export async function requireParticipantToken(key: CachedKey, participantId: string, token: string | null): Promise<void> {
+  if (key.kind !== 'browser') return;
+  const [row] = await rawQuery(SELECT_SESSION, [key.studyId, participantId]);
+  if (!token || !row || typeof row.token_hash !== 'string' || row.token_hash !== tokenHash(token)) {
+    throw new ForbiddenError(`Send participant ${participantId}'s session token (X-Session-Token, from the calibration reply that started the session).`);
+  }
+}
+
+const START_SESSION = `INSERT IGNORE INTO participant_sessions
+  (study_id, design_version_id, participant_id, status, source, api_key_id, started_at, last_activity_at, token_hash)
+  VALUES (?, ?, ?, 'started', 'api', ?, ?, ?, ?)`;
+const TOUCH_SESSION = 'UPDATE participant_sessions SET last_activity_at = ? WHERE study_id = ? AND participant_id = ?';
+
+/**
+ * Starts (or resumes) a participant's session when the calibration block is fetched for them.
+ * Server key: the row is created once, without a token. Browser key: a new session gets a token
+ * (returned once); a session that exists is resumed only with its token, else 409.
+ */
+export async function startSession(key: CachedKey, version: FrozenVersionRef, participantId: string, token: string | null): Promise<{ sessionToken: string | null }> {
+  const now = new Date();
+  if (key.kind === 'browser' && token) {
+    await requireParticipantToken(key, participantId, token);
+    await rawQuery(TOUCH_SESSION, [now, key.studyId, participantId]);
+    return { sessionToken: null };
+  }
+  const fresh = key.kind === 'browser' ? randomBytes(24).toString('base64url') : null;
+  const result = await rawQuery(START_SESSION, [key.studyId, version.id, participantId, key.id, now, now, fresh ? tokenHash(fresh) : null]);
+  if (Number(result.affectedRows ?? 0) === 1) return { sessionToken: fresh };
+  if (key.kind === 'browser') {
+    throw new ConflictError(`Participant ${participantId}'s session has already started; resume it with its session token (X-Session-Token).`);
+  }
+  await rawQuery(TOUCH_SESSION, [now, key.studyId, participantId]);
+  return { sessionToken: null };
+}
