@@ -1,5 +1,7 @@
 import { estimateRates, type CalibrationItem, type Choice, type ModelSpec } from '@/lib/design';
-import type { PilotIssue } from './pilot-csv';
+
+/** One problem in a pilot file: the 1-based line of the file and the column it concerns. */
+export type PilotIssue = { line: number; field: string; message: string };
 
 /** Columns of a raw-choices pilot file: one row per answered question. */
 export const CHOICE_COLUMNS = ['participant', 'magnitude', 'soonerAmount', 'soonerDelay', 'laterAmount', 'laterDelay', 'choice'] as const;

@@ -1,10 +1,10 @@
 import Papa from 'papaparse';
 import { fitPrior, type ModelSpec } from '@/lib/design';
-import { estimatePilotChoices } from './pilot-choices';
+import { estimatePilotChoices, type PilotIssue } from './pilot-choices';
+
+export type { PilotIssue };
 import { PILOT_MAX_BYTES, PILOT_MAX_ROWS, type PriorValues } from '@/lib/shared/validations/planner';
 
-/** One problem in a pilot file: the 1-based line of the file and the column it concerns. */
-export type PilotIssue = { line: number; field: string; message: string };
 
 export type PilotFit =
   | { ok: true; rows: number; prior: PriorValues; notes: string[] }
