@@ -46,8 +46,7 @@ export function DesignEditor({
   const { register, handleSubmit, formState, setError, reset, control } = useForm<DesignFormValues, unknown, DesignSpec>({
     resolver,
     values: toForm(design.spec),
-    // a background refetch of the design must neither drop typed values nor forget that they are unsaved
-    resetOptions: { keepDirtyValues: true, keepDirty: true },
+    resetOptions: { keepDirtyValues: true },
     mode: 'onChange',
   });
   const values = useWatch({ control }) as DesignFormValues;
