@@ -1,4 +1,5 @@
 import { expect, test, type Page } from '@playwright/test';
+import { readFileSync } from 'node:fs';
 import { openDemoStudy, shot, signInAs } from './helpers';
 
 /** Pixels the page can be scrolled sideways (0 when nothing sticks out), with the elements sticking out for the failure message. */
@@ -124,4 +125,41 @@ test('charts use one font at legible sizes, and their labels do not sit on each 
   }
   await page.getByTestId('gap-chart').scrollIntoViewIfNeeded();
   await page.screenshot({ path: 'tests/artifacts/screens/chart-style-gap.png' });
+});
+
+test('the power figure’s caption wraps inside the figure on the page, in the PNG and in the SVG, which renders in its embedded font', async ({ page }) => {
+  await signInAs(page, 'viewer');
+  await openDemoStudy(page);
+  await page.getByRole('navigation', { name: 'Study sections' }).getByRole('link', { name: 'Power' }).click();
+  await page.getByRole('link', { name: /\(demo\)/ }).first().click(); // the seeded run
+  const chart = page.getByTestId('power-chart').locator('svg');
+  await expect(chart).toBeVisible();
+  /** Lines of caption text that reach past the figure's right edge, measured by the browser's own text layout. */
+  const overflowing = (root: Element) => {
+    const svg = root as SVGSVGElement;
+    const right = svg.viewBox.baseVal.width;
+    return [...svg.querySelectorAll('text[data-line]')].filter((t) => (t as SVGTextElement).getBBox().x + (t as SVGTextElement).getBBox().width > right).map((t) => t.textContent);
+  };
+  expect(await chart.evaluate(overflowing)).toEqual([]);
+  await expect(chart.locator('text[data-line="caution"]').first()).toContainText('Simulated hypothetical choices');
+  await page.getByTestId('power-chart').scrollIntoViewIfNeeded();
+  await page.screenshot({ path: 'tests/artifacts/screens/power-figure-page.png' });
+
+  // the SVG download, opened on its own page: wraps the same way and draws in its embedded font
+  const [svgFile] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download SVG' }).click()]);
+  const svgText = readFileSync((await svgFile.path())!, 'utf8');
+  expect(svgText).toContain('@font-face');
+  const [pngFile] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download PNG (300 dpi)' }).click()]);
+  const png = readFileSync((await pngFile.path())!);
+  const own = await page.context().newPage();
+  await own.setContent(`<!doctype html><html><body style="margin:0;font-family:serif">${svgText}</body></html>`);
+  const alone = own.locator('svg').first();
+  await own.evaluate(() => document.fonts.ready);
+  expect(await alone.evaluate(overflowing)).toEqual([]);
+  // the embedded face is the one in use: the document has loaded it, though the page around it asks for a serif
+  expect(await own.evaluate(() => [...document.fonts].filter((f) => f.family.replace(/['"]/g, '') === 'Source Sans 3' && f.status === 'loaded').length)).toBeGreaterThan(0);
+  await own.screenshot({ path: 'tests/artifacts/screens/power-figure-svg.png', fullPage: true });
+  await own.setContent(`<!doctype html><html><body style="margin:0"><img src="data:image/png;base64,${png.toString('base64')}" style="width:975px"></body></html>`);
+  await own.screenshot({ path: 'tests/artifacts/screens/power-figure-png.png', fullPage: true });
+  await own.close();
 });
