@@ -4,12 +4,12 @@ import path from 'node:path';
 // Two projects: `unit` (pure code, no services) and `integration` (real MariaDB on the test port,
 // started by scripts/test.mjs). Browser tests run under Playwright, not here.
 export default defineConfig({
-  resolve: { alias: { '@': path.resolve(__dirname) } },
+  resolve: { alias: { '@': path.resolve(import.meta.dirname) } },
   test: {
     projects: [
       {
         extends: true,
-        test: { name: 'unit', include: ['tests/unit/**/*.test.ts', 'tests/property/**/*.test.ts'], environment: 'node' },
+        test: { name: 'unit', include: ['tests/unit/**/*.test.ts', 'tests/property/**/*.test.ts'], environment: 'node', setupFiles: ['tests/support/seeded-properties.ts'] },
       },
       {
         extends: true,

@@ -1,6 +1,6 @@
 import localFont from 'next/font/local';
 
-// Shipped in fonts/ (copied from the @fontsource packages): the app never fetches fonts at run time.
+// Shipped in fonts/ (copied once from the @fontsource packages, OFL-licensed): the app never fetches fonts at run time.
 export const sans = localFont({
   src: [
     { path: '../fonts/source-sans-3-latin-400-normal.woff2', weight: '400', style: 'normal' },

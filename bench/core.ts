@@ -1,7 +1,23 @@
 // Speed of the numerical core: optimal-late-delay solves per second per model over 10^6 seeded
-// random inputs, and the time of one expected-reversal-rate evaluation with 2,000 prior draws.
+// random inputs, one at a time and in batches beside a vectorised numpy closed form on the same
+// inputs, and the time of one expected-reversal-rate evaluation with 2,000 prior draws.
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
 import { expectedReversalRate } from '@/lib/criteria';
-import { calibrationItems, createRandom, estimateRates, optimiseLateDelay, priorPoints, type Choice, type ModelSpec, type PairInput } from '@/lib/design';
+import {
+  calibrationItems,
+  createRandom,
+  estimateRates,
+  optimiseLateDelay,
+  optimiseLateDelayBatch,
+  priorPoints,
+  type Choice,
+  type LateDelayBatchOutput,
+  type ModelSpec,
+  type PairInput,
+} from '@/lib/design';
 
 const N = 1_000_000;
 const WARM_UP = 2;
@@ -76,6 +92,8 @@ export async function runCoreBench(): Promise<void> {
     );
   }
 
+  batchBench(inputs);
+
   const prior = { medianSmall: 0.02, medianLarge: 0.005, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.6 };
   const points = priorPoints(prior, { method: 'monte-carlo', count: 2000, random: createRandom({ seed: 7 }) });
   const setting = { model: { id: 'hyperbolic' } as ModelSpec, ratio: 0.5, soonDelay: 14, choice: { sensitivity: 20, lapse: 0.02 }, points };
@@ -102,4 +120,64 @@ export async function runCoreBench(): Promise<void> {
   for (const b of blocks) sink += estimateRates(b, items, { id: 'hyperbolic' }, { sensitivity: 10 }).small.logRate;
   const perPerson = (performance.now() - start) / blocks.length;
   console.log(`estimateRates, 2 × 20 items, fixed γ: ${(perPerson * 1000).toFixed(1)} µs per participant (${(400_000 * perPerson / 1000).toFixed(0)} s for 2,000 replicates × 200 participants on one core)`);
+}
+
+/**
+ * optimiseLateDelayBatch against the closed forms in numpy (bench/numpy-batch.py), both timed as
+ * the best of PASSES passes over the same 10^6 inputs (handed to Python as raw float64), in CPU
+ * time of the process (both run on one core: numpy's element-wise operations are single-threaded),
+ * which other processes on a shared machine disturb far less than the wall clock.
+ * OpenBLAS tuning variables set for other tools on this machine are removed from Python's
+ * environment only, so numpy runs as it does for a methodologist.
+ */
+export function batchBench(inputs: Inputs = seededInputs(20261202)): void {
+  console.log(`optimiseLateDelayBatch vs a vectorised numpy closed form, same ${N.toLocaleString('en')} inputs (best of ${PASSES} passes after a warm-up, CPU time of each process: one core each)`);
+  const out: LateDelayBatchOutput = { lower: new Float64Array(N), upper: new Float64Array(N), lateDelay: new Float64Array(N), gapProduct: new Float64Array(N) };
+  const ours: Record<string, { perSecond: number; checksum: number }> = {};
+  for (const model of [{ id: 'hyperbolic' }, { id: 'exponential' }] as ModelSpec[]) {
+    let best = Infinity;
+    for (let r = 0; r < WARM_UP + PASSES; r++) {
+      const cpu = process.cpuUsage();
+      optimiseLateDelayBatch(model, inputs, out);
+      const used = process.cpuUsage(cpu);
+      if (r >= WARM_UP) best = Math.min(best, (used.user + used.system) / 1e6);
+    }
+    let checksum = 0;
+    for (let i = 0; i < N; i++) if (out.lower[i] === out.lower[i]) checksum += out.lower[i] + out.upper[i] + out.lateDelay[i] + out.gapProduct[i];
+    ours[model.id] = { perSecond: N / best, checksum };
+  }
+  const theirs = runNumpy(inputs);
+  for (const id of ['hyperbolic', 'exponential']) {
+    const mine = ours[id];
+    const line = `  ${id.padEnd(12)} ours ${(mine.perSecond / 1e6).toFixed(1).padStart(6)} × 10^6 solves/s`;
+    if (typeof theirs === 'string') {
+      console.log(`${line}  (numpy line skipped: ${theirs})`);
+      continue;
+    }
+    const np = theirs[id];
+    const agree = Math.abs(np.checksum / mine.checksum - 1);
+    console.log(`${line}  numpy ${theirs.numpy} ${(np.perSecond / 1e6).toFixed(1).padStart(6)} × 10^6/s  → ${(mine.perSecond / np.perSecond).toFixed(2)}× numpy (target ≥ 2×; checksums agree to ${agree.toExponential(1)})`);
+  }
+}
+
+type NumpyRates = { numpy: string } & Record<string, { perSecond: number; checksum: number }>;
+
+function runNumpy(inputs: Inputs): NumpyRates | string {
+  const dir = mkdtempSync(path.join(tmpdir(), 'switchback-bench-'));
+  try {
+    const file = path.join(dir, 'inputs.f64');
+    const all = new Float64Array(4 * N);
+    [inputs.ratio, inputs.soonDelay, inputs.kSmall, inputs.kLarge].forEach((a, i) => all.set(a, i * N));
+    writeFileSync(file, new Uint8Array(all.buffer));
+    const env = { ...process.env };
+    delete env.OPENBLAS_CORETYPE;
+    delete env.OPENBLAS_L2_SIZE;
+    const script = path.join(import.meta.dirname, 'numpy-batch.py');
+    const run = spawnSync('python3', [script, file, String(N), String(PASSES)], { env, encoding: 'utf8', timeout: 300_000 });
+    if (run.error) return `python3 not found (${run.error.message})`;
+    if (run.status !== 0) return `python3 with numpy not available (${(run.stderr || '').trim().split('\n').pop()})`;
+    return JSON.parse(run.stdout) as NumpyRates;
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
 }

@@ -2,7 +2,9 @@
 import { runCoreBench } from './core';
 import { runPowerBench } from './power';
 import { runPlannerBench } from './planner';
+import { runAnalysisBench } from './analysis';
 
 await runCoreBench();
 await runPlannerBench();
 await runPowerBench();
+await runAnalysisBench();

@@ -5,9 +5,10 @@ import { drawLineChart } from '@/components/charts/draw-line-chart';
 import { drawScatterChart } from '@/components/charts/draw-scatter-chart';
 import { gapChartSpec, valueChartSpec } from '@/components/planner/design-charts-spec';
 import { defaultSpec } from '@/lib/shared/planner/design-form-values';
-import { priorDraws, priorNodes } from '@/lib/shared/planner/points';
+import { expectationNodes, priorDraws } from '@/lib/shared/planner/points';
 import { priorView } from '@/lib/shared/planner/prior-view';
 import { computeDesignSummary } from '@/lib/shared/planner/summary';
+import { DEFAULT_CHOICE_SENSITIVITY } from '@/lib/shared/planner/types';
 import type { DesignSpec } from '@/lib/shared/validations/planner';
 
 type Timing = { label: string; draws: number; runs: number; medianMs: number; p95Ms: number; maxMs: number };
@@ -29,7 +30,7 @@ function svg(id: string): SVGSVGElement {
 function run(runs: number): Timing[] {
   const prior = { medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.6 };
   const draws = priorDraws(prior);
-  const nodes = priorNodes(prior);
+  const nodes = expectationNodes(prior, defaultSpec('Bench', 1).choiceSensitivity ?? DEFAULT_CHOICE_SENSITIVITY);
   const [valueSvg, gapSvg, scatterSvg, densitySvg] = ['value', 'gap', 'scatter', 'density'].map(svg);
   const out: Timing[] = [];
   const designs: Array<[string, DesignSpec]> = [

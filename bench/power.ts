@@ -7,27 +7,12 @@
 // Target: the whole curve in 5 s or less on a 2-core machine.
 import { summarisePower, type PowerScenario } from '@/lib/design/power';
 import { defaultWorkerCount, runScenario } from '@/lib/server/jobs/power/run-scenario';
+import { POWER_PRIOR, powerDesign } from '../tests/support/frozen-design';
 
-const prior = { medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 1, sdLogLarge: 1, correlation: 0.8 };
+const prior = POWER_PRIOR;
 
 export const S1: PowerScenario = {
-  design: {
-    spec: {
-      model: { id: 'hyperbolic' },
-      ratio: 0.82,
-      largeAmount: 100,
-      currency: 'EUR',
-      mode: 'personalised',
-      soonDelay: { mode: 'fixed', days: 30 },
-      lateDelayLimit: 9131,
-      probePairs: 4,
-      lateAnchors: 2,
-      soonAnchors: 2,
-      calibration: { itemsPerMagnitude: 20, minDelay: 1, maxDelay: 365 },
-    },
-    prior,
-    soonDelay: 30,
-  },
+  design: { spec: powerDesign().spec, prior, soonDelay: 30 },
   truth: { model: { id: 'hyperbolic' }, prior, gamma: 10, lapse: 0.02 },
   calibration: 'simulated',
   test: { kind: 'mcnemar', alpha: 0.05, alternative: 'greater' },

@@ -1,6 +1,6 @@
 import { Sequelize } from 'sequelize';
 import * as mariadb from 'mariadb';
-import { serverEnv } from '@/lib/server/env';
+import { databaseEnv } from '@/lib/server/env';
 import { registerModels } from './models';
 
 // One Sequelize instance per process. In development Next reloads modules on every change, so the
@@ -8,7 +8,7 @@ import { registerModels } from './models';
 const holder = globalThis as unknown as { switchbackSequelize?: Sequelize };
 
 function createSequelize(): Sequelize {
-  const env = serverEnv();
+  const env = databaseEnv();
   const sequelize = new Sequelize(env.DB_NAME, env.DB_USER, env.DB_PASSWORD, {
     host: env.DB_HOST,
     port: env.DB_PORT,

@@ -1,16 +1,14 @@
 import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
+import { parseEnv } from 'node:util';
 
 /**
- * Loads KEY=VALUE lines from .env.local into process.env for scripts run outside Next
- * (migrations, seeders). Variables already set in the environment win, as they do in Next.
+ * Loads .env.local into process.env for scripts run outside Next (migrations, seeders), with Node's
+ * own env-file parser. Variables already set in the environment win, as they do in Next.
  */
 export function loadLocalEnv(file = path.join(process.cwd(), '.env.local')): void {
   if (!existsSync(file)) return;
-  for (const line of readFileSync(file, 'utf8').split('\n')) {
-    const match = /^\s*([A-Z0-9_]+)\s*=\s*(.*)\s*$/.exec(line);
-    if (!match) continue;
-    const [, key, raw] = match;
-    if (process.env[key] === undefined) process.env[key] = raw.replace(/^"(.*)"$/, '$1');
+  for (const [key, value] of Object.entries(parseEnv(readFileSync(file, 'utf8')))) {
+    if (process.env[key] === undefined) process.env[key] = value;
   }
 }

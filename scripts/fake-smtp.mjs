@@ -9,6 +9,7 @@ import { createWriteStream } from 'node:fs';
 import { mkdir, rename, rm } from 'node:fs/promises';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
+import { parseArgs } from 'node:util';
 import { SMTPServer } from 'smtp-server';
 
 const MAX_MESSAGE_BYTES = 5 * 1024 * 1024;
@@ -96,14 +97,10 @@ export async function startFakeSmtp({ port = 2525, host = '127.0.0.1', mailboxDi
 
 const isMain = process.argv[1] && pathToFileURL(process.argv[1]).href === import.meta.url;
 if (isMain) {
-  const arg = (name, fallback) => {
-    const i = process.argv.indexOf(name);
-    return i === -1 ? fallback : process.argv[i + 1];
-  };
-  const started = await startFakeSmtp({
-    port: Number(arg('--port', process.env.FAKE_SMTP_PORT || '2525')),
-    mailboxDir: path.resolve(arg('--dir', '.data/mailbox')),
+  const { values } = parseArgs({
+    options: { port: { type: 'string', default: process.env.FAKE_SMTP_PORT || '2525' }, dir: { type: 'string', default: '.data/mailbox' } },
   });
+  const started = await startFakeSmtp({ port: Number(values.port), mailboxDir: path.resolve(values.dir) });
   console.log(`Local test mail server on ${started.url}; messages kept in ${started.mailboxDir}`);
   const stop = async () => {
     await started.stop();

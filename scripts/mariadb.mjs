@@ -19,6 +19,7 @@ import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
+import { parseArgs, parseEnv } from 'node:util';
 import { aptInstall, findExecutable, isRoot } from './system.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -59,20 +60,9 @@ export function instanceConfig(instance = 'app') {
   };
 }
 
-/** Tiny KEY=VALUE parser (blank lines, `#` comments, `export ` and surrounding quotes allowed). Missing file → {}. */
+/** The KEY=VALUE pairs of an env file, read with Node's own parser (the one behind --env-file). Missing file → {}. */
 export function readEnvFile(file) {
-  if (!fs.existsSync(file)) return {};
-  const env = {};
-  for (const raw of fs.readFileSync(file, 'utf8').split(/\r?\n/)) {
-    const line = raw.trim();
-    if (!line || line.startsWith('#')) continue;
-    const match = /^(?:export\s+)?([A-Za-z_][A-Za-z0-9_]*)\s*=\s*(.*)$/.exec(line);
-    if (!match) continue;
-    let value = match[2];
-    if (/^(['"]).*\1$/.test(value) && value.length >= 2) value = value.slice(1, -1);
-    env[match[1]] = value;
-  }
-  return env;
+  return fs.existsSync(file) ? parseEnv(fs.readFileSync(file, 'utf8')) : {};
 }
 
 /** The environment names of an instance's external server: DB_* for the app, TEST_DB_* for the tests. */
@@ -434,16 +424,13 @@ export async function stopDatabase({ instance = 'app', log = () => {} } = {}) {
 // --- command line ------------------------------------------------------------------------------
 
 async function main(argv) {
-  const [command, ...rest] = argv;
-  let instance = 'app';
-  let fresh = false;
-  for (let i = 0; i < rest.length; i++) {
-    const arg = rest[i];
-    if (arg === '--fresh') fresh = true;
-    else if (arg === '--instance') instance = rest[++i];
-    else if (arg.startsWith('--instance=')) instance = arg.slice('--instance='.length);
-    else throw new Error(`unknown option ${arg}`);
-  }
+  const { values, positionals } = parseArgs({
+    args: argv,
+    allowPositionals: true,
+    options: { instance: { type: 'string', default: 'app' }, fresh: { type: 'boolean', default: false } },
+  });
+  const [command] = positionals;
+  const { instance, fresh } = values;
   if (command === 'start') {
     const env = await startDatabase({ instance, fresh });
     const where = isExternal(instance) ? 'external server' : path.relative(ROOT, instanceConfig(instance).dir);

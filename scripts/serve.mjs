@@ -11,22 +11,17 @@
 import { createServer } from 'node:http';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { parseArgs } from 'node:util';
 import { announcePeerStamping, stampPeerAddress } from './peer-address.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
-function parseArgs(argv) {
-  let hostname = '127.0.0.1';
-  let port = process.env.PORT || '3000';
-  for (let i = 0; i < argv.length; i++) {
-    if (argv[i] === '-H' || argv[i] === '--hostname') hostname = argv[++i];
-    else if (argv[i] === '-p' || argv[i] === '--port') port = argv[++i];
-    else throw new Error(`unknown option ${argv[i]} (usage: node scripts/serve.mjs [-H host] [-p port])`);
-  }
-  return { hostname, port: Number(port) };
-}
-
-const { hostname, port } = parseArgs(process.argv.slice(2));
+// usage: node scripts/serve.mjs [-H host] [-p port]
+const { values: options } = parseArgs({
+  options: { hostname: { type: 'string', short: 'H', default: '127.0.0.1' }, port: { type: 'string', short: 'p', default: process.env.PORT || '3000' } },
+});
+const { hostname } = options;
+const port = Number(options.port);
 // As `next start` does: this server only ever serves a production build.
 process.env.NODE_ENV = 'production';
 

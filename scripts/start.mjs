@@ -5,12 +5,14 @@
 import { existsSync, readdirSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { parseArgs } from 'node:util';
 import { readEnvFile, startDatabase, stopDatabase } from './mariadb.mjs';
 import { demoAccounts, demoGroup } from '../db/seeders/demo-accounts.mjs';
 import { spawnNode, spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
-const dev = process.argv.includes('--dev');
+const { values: options } = parseArgs({ options: { dev: { type: 'boolean', default: false } } });
+const { dev } = options;
 const port = process.env.PORT || '3000';
 // next.config.mjs honours NEXT_DIST_DIR so several servers of one checkout can run side by side.
 const DIST_DIR = path.join(ROOT, process.env.NEXT_DIST_DIR || '.next');
@@ -65,8 +67,8 @@ function newestSourceTime() {
   return newest;
 }
 
-// `npm test` builds into the same folder with the test settings, so a build also has to be
-// redone when the last one was made for the tests rather than for `npm start`.
+// `npm test` builds into .next-test, so a test run leaves this build alone; a build marked as a
+// test build (someone pointed both at one folder) is still redone.
 function needsBuild() {
   const buildId = path.join(DIST_DIR, 'BUILD_ID');
   if (!existsSync(buildId) || !existsSync(BUILD_MARK)) return true;

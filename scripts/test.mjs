@@ -12,55 +12,38 @@ import { randomBytes } from 'node:crypto';
 import { closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { parseArgs } from 'node:util';
 import { startDatabase, stopDatabase } from './mariadb.mjs';
+import { closingLines, countTests } from './test-report.mjs';
 import { ensureChromium, spawnNode, spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const ARTIFACTS = path.join(ROOT, 'tests', 'artifacts');
 const SERVER_LOG = path.join(ARTIFACTS, 'next-server.log');
 const MODES = ['all', 'unit', 'integration', 'browser'];
+const TEST_DIST_DIR = process.env.TEST_NEXT_DIST_DIR || '.next-test';
 const VITEST_JSON = path.join(ARTIFACTS, 'vitest-report.json');
 const PLAYWRIGHT_JSON = path.join(ARTIFACTS, 'playwright-report.json');
 const VITEST_REPORT = ['--reporter=default', '--reporter=json', `--outputFile.json=${VITEST_JSON}`];
 
-/** Adds up the machine-readable reports of this run into one closing count. */
-function countTests() {
-  let passedCount = 0;
-  let failedCount = 0;
-  let skipped = 0;
+/** A JSON report of this run, or null when its tool did not run. */
+function readReport(file) {
   try {
-    const v = JSON.parse(readFileSync(VITEST_JSON, 'utf8'));
-    passedCount += v.numPassedTests ?? 0;
-    failedCount += v.numFailedTests ?? 0;
-    skipped += (v.numPendingTests ?? 0) + (v.numTodoTests ?? 0);
+    return JSON.parse(readFileSync(file, 'utf8'));
   } catch {
-    /* vitest did not run */
+    return null;
   }
-  try {
-    const p = JSON.parse(readFileSync(PLAYWRIGHT_JSON, 'utf8'));
-    passedCount += (p.stats?.expected ?? 0) + (p.stats?.flaky ?? 0);
-    failedCount += p.stats?.unexpected ?? 0;
-    skipped += p.stats?.skipped ?? 0;
-  } catch {
-    /* playwright did not run */
-  }
-  return { passedCount, failedCount, skipped };
 }
 
-function parseArgs(argv) {
-  const dashDash = argv.indexOf('--');
-  const own = dashDash === -1 ? argv : argv.slice(0, dashDash);
-  const extra = dashDash === -1 ? [] : argv.slice(dashDash + 1);
-  let mode = 'all';
-  for (let i = 0; i < own.length; i++) {
-    if (own[i] === '--only') mode = own[++i];
-    else if (own[i].startsWith('--only=')) mode = own[i].slice('--only='.length);
-    else throw new Error(`unknown option ${own[i]}`);
-  }
-  if (!MODES.includes(mode) || (mode === 'all' && extra.length > 0)) {
-    throw new Error('usage: node scripts/test.mjs [--only unit|integration|browser [-- extra args]]');
-  }
-  return { mode, extra };
+function commandLine(argv) {
+  const usage = 'usage: node scripts/test.mjs [--only unit|integration|browser [-- extra args]]';
+  const { values, positionals, tokens } = parseArgs({ args: argv, options: { only: { type: 'string', default: 'all' } }, allowPositionals: true, tokens: true });
+  // Extra arguments for vitest / playwright only after `--`.
+  const terminator = tokens.find((t) => t.kind === 'option-terminator');
+  const stray = tokens.some((t) => t.kind === 'positional' && (!terminator || t.index < terminator.index));
+  const mode = values.only;
+  if (stray || !MODES.includes(mode) || (mode === 'all' && positionals.length > 0)) throw new Error(usage);
+  return { mode, extra: positionals };
 }
 
 const say = (message) => console.log(`[test] ${message}`);
@@ -106,7 +89,9 @@ async function main({ mode, extra }) {
   const needsDb = mode !== 'unit';
   const port = process.env.TEST_PORT || '3100';
   const baseUrl = `http://127.0.0.1:${port}`;
-  const base = { ...process.env, NEXT_TELEMETRY_DISABLED: '1', PLAYWRIGHT_SKIP_BROWSER_DOWNLOAD: '1' };
+  // The test build goes to a folder of its own (.next-test), so `npm test` and `npm start` never
+  // rebuild each other's build (next.config.mjs reads NEXT_DIST_DIR).
+  const base = { ...process.env, NEXT_DIST_DIR: TEST_DIST_DIR, NEXT_TELEMETRY_DISABLED: '1', PLAYWRIGHT_SKIP_BROWSER_DOWNLOAD: '1' };
   delete base.NODE_ENV; // each tool picks its own (vitest: test, next build/start: production)
   let env = base;
   let server = null;
@@ -159,8 +144,8 @@ async function main({ mode, extra }) {
       await step('chromium', () => ensureChromium({ log: say }));
       await step('build', async () => {
         await npx(['next', 'build'], env);
-        // Tells scripts/start.mjs that the build folder holds a test build, which it must not serve.
-        writeFileSync(path.join(ROOT, process.env.NEXT_DIST_DIR || '.next', 'SWITCHBACK_BUILD_FOR'), 'FOR=test\n');
+        // Marks a test build, which scripts/start.mjs never serves (should someone point both at one folder).
+        writeFileSync(path.join(ROOT, TEST_DIST_DIR, 'SWITCHBACK_BUILD_FOR'), 'FOR=test\n');
       });
       await step('seed', () => npx(['tsx', 'db/seed.ts'], env));
       await step(`server on ${baseUrl}`, async () => {
@@ -208,7 +193,7 @@ function interrupt(code) {
 const started = Date.now();
 let options;
 try {
-  options = parseArgs(process.argv.slice(2));
+  options = commandLine(process.argv.slice(2));
 } catch (error) {
   console.error(error.message);
   process.exit(2);
@@ -228,7 +213,7 @@ try {
   process.exitCode = interruptCode || 1;
 }
 if (options.mode === 'all') {
-  const { passedCount, failedCount, skipped } = countTests();
-  // The plain closing line CI reads: every vitest and Playwright test of this run.
-  console.log(`Tests: ${passedCount} passed, ${failedCount} failed${skipped ? `, ${skipped} skipped` : ''}`);
+  // Behaviour tests and bad-input table rows apart, then the plain closing line CI reads: every
+  // vitest and Playwright test of this run.
+  for (const line of closingLines(countTests(readReport(VITEST_JSON), readReport(PLAYWRIGHT_JSON)))) console.log(line);
 }

@@ -1,4 +1,4 @@
-import type * as d3 from 'd3';
+import type { Selection } from 'd3-selection';
 
 /**
  * One style for every chart: the page's own font (inherited, so axis ticks no longer fall back
@@ -13,12 +13,12 @@ export const LEGEND_ROW = 17;
 
 
 /** The root <svg>: the page's font family and the chart's base size. */
-export function styleRoot(svg: d3.Selection<SVGSVGElement, unknown, null, undefined>): void {
+export function styleRoot(svg: Selection<SVGSVGElement, unknown, null, undefined>): void {
   svg.attr('font-family', 'inherit').attr('font-size', CHART_TEXT.tick).style('font-family', 'inherit');
 }
 
 /** An axis group after d3 drew it: drop d3's own font and size so ticks read like the rest of the chart. */
-export function styleAxis(axis: d3.Selection<SVGGElement, unknown, null, undefined>): void {
+export function styleAxis(axis: Selection<SVGGElement, unknown, null, undefined>): void {
   axis.attr('font-family', null).attr('font-size', CHART_TEXT.tick);
   axis.selectAll('text').attr('fill', CHART_INK.soft);
 }

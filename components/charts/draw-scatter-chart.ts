@@ -1,4 +1,7 @@
-import * as d3 from 'd3';
+import { axisBottom, axisLeft } from 'd3-axis';
+import { scaleLog } from 'd3-scale';
+import { select } from 'd3-selection';
+import { line } from 'd3-shape';
 import { CHART_INK, CHART_TEXT, LEGEND_ROW, styleAxis, styleRoot } from './chart-style';
 
 export type ScatterSpec = {
@@ -29,16 +32,16 @@ const MARGIN = { top: 12, right: 16, bottom: 44, left: 64 };
 export function drawScatterChart(svgEl: SVGSVGElement, spec: ScatterSpec): void {
   const width = spec.width ?? 420;
   const height = spec.height ?? 380;
-  const svg = d3.select(svgEl).attr('viewBox', `0 0 ${width} ${height}`).attr('role', 'img').attr('aria-label', spec.title);
+  const svg = select(svgEl).attr('viewBox', `0 0 ${width} ${height}`).attr('role', 'img').attr('aria-label', spec.title);
   svg.selectAll('*').remove();
   styleRoot(svg);
   const innerW = width - MARGIN.left - MARGIN.right;
   const innerH = height - MARGIN.top - MARGIN.bottom;
-  const x = d3.scaleLog().domain(spec.domain).range([0, innerW]);
-  const y = d3.scaleLog().domain(spec.domain).range([innerH, 0]);
+  const x = scaleLog().domain(spec.domain).range([0, innerW]);
+  const y = scaleLog().domain(spec.domain).range([innerH, 0]);
   const g = svg.append('g').attr('transform', `translate(${MARGIN.left},${MARGIN.top})`);
-  styleAxis(g.append('g').attr('transform', `translate(0,${innerH})`).call(d3.axisBottom(x).ticks(5, '~g')));
-  styleAxis(g.append('g').call(d3.axisLeft(y).ticks(5, '~g')));
+  styleAxis(g.append('g').attr('transform', `translate(0,${innerH})`).call(axisBottom(x).ticks(5, '~g')));
+  styleAxis(g.append('g').call(axisLeft(y).ticks(5, '~g')));
   g.append('text').attr('x', innerW / 2).attr('y', innerH + 38).attr('text-anchor', 'middle').attr('font-size', CHART_TEXT.label).attr('fill', CHART_INK.soft).text(spec.xLabel);
   g.append('text').attr('transform', 'rotate(-90)').attr('x', -innerH / 2).attr('y', -50).attr('text-anchor', 'middle').attr('font-size', CHART_TEXT.label).attr('fill', CHART_INK.soft).text(spec.yLabel);
   let on = '';
@@ -57,7 +60,7 @@ export function drawScatterChart(svgEl: SVGSVGElement, spec: ScatterSpec): void 
   if (spec.line && spec.line.x.length) {
     const pts: Array<[number, number]> = [];
     for (let i = 0; i < spec.line.x.length; i++) pts.push([x(spec.line.x[i]), y(spec.line.y[i])]);
-    g.append('path').attr('d', d3.line()(pts)).attr('fill', 'none').attr('stroke', '#c9861c').attr('stroke-width', 2.5).attr('data-series', spec.line.label);
+    g.append('path').attr('d', line()(pts)).attr('fill', 'none').attr('stroke', '#c9861c').attr('stroke-width', 2.5).attr('data-series', spec.line.label);
   }
   const legend = g.append('g').attr('transform', 'translate(8, 6)').attr('font-size', CHART_TEXT.legend).attr('fill', CHART_INK.text);
   const rows = [

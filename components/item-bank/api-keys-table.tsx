@@ -15,7 +15,8 @@ export function ApiKeysTable({ studyId, keys }: { studyId: number; keys: ApiKeyD
         <tr>
           <Th>Name</Th>
           <Th>Prefix</Th>
-          <Th>Version</Th>
+          <Th>Kind and origins</Th>
+          <Th>Version and items</Th>
           <Th>Created by</Th>
           <Th>Last used</Th>
           <Th>Status</Th>
@@ -26,7 +27,18 @@ export function ApiKeysTable({ studyId, keys }: { studyId: number; keys: ApiKeyD
           <tr key={k.id} data-testid="api-key-row">
             <Td>{k.name}</Td>
             <Td className="font-mono text-xs">{k.prefix}…</Td>
-            <Td>#{k.designVersionId}</Td>
+            <Td>
+              {k.kind === 'browser' ? 'browser' : 'server'}
+              <span className="block text-xs text-ink-soft">{k.allowedOrigins.length ? k.allowedOrigins.join(', ') : 'no browser origins'}</span>
+            </Td>
+            <Td>
+              #{k.designVersionId}
+              {k.presentation ? (
+                <span className="block text-xs text-ink-soft">
+                  {k.presentation.delayUnit}, gap {k.presentation.minGap}, seed {k.presentation.seed} · item bank <span className="font-mono">{k.itemBankId}</span>
+                </span>
+              ) : null}
+            </Td>
             <Td>
               {k.createdBy ?? '—'}
               <span className="block text-xs text-ink-soft">{formatDateTime(k.createdAt)}</span>

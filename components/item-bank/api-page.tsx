@@ -5,7 +5,8 @@ import { Card } from '@/components/ui/card';
 import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { useStudyContext } from '@/components/studies/study-context';
-import { useApiKeys, useFrozenVersions } from '@/lib/client/item-bank';
+import { downloadStarter, useApiKeys, useFrozenVersions } from '@/lib/client/item-bank';
+import { Button } from '@/components/ui/button';
 import { ApiDocs } from './api-docs';
 import { ApiKeyForm } from './api-key-form';
 import { ApiKeysTable } from './api-keys-table';
@@ -43,6 +44,21 @@ function KeysSection({ studyId }: { studyId: number }) {
         <QueryState query={keys} label="Loading keys…">
           <ApiKeysTable studyId={studyId} keys={keys.data ?? []} />
         </QueryState>
+        {versions.data?.length ? (
+          <div className="space-y-2 text-sm">
+            <p>
+              <strong>Starter experiment</strong>: a static page (HTML and plain JavaScript) that runs the whole two-stage session with a browser key from your own site.
+              Create a browser key above to download it with the key written in, or download it here and paste a browser key into its settings.
+            </p>
+            <div className="flex flex-wrap gap-2">
+              {versions.data.map((v) => (
+                <Button key={v.id} size="sm" variant="secondary" onClick={() => downloadStarter(studyId, v.id)}>
+                  Starter for {v.designName} v{v.number}
+                </Button>
+              ))}
+            </div>
+          </div>
+        ) : null}
       </div>
     </Card>
   );

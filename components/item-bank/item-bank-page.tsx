@@ -72,7 +72,8 @@ export function ItemBankPage() {
           {preview.data ? (
             <div className="space-y-6">
               <p className="text-sm text-ink-soft" data-testid="bank-header">
-                Design {preview.data.header.designVersion.name} v{preview.data.header.designVersion.number} · hash <span className="font-mono">{preview.data.header.designVersion.hash.slice(0, 16)}…</span> · seed {preview.data.header.seed} · amounts rounded to {preview.data.header.amountUnit} {preview.data.header.currency}
+                Design {preview.data.header.designVersion.name} v{preview.data.header.designVersion.number} · hash <span className="font-mono">{preview.data.header.designVersion.hash.slice(0, 16)}…</span> · seed {preview.data.header.seed} · amounts rounded to {preview.data.header.amountUnit} {preview.data.header.currency} · item bank{' '}
+                <span className="font-mono" title="An API key with the same delay unit, gap and seed shows the same id; send it with calibration answers.">{preview.data.header.itemBankId}</span>
               </p>
               {preview.data.extrapolation ? <Notice tone="warning" title="Probe delays beyond the calibration range">{preview.data.extrapolation.message}</Notice> : null}
               {preview.data.notes.map((n) => (

@@ -12,6 +12,7 @@ import { formatDateTime } from '@/lib/shared/format';
 import { BatchUpload } from './batch-upload';
 import { EstimateResolutionNote } from './estimate-resolution-note';
 import { ItemTable } from './item-table';
+import { SessionsCard } from './sessions-card';
 import { TermHelp } from '@/components/glossary/term-help';
 
 /** A rate with the standard error of its logarithm, named with the rate's own symbol (k small reward, K large). */
@@ -28,6 +29,7 @@ export function ParticipantsPage() {
         These rates are estimates from hypothetical choices in a short calibration block. They describe choices in this study, are not a clinical assessment of
         anyone, and are not a diagnostic test; follow your ethics board&apos;s rules on how they may be used.
       </Notice>
+      <SessionsCard studyId={study.id} canOperate={can('operator')} />
       <Card
         title="Participants served"
         actions={

@@ -1,7 +1,8 @@
 'use client';
 
 import { useMemo } from 'react';
-import { priorDraws, priorNodes } from '@/lib/shared/planner/points';
+import { expectationNodes, priorDraws } from '@/lib/shared/planner/points';
+import { DEFAULT_CHOICE_SENSITIVITY } from '@/lib/shared/planner/types';
 import { computeDesignSummary } from '@/lib/shared/planner/summary';
 import type { DesignSummary } from '@/lib/shared/planner/types';
 import type { DesignSpec, PriorValues } from '@/lib/shared/validations/planner';
@@ -12,8 +13,21 @@ import type { DesignSpec, PriorValues } from '@/lib/shared/validations/planner';
  */
 export function useLiveSummary(spec: DesignSpec | null, prior: PriorValues | null): { summary: DesignSummary | null; error: string | null } {
   const priorKey = prior ? JSON.stringify(prior) : '';
+  // the number of quadrature nodes follows γ (expectationNodes), so the nodes are kept per prior and γ
+  const gamma = spec?.choiceSensitivity ?? DEFAULT_CHOICE_SENSITIVITY;
   // eslint-disable-next-line react-hooks/exhaustive-deps -- keyed on the prior's values
-  const points = useMemo(() => (prior ? { draws: priorDraws(prior), nodes: priorNodes(prior) } : null), [priorKey]);
+  const draws = useMemo(() => (prior ? priorDraws(prior) : null), [priorKey]);
+  // (a γ or prior the core refuses leaves the nodes to computeDesignSummary, which reports the error below)
+  const nodes = useMemo(() => {
+    if (!prior) return null;
+    try {
+      return expectationNodes(prior, gamma);
+    } catch {
+      return null;
+    }
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- keyed on the prior's values and γ
+  }, [priorKey, gamma]);
+  const points = useMemo(() => (draws ? { draws, ...(nodes ? { nodes } : {}) } : null), [draws, nodes]);
   const specKey = spec ? JSON.stringify(spec) : '';
   return useMemo(() => {
     if (!spec || !prior || !points) return { summary: null, error: null };

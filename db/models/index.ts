@@ -10,6 +10,7 @@ import { PowerRun } from './power';
 import { ParticipantSession, Stage2Answer } from './session';
 // account security: address confirmation and signed-out sessions
 import { EmailConfirmationToken, EndedSession } from './account';
+import { Analysis } from './analysis';
 
 export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
 export { ApiKey, Participant };
@@ -17,6 +18,7 @@ export { Invitation, PasswordResetToken, NoticeSetting };
 export { PowerRun };
 export { ParticipantSession, Stage2Answer };
 export { EmailConfirmationToken, EndedSession };
+export { Analysis };
 
 /**
  * Registers every model and association on one Sequelize instance. A new model is added here
@@ -41,6 +43,7 @@ export function registerModels(sequelize: Sequelize): void {
   EndedSession.register(sequelize);
   ParticipantSession.register(sequelize);
   Stage2Answer.register(sequelize);
+  Analysis.register(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });

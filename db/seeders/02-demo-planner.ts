@@ -1,6 +1,7 @@
 import type { Sequelize } from 'sequelize';
 import { contentHash } from '../../lib/shared/canonical-json';
 import { designSpecSchema, frozenDesignSchema, priorSetSchema, type DesignSpec } from '../../lib/shared/validations/planner';
+import { decodeJson } from '../json';
 import { AuditEvent, Design, DesignVersion, Membership, PriorSet, Study, User } from '../models';
 import { demoAccounts } from './demo-accounts.mjs';
 import { DEMO_STUDY_NAME } from './01-demo-team';
@@ -59,8 +60,8 @@ export async function seed(sequelize: Sequelize): Promise<void> {
     }
     const first = designs[0];
     if (await DesignVersion.count({ where: { designId: first.id }, transaction })) return;
-    const spec = typeof first.spec === 'string' ? designSpecSchema.parse(JSON.parse(first.spec)) : designSpecSchema.parse(first.spec);
-    const priorValues = typeof prior.values === 'string' ? JSON.parse(prior.values) : prior.values;
+    const spec = designSpecSchema.parse(decodeJson(first.spec));
+    const priorValues = decodeJson(prior.values);
     const content = frozenDesignSchema.parse({ spec, prior: { ...priorValues, name: prior.name } });
     const hash = contentHash(content);
     const version = await DesignVersion.create({ designId: first.id, studyId, number: 1, hash, content, frozenBy: editor.id }, { transaction });

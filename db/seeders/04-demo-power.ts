@@ -6,12 +6,10 @@ import type { FrozenDesign } from '../../lib/shared/validations/planner';
 import { AuditEvent, DesignVersion, Membership, PowerRun, Study, User } from '../models';
 import { demoAccounts } from './demo-accounts.mjs';
 import { DEMO_STUDY_NAME } from './01-demo-team';
+import { decodeJson } from '../json';
 
 export const DEMO_POWER_LABEL = 'Truth as the design assumes (demo)';
 
-function json<T>(value: T | string): T {
-  return typeof value === 'string' ? (JSON.parse(value) as T) : value;
-}
 
 /**
  * A small finished power run of the demo study's first frozen version, simulated here in
@@ -26,7 +24,7 @@ export async function seed(sequelize: Sequelize): Promise<void> {
   const version = await DesignVersion.findOne({ where: { studyId: membership.studyId }, order: [['id', 'ASC']] });
   if (!version) return;
   if (await PowerRun.findOne({ where: { studyId: version.studyId, designVersionId: version.id, label: DEMO_POWER_LABEL } })) return;
-  const content = json<FrozenDesign>(version.content);
+  const content = decodeJson<FrozenDesign>(version.content);
   const { name: _name, ...prior } = content.prior;
   const spec = powerRunSpecSchema.parse({
     designVersionId: version.id,

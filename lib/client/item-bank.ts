@@ -4,11 +4,12 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { BankItem, RoundingReport } from '@/lib/design';
 import type { ApiKeyCreateInput } from '@/lib/shared/validations/api-keys';
 import type { ExportOptions } from '@/lib/shared/validations/item-bank';
+import { BROWSER_KEY_PLACEHOLDER } from '@/lib/shared/starter-runtime';
 import { ApiClientError, apiFetch } from './api';
 
 export type FrozenVersionDto = { id: number; number: number; hash: string; designName: string; mode: 'personalised' | 'population'; currency: string; frozenAt: string };
 export type ItemBankPreviewDto = {
-  header: { study: { id: number; name: string }; designVersion: { id: number; number: number; hash: string; name: string }; mode: string; seed: number; currency: string; delayUnit: string; amountUnit: number; minGap: number; probeGap: number };
+  header: { study: { id: number; name: string }; designVersion: { id: number; number: number; hash: string; name: string }; mode: string; seed: number; currency: string; delayUnit: string; amountUnit: number; minGap: number; probeGap: number; itemBankId: string };
   designPoint: { kSmall: number; kLarge: number; soonDelay: number; lateDelay: number };
   probeRule: string | null;
   items: BankItem[];
@@ -16,7 +17,20 @@ export type ItemBankPreviewDto = {
   extrapolation: { message: string } | null;
   notes: string[];
 };
-export type ApiKeyDto = { id: number; name: string; prefix: string; designVersionId: number; createdBy: string | null; createdAt: string; lastUsedAt: string | null; revokedAt: string | null };
+export type ApiKeyDto = {
+  id: number;
+  name: string;
+  prefix: string;
+  kind: 'server' | 'browser';
+  allowedOrigins: string[];
+  designVersionId: number;
+  presentation: { seed: number; delayUnit: 'days' | 'weeks' | 'months'; minGap: number } | null;
+  itemBankId: string | null;
+  createdBy: string | null;
+  createdAt: string;
+  lastUsedAt: string | null;
+  revokedAt: string | null;
+};
 type RateDto = { rate: number; standardErrorLog: number | null; interval: { lower: number; upper: number } | null; flags: string[] };
 export type ParticipantDto = {
   id: number;
@@ -41,6 +55,7 @@ export const itemBankKeys = {
   preview: (studyId: number, versionId: number, options: Partial<ExportOptions>) => ['study', studyId, 'item-bank', versionId, options] as const,
   apiKeys: (studyId: number) => ['study', studyId, 'api-keys'] as const,
   participants: (studyId: number) => ['study', studyId, 'participants'] as const,
+  sessions: (studyId: number) => ['study', studyId, 'sessions'] as const,
 };
 
 /** Query string of export options (only the ones set). */
@@ -112,5 +127,56 @@ export function useServeBatch(studyId: number) {
   return useMutation({
     mutationFn: (input: { designVersionId: number; csv: string }) => apiFetch<{ results: BatchResultDto[] }>(`/api/studies/${studyId}/participants/batch`, { method: 'POST', json: input }).then((r) => r.results),
     onSuccess: () => client.invalidateQueries({ queryKey: itemBankKeys.participants(studyId) }),
+  });
+}
+
+/**
+ * Downloads a version's starter experiment; with a browser key's secret (shown once, right after it
+ * was created) the key is written into the file here in the browser, so the server never sees it again.
+ */
+export async function downloadStarter(studyId: number, versionId: number, secret?: string): Promise<void> {
+  const response = await fetch(`/api/studies/${studyId}/item-bank/${versionId}/starter`);
+  if (!response.ok) throw new ApiClientError(response.status, `The starter could not be downloaded (${response.status}).`);
+  const name = /filename="([^"]+)"/.exec(response.headers.get('content-disposition') ?? '')?.[1] ?? 'switchback-starter.html';
+  let html = await response.text();
+  if (secret) html = html.replace(BROWSER_KEY_PLACEHOLDER, secret);
+  const url = URL.createObjectURL(new Blob([html], { type: 'text/html' }));
+  const link = document.createElement('a');
+  link.href = url;
+  link.download = name;
+  document.body.appendChild(link);
+  link.click();
+  link.remove();
+  URL.revokeObjectURL(url);
+}
+
+export type SessionStatusDto = 'started' | 'calibrated' | 'served' | 'completed' | 'abandoned';
+export type SessionDto = {
+  participantId: string;
+  designVersionId: number;
+  status: SessionStatusDto;
+  source: string;
+  startedAt: string;
+  servedAt: string | null;
+  completedAt: string | null;
+  lastActivityAt: string;
+  answered: number;
+  itemCount: number;
+};
+export type SessionsDto = { idleMinutes: number; counts: Record<SessionStatusDto, number>; sessions: SessionDto[] };
+
+export function useSessions(studyId: number, status: SessionStatusDto | null) {
+  return useQuery({
+    queryKey: [...itemBankKeys.sessions(studyId), status ?? 'all'],
+    queryFn: () => apiFetch<SessionsDto>(`/api/studies/${studyId}/sessions${status ? `?status=${status}` : ''}`),
+    refetchInterval: 15_000,
+  });
+}
+
+export function useSetIdleMinutes(studyId: number) {
+  const client = useQueryClient();
+  return useMutation({
+    mutationFn: (idleMinutes: number) => apiFetch<{ idleMinutes: number }>(`/api/studies/${studyId}/sessions`, { method: 'PATCH', json: { idleMinutes } }),
+    onSuccess: () => client.invalidateQueries({ queryKey: itemBankKeys.sessions(studyId) }),
   });
 }

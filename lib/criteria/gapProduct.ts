@@ -1,7 +1,7 @@
 import { preferenceGaps, type QuestionPair } from '@/lib/design';
 
 /**
- * The gap product C = A·B of a question pair (DESIGN.md): far-view gap for LL times near-view
+ * The gap product C = A·B of a question pair (docs/mathematics.md): far-view gap for LL times near-view
  * gap for SS, in squared units of the large amount. Outside the reversal zone the product is
  * not a measure of anything (two negative gaps would multiply to a positive number), so it is
  * reported as 0 there.

@@ -5,3 +5,4 @@ export { maximinGap } from './maximinGap';
 export { priorScenarios } from './priorScenarios';
 export { optimisePopulationDesign, type PopulationCriterion, type PopulationDesign, type PopulationDesignOptions } from './optimisePopulationDesign';
 export type { PairSetting } from './pairSetting';
+export { expectedRateNodes, EXPECTED_RATE_TARGET } from './expectedRateNodes';

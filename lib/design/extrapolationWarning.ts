@@ -11,7 +11,7 @@ export type ExtrapolationWarning = {
 /**
  * Flags probe delays that reach beyond `factor` times the longest calibration delay. Rates
  * estimated on short delays place the reversal zone wrongly at long delays when the true
- * delay sensitivity differs from the assumed one (DESIGN.md, "Power").
+ * delay sensitivity differs from the assumed one (docs/mathematics.md, "Power").
  *
  * @param options.calibrationDelays later delays of the calibration items, days
  * @param options.probeDelays late delays of the probe pairs, days

@@ -9,7 +9,7 @@ const LOG_MAX = Math.log(Number.MAX_VALUE);
 
 /**
  * Zone and optimal late delay for the hyperboloid, power-delay and exponential-power models
- * (inputs already validated, d > 0); null when the zone is empty.
+ * (inputs already validated, d > 0): written into `out`, returning true, or false when the zone is empty.
  *
  * The bounds are the closed forms of zoneBounds.ts, written out here so that d^s and ln x serve
  * twice; they are reversalZone's expressions, except that the power models' lower bound is
@@ -17,7 +17,7 @@ const LOG_MAX = Math.log(Number.MAX_VALUE);
  * d + (a/K)^p in the last bits. The optimum is the root of ψ(t) = d ln C/dt in t = ln(D − d):
  * see slopeRoot.
  */
-export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: number, k: number, K: number): LateDelayOptimum | null {
+export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: number, k: number, K: number, out: LateDelayOptimum): boolean {
   let lower: number;
   let upper: number;
   let lowGap: number; // D_lower − d
@@ -28,11 +28,11 @@ export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: 
     // a = r^(1/s) − 1 (expm1 keeps it accurate for x near 1), b = a + (a + 1)·k·d, p = 1
     const a = Math.expm1(-Math.log(x) / s);
     const span = (a + 1) * k * d;
-    if (!(span > K * d)) return null;
+    if (!(span > K * d)) return false;
     lowGap = a / K;
     lower = d + lowGap;
     upper = (a + span) / K;
-    if (!(upper > lower)) return null;
+    if (!(upper > lower)) return false;
     tLow = Math.log(lowGap);
     // x·f_k(d) enters the hyperboloid gaps only as a factor (see evaluate), so ln and exp do
     farSoon = x * Math.exp(-s * Math.log1p(k * d));
@@ -49,13 +49,13 @@ export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: 
     const power = id === 'power-delay';
     const a = power ? (1 - x) / x : -Math.log(x);
     const b = power ? (1 - x + k * ds) / x : k * ds + a;
-    if (s === 1 && !(b - a > K * d)) return null;
+    if (s === 1 && !(b - a > K * d)) return false;
     const p = 1 / s;
     tLow = p * Math.log(a / K);
     lowGap = Math.exp(tLow);
     lower = d + lowGap;
     upper = Math.pow(b / K, p);
-    if (!(upper > lower)) return null;
+    if (!(upper > lower)) return false;
     farSoon = x * (power ? 1 / (1 + k * ds) : Math.exp(-k * ds));
     // f_K(delay) = m where u = K·delay^s is (1 − m)/m (power-delay) or −ln m; the derivatives of f
     // there follow from u′ = s·u/delay, u″ = (s − 1)u′/delay, u‴ = (s − 2)u″/delay as in evaluate
@@ -95,7 +95,11 @@ export function numericalOptimum(id: NumericalModelId, s: number, x: number, d: 
     // take K·(D − d)^s as K·e^(st), which must belong to the same e = e^t
     slopeRoot(start, id === 'hyperboloid' ? startDelay : Math.exp(start));
   }
-  return { lower, upper, lateDelay: state.lateDelay, gapProduct: state.far * state.near };
+  out.lower = lower;
+  out.upper = upper;
+  out.lateDelay = state.lateDelay;
+  out.gapProduct = state.far * state.near;
+  return true;
 }
 
 /**

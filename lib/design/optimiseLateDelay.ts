@@ -1,6 +1,6 @@
-import { numericalOptimum } from './numericalOptimum';
+import { numericalOptimum, type NumericalModelId } from './numericalOptimum';
 import { checkPairInput } from './validate';
-import type { LateDelayOptimum, PairInput } from './types';
+import type { LateDelayOptimum, ModelId, PairInput } from './types';
 
 export type { LateDelayOptimum } from './types';
 
@@ -41,11 +41,27 @@ export type { LateDelayOptimum } from './types';
  *
  * Bounds are the closed forms of reversalZone.
  *
+ * Where the gaps themselves underflow a double (f_K(D) below 1e-308, e.g. exponential-power with
+ * K·D^s beyond 745) the gap product is 0 across the zone and the numerical models return a point of
+ * the zone rather than the optimum of a criterion no double can hold; the closed forms still give D*.
+ *
  * @returns null when the zone is empty
  * @throws DesignInputError for any field out of range
  * @example optimiseLateDelay({ model: { id: 'hyperbolic' }, ratio: 0.5, soonDelay: 10, kSmall: 0.1, kLarge: 0.05 })?.lateDelay // (80/3)·(0.5 + √(35/32)) ≈ 41.222
  */
 export function optimiseLateDelay(input: PairInput): LateDelayOptimum | null {
+  if (!solveOne(input)) return null;
+  return { lower: one.lower[0], upper: one.upper[0], lateDelay: one.lateDelay[0], gapProduct: one.gapProduct[0] };
+}
+
+/** Zone bounds, optimal late delays and gap products, element by element (the batch solver's outputs). */
+export type OptimumArrays = { lower: Float64Array; upper: Float64Array; lateDelay: Float64Array; gapProduct: Float64Array };
+
+/** Scratch of the single solve: it runs the batch kernels on element 0 of these. */
+const one: OptimumArrays = { lower: new Float64Array(1), upper: new Float64Array(1), lateDelay: new Float64Array(1), gapProduct: new Float64Array(1) };
+
+/** Validates one input and solves it into `one`; false when the zone is empty. */
+function solveOne(input: PairInput): boolean {
   const model = input.model;
   const x = input.ratio;
   const d = input.soonDelay;
@@ -59,13 +75,87 @@ export function optimiseLateDelay(input: PairInput): LateDelayOptimum | null {
   const beta = model.presentBias;
   if ((s !== undefined && !(s > 0 && s < Infinity)) || (beta !== undefined && !(beta > 0 && beta <= 1))) return invalid(input);
   const id = model.id;
-  if (id === 'hyperbolic') return d === 0 ? null : hyperbolicOptimum(x, d, k, K);
-  if (id === 'exponential') return d === 0 ? null : exponentialOptimum(x, d, k, K);
-  if (id === 'quasi-hyperbolic') return d === 0 ? null : presentBiasOptimum(x, d, k, K, beta ?? 1);
-  if (id === 'hyperboloid' || id === 'power-delay' || id === 'exponential-power') {
-    return d === 0 ? null : numericalOptimum(id, s ?? 1, x, d, k, K);
+  if (d === 0) {
+    if (id === 'hyperbolic' || id === 'exponential' || id === 'quasi-hyperbolic' || id === 'hyperboloid' || id === 'power-delay' || id === 'exponential-power') return false;
+    return invalid(input);
   }
+  if (id === 'hyperbolic') return hyperbolicOptimum(x, d, k, K, one, 0);
+  if (id === 'exponential') return exponentialOptimum(x, d, k, K, one, 0);
+  if (id === 'quasi-hyperbolic') return presentBiasOptimum(x, d, k, K, beta ?? 1, one, 0);
+  if (id === 'hyperboloid' || id === 'power-delay' || id === 'exponential-power') return numericalInto(id, s ?? 1, x, d, k, K, one, 0);
   return invalid(input);
+}
+
+/**
+ * Unchecked solves of elements 0…n − 1 (inputs and model already validated) into `o`, NaN in all
+ * four outputs for an empty zone or d = 0. One loop per model around the same kernels the single
+ * solve runs, so both entry points agree to the last bit and each loop stays monomorphic.
+ */
+export function solveRange(
+  id: ModelId,
+  s: number,
+  beta: number,
+  x: Float64Array,
+  d: Float64Array,
+  k: Float64Array,
+  K: Float64Array,
+  o: OptimumArrays,
+  n: number,
+  fail: (i: number) => never,
+): void {
+  // each element is checked as it is read (the single solve's comparisons; NaN fails each), so the
+  // inputs are read once: a bad element stops the loop with the outputs before it already written
+  switch (id) {
+    case 'hyperbolic':
+      for (let i = 0; i < n; i++) {
+        const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
+        if (!(xi > 0 && xi < 1 && di >= 0 && di < Infinity && ki > 0 && ki < Infinity && Ki > 0 && Ki < Infinity)) fail(i);
+        if (!(di !== 0 && hyperbolicOptimum(xi, di, ki, Ki, o, i))) empty(o, i);
+      }
+      return;
+    case 'exponential':
+      for (let i = 0; i < n; i++) {
+        const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
+        if (!(xi > 0 && xi < 1 && di >= 0 && di < Infinity && ki > 0 && ki < Infinity && Ki > 0 && Ki < Infinity)) fail(i);
+        if (!(di !== 0 && exponentialOptimum(xi, di, ki, Ki, o, i))) empty(o, i);
+      }
+      return;
+    case 'quasi-hyperbolic':
+      for (let i = 0; i < n; i++) {
+        const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
+        if (!(xi > 0 && xi < 1 && di >= 0 && di < Infinity && ki > 0 && ki < Infinity && Ki > 0 && Ki < Infinity)) fail(i);
+        if (!(di !== 0 && presentBiasOptimum(xi, di, ki, Ki, beta, o, i))) empty(o, i);
+      }
+      return;
+    default:
+      for (let i = 0; i < n; i++) {
+        const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
+        if (!(xi > 0 && xi < 1 && di >= 0 && di < Infinity && ki > 0 && ki < Infinity && Ki > 0 && Ki < Infinity)) fail(i);
+        if (!(di !== 0 && numericalInto(id, s, xi, di, ki, Ki, o, i))) empty(o, i);
+      }
+  }
+}
+
+function empty(o: OptimumArrays, i: number): void {
+  o.lower[i] = NaN;
+  o.upper[i] = NaN;
+  o.lateDelay[i] = NaN;
+  o.gapProduct[i] = NaN;
+}
+
+function store(o: OptimumArrays, i: number, lower: number, upper: number, lateDelay: number, gapProduct: number): true {
+  o.lower[i] = lower;
+  o.upper[i] = upper;
+  o.lateDelay[i] = lateDelay;
+  o.gapProduct[i] = gapProduct;
+  return true;
+}
+
+const numerical: LateDelayOptimum = { lower: 0, upper: 0, lateDelay: 0, gapProduct: 0 };
+
+function numericalInto(id: ModelId, s: number, x: number, d: number, k: number, K: number, o: OptimumArrays, i: number): boolean {
+  if (!numericalOptimum(id as NumericalModelId, s, x, d, k, K, numerical)) return false;
+  return store(o, i, numerical.lower, numerical.upper, numerical.lateDelay, numerical.gapProduct);
 }
 
 function invalid(input: PairInput): never {
@@ -73,9 +163,9 @@ function invalid(input: PairInput): never {
   throw new Error('optimiseLateDelay: input rejected'); // unreachable: checkPairInput throws first
 }
 
-function hyperbolicOptimum(x: number, d: number, k: number, K: number): LateDelayOptimum | null {
+function hyperbolicOptimum(x: number, d: number, k: number, K: number, o: OptimumArrays, i: number): boolean {
   // non-empty iff k > xK; tested as k·d/x > K·d, the same expression reversalZone uses
-  if (!((k * d) / x > K * d)) return null;
+  if (!((k * d) / x > K * d)) return false;
   const xK = x * K;
   const lower = d + (1 - x) / xK;
   const upper = (1 - x + k * d) / xK;
@@ -84,7 +174,7 @@ function hyperbolicOptimum(x: number, d: number, k: number, K: number): LateDela
   const xc1 = 1 + x * c;
   const p = (xc1 + Math.sqrt(xc1 * (1 - a * c))) / (x + a);
   const gapProduct = (1 / p - a) * (x - 1 / (p - c));
-  return { lower, upper, lateDelay: (p - 1) / K, gapProduct };
+  return store(o, i, lower, upper, (p - 1) / K, gapProduct);
 }
 
 /**
@@ -93,25 +183,25 @@ function hyperbolicOptimum(x: number, d: number, k: number, K: number): LateDela
  * expm1, log1p or exp is a library call costing more than the validation and arithmetic of a
  * whole hyperbolic solve.
  */
-function exponentialOptimum(x: number, d: number, k: number, K: number): LateDelayOptimum | null {
+function exponentialOptimum(x: number, d: number, k: number, K: number, o: OptimumArrays, i: number): boolean {
   const kd = k * d;
-  if (!(kd > K * d)) return null;
+  if (!(kd > K * d)) return false;
   const lnR = -Math.log(x);
   const lower = d + lnR / K;
   const upper = (kd + lnR) / K;
   // m = e^y − 1 with y = (K − k)d < 0: no cancellation near the emptiness boundary
   const m = Math.expm1((K - k) * d);
   const lateDelay = lower - Math.log1p(0.5 * m) / K;
-  return { lower, upper, lateDelay, gapProduct: 0.25 * x * x * Math.exp(-K * d) * m * m };
+  return store(o, i, lower, upper, lateDelay, 0.25 * x * x * Math.exp(-K * d) * m * m);
 }
 
-function presentBiasOptimum(x: number, d: number, k: number, K: number, beta: number): LateDelayOptimum | null {
+function presentBiasOptimum(x: number, d: number, k: number, K: number, beta: number, o: OptimumArrays, i: number): boolean {
   const lnR = -Math.log(x);
   const lnBeta = Math.log(beta);
   const a = Math.max(0, lnBeta + lnR);
   // zone width is (k·d + ln r − a − K·d)/K; its sign is tested on the rates (as in reversalZone), not on rounded bounds
   const span = a > 0 ? k * d - lnBeta : k * d + lnR;
-  if (!(span > K * d)) return null;
+  if (!(span > K * d)) return false;
   const lower = d + a / K;
   const upper = (k * d + lnR) / K;
   // y = ln β + (K − k)d; the vertex is D* = d + [ln 2 + ln β + ln r − ln(1 + e^y)]/K
@@ -121,7 +211,7 @@ function presentBiasOptimum(x: number, d: number, k: number, K: number, beta: nu
     // cancellation, and at the vertex A = x·e^(−Kd)·(1 − e^y)/2 and B = x·(1 − e^y)/2.
     const m = Math.expm1(y);
     const lateDelay = lower - Math.log1p(0.5 * m) / K;
-    return { lower, upper, lateDelay, gapProduct: 0.25 * x * x * Math.exp(-K * d) * m * m };
+    return store(o, i, lower, upper, lateDelay, 0.25 * x * x * Math.exp(-K * d) * m * m);
   }
   const log1pEy = y > 0 ? y + Math.log1p(Math.exp(-y)) : Math.log1p(Math.exp(y));
   let lateDelay = d + (Math.LN2 + lnBeta + lnR - log1pEy) / K;
@@ -133,5 +223,5 @@ function presentBiasOptimum(x: number, d: number, k: number, K: number, beta: nu
     nearFactor = beta;
   }
   const far = beta * (Math.exp(-K * lateDelay) - x * Math.exp(-k * d));
-  return { lower, upper, lateDelay, gapProduct: far * (x - nearFactor) };
+  return store(o, i, lower, upper, lateDelay, far * (x - nearFactor));
 }

@@ -11,7 +11,7 @@ export type PreferenceGaps = {
 };
 
 /**
- * Far-view and near-view preference gaps of a question pair (DESIGN.md, "The mathematics"):
+ * Far-view and near-view preference gaps of a question pair (docs/mathematics.md, "Preference gaps and the reversal zone"):
  * A(D) = f_K(D) − x·f_k(d) and B(D) = x − f_K(D − d), with L normalised to 1 and S = x.
  *
  * @param input model, ratio x = S/L, soon delay d and late delay D (days, D > d; D may be

@@ -1,4 +1,4 @@
-/** Published discount functions the core knows (see DESIGN.md, "The mathematics"). */
+/** Published discount functions the core knows (see docs/mathematics.md, "Discount models"). */
 export type ModelId =
   | 'exponential'
   | 'hyperbolic'

@@ -14,7 +14,7 @@ import type { ModelId } from './types';
  *   power-delay        a = (1 − x)/x,           b = (1 − x + k·d^s)/x,     p = 1/s
  *   exponential-power  a = ln r,                b = k·d^s + ln r,          p = 1/s
  *   quasi-hyperbolic   a = max(0, ln(β/x)),     b = k·d + ln r,            p = 1   (d > 0)
- * The hyperbolic and exponential rows are the forms quoted in DESIGN.md.
+ * All six rows are written out in docs/mathematics.md, "Closed forms".
  * `span` is b − a computed without cancellation; for p = 1 the zone is non-empty iff
  * span > K·d (e.g. k > K for the exponential model, k > xK for the hyperbolic one).
  */

@@ -1,17 +1,35 @@
 import { z } from 'zod';
 
-// Server-side settings, parsed once with zod so a missing or malformed one fails loudly with its
-// name instead of surfacing later as a confusing connection error.
-const serverEnvSchema = z.object({
+// Every server setting, read from the environment through zod in this one module, so a missing or
+// malformed one fails loudly with its name instead of surfacing later as a confusing error. Each
+// group is parsed when first asked for: a benchmark of the power engine needs no database settings,
+// and a script that only migrates needs no mail settings.
+
+const DEFAULT_FROM = 'Switchback <no-reply@switchback.local>';
+
+/** An optional text setting: unset and blank (after trimming) both mean "not set". */
+const optionalText = z.preprocess((v) => (typeof v === 'string' && v.trim() !== '' ? v.trim() : undefined), z.string().optional());
+
+/** A positive number with a default; unset, blank or unusable values fall back (documented defaults). */
+const positiveOr = (fallback: number) =>
+  z.preprocess((v) => {
+    const n = Number(v);
+    return v !== undefined && v !== '' && Number.isFinite(n) && n > 0 ? n : fallback;
+  }, z.number().positive());
+
+const databaseSchema = z.object({
   DB_HOST: z.string().min(1).default('127.0.0.1'),
   DB_PORT: z.coerce.number().int().min(1).max(65535).default(3307),
   DB_NAME: z.string().min(1),
   DB_USER: z.string().min(1),
   DB_PASSWORD: z.string().min(1),
+});
+
+const authSchema = z.object({
   NEXTAUTH_SECRET: z.string().min(16, 'NEXTAUTH_SECRET must be at least 16 characters'),
-  NEXTAUTH_URL: z.url().optional(),
-  SMTP_URL: z.string().optional(),
-  MAIL_FROM: z.string().default('Switchback <no-reply@switchback.local>'),
+});
+
+const proxySchema = z.object({
   // account security: the reverse proxies whose X-Forwarded-For is believed (addresses or CIDR
   // ranges, comma-separated). Empty: rate limits count the address of the connection itself.
   TRUSTED_PROXIES: z
@@ -21,18 +39,75 @@ const serverEnvSchema = z.object({
     .pipe(z.array(z.union([z.ipv4(), z.ipv6(), z.cidrv4(), z.cidrv6()], { error: 'list IP addresses or CIDR ranges, separated by commas' }))),
 });
 
-export type ServerEnv = z.infer<typeof serverEnvSchema>;
+const mailSchema = z.object({
+  SMTP_URL: optionalText,
+  MAIL_FROM: optionalText.transform((v) => v ?? DEFAULT_FROM),
+  MAILBOX_DIR: optionalText,
+  NEXTAUTH_URL: optionalText.transform((v) => (v ?? 'http://127.0.0.1:3000').replace(/\/+$/, '')),
+});
 
-let cached: ServerEnv | undefined;
+const probeApiSchema = z.object({
+  PROBE_API_BURST: positiveOr(200),
+  PROBE_API_PER_SECOND: positiveOr(100),
+  BROWSER_API_BURST: positiveOr(120),
+  BROWSER_API_PER_SECOND: positiveOr(30),
+});
 
-/** The parsed server environment; throws naming every missing or invalid variable. */
-export function serverEnv(): ServerEnv {
-  if (cached) return cached;
-  const parsed = serverEnvSchema.safeParse(process.env);
+const powerSchema = z.object({
+  POWER_WORKERS: z.preprocess((v) => {
+    const n = Number(v);
+    return v !== undefined && v !== '' && Number.isInteger(n) && n >= 1 ? Math.min(n, 16) : undefined;
+  }, z.number().int().min(1).max(16).optional()),
+});
+
+function parse<T extends z.ZodType>(schema: T): z.infer<T> {
+  const parsed = schema.safeParse(process.env);
   if (!parsed.success) {
     const problems = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
     throw new Error(`Switchback configuration is incomplete: ${problems}. Run "npm start", which writes .env.local.`);
   }
-  cached = parsed.data;
-  return cached;
+  return parsed.data;
+}
+
+let database: z.infer<typeof databaseSchema> | undefined;
+let auth: z.infer<typeof authSchema> | undefined;
+
+/** The database connection settings (DB_*), parsed once; throws naming every missing or invalid one. */
+export function databaseEnv() {
+  return (database ??= parse(databaseSchema));
+}
+
+/** The session-signing secret (NEXTAUTH_SECRET), parsed once. */
+export function authEnv() {
+  return (auth ??= parse(authSchema));
+}
+
+let proxies: z.infer<typeof proxySchema> | undefined;
+
+/** The reverse proxies whose X-Forwarded-For is believed (TRUSTED_PROXIES), parsed once. */
+export function proxyEnv() {
+  return (proxies ??= parse(proxySchema));
+}
+
+/**
+ * Mail and link settings, read on every call (not cached), so a test can point SMTP_URL at its own
+ * server and the running app follows a changed setting after a restart. `NEXTAUTH_URL` is the base
+ * of links in mail, without a trailing slash; `MAILBOX_DIR` is where the local test mail server keeps
+ * what it receives (set by scripts/services.mjs).
+ */
+export function mailEnv() {
+  return parse(mailSchema);
+}
+
+/**
+ * The participant API's rate limits per key: a burst, then a rate per second, for server keys
+ * (PROBE_API_*, defaults 200 and 100) and for browser keys (BROWSER_API_*, defaults 120 and 30).
+ */
+export function probeApiEnv() {
+  return parse(probeApiSchema);
+}
+
+/** POWER_WORKERS: the power simulation's worker threads, a whole number 1–16, or undefined (automatic). */
+export function powerEnv() {
+  return parse(powerSchema);
 }

@@ -1,5 +1,6 @@
 // The later demo seeders: a finished power run with the audit event the app would write, and
 // three batch-served participants; running them again adds nothing.
+import { Op } from 'sequelize';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { db } from '@/db';
 import { AuditEvent, Participant, PowerRun, Study, User } from '@/db/models';
@@ -19,7 +20,8 @@ describe('the demo item-bank and power seeders', () => {
     await seedPower(db());
     const study = (await Study.findAll({ where: { name: DEMO_STUDY_NAME } }))[0];
     const counts = async () => ({
-      participants: await Participant.count({ where: { studyId: study.id } }),
+      // the item-bank seeder's own participants (the results seeder adds HL-R…)
+      participants: await Participant.count({ where: { studyId: study.id, participantId: { [Op.like]: 'HL-0%' } } }),
       runs: await PowerRun.count({ where: { studyId: study.id, label: DEMO_POWER_LABEL } }),
       starts: await AuditEvent.count({ where: { studyId: study.id, action: 'power-run.start' } }),
     });

@@ -3,7 +3,7 @@
 import { Design, DesignVersion } from '@/db/models';
 import { contentHash } from '@/lib/shared/canonical-json';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
-import { design as unitDesign } from '../unit/item-bank/fixtures';
+import { frozenDesign as unitDesign } from '../support/frozen-design';
 
 export function demoContent(overrides: Partial<FrozenDesign['spec']> = {}): FrozenDesign {
   return unitDesign({ name: 'Savings bonus, personalised', ...overrides }, { name: 'Pilot prior' });

@@ -13,30 +13,14 @@ import { runScenario } from '@/lib/server/jobs/power/run-scenario';
 import { buildScenario } from '@/lib/shared/power-scenario';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpecInput } from '@/lib/shared/validations/power';
+import { POWER_PRIOR, powerDesign } from '../support/frozen-design';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs, type TestUser } from '../support/integration';
 
 beforeAll(migrateUp);
 
-const prior = { medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 1, sdLogLarge: 1, correlation: 0.8 };
-const content: FrozenDesign = {
-  spec: {
-    name: 'Harbourlight bonus timing',
-    priorSetId: 1,
-    model: { id: 'hyperbolic' },
-    ratio: 0.82,
-    largeAmount: 100,
-    currency: 'EUR',
-    mode: 'personalised',
-    soonDelay: { mode: 'fixed', days: 30 },
-    lateDelayLimit: 3650,
-    probePairs: 4,
-    lateAnchors: 2,
-    soonAnchors: 2,
-    criterion: 'gap-product',
-    calibration: { itemsPerMagnitude: 10, minDelay: 1, maxDelay: 365 },
-  },
-  prior: { ...prior, name: 'Pilot prior' },
-};
+const prior = POWER_PRIOR;
+// lateDelayLimit 3650 and a 10-item calibration keep a run of this file short
+const content: FrozenDesign = powerDesign({ lateDelayLimit: 3650, calibration: { itemsPerMagnitude: 10, minDelay: 1, maxDelay: 365 } });
 
 async function frozenVersion(studyId: number, userId: number) {
   const priorSet = await PriorSet.create({ studyId, name: 'Pilot prior', values: prior, source: 'manual', notes: '', createdBy: userId });

@@ -1,27 +1,26 @@
 // The local fake SMTP server itself, over real SMTP on loopback: what nodemailer sends arrives as
 // an .eml file the mailbox page can read; half-written files never show; oversized mail is refused.
-import { mkdtemp, readdir, rm, writeFile } from 'node:fs/promises';
-import os from 'node:os';
+import { readdir, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import nodemailer from 'nodemailer';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { listMailbox, mailboxDir } from '@/lib/server/mail/mailbox';
 import { sendMail, MailNotConfiguredError } from '@/lib/server/mail/transport';
-import { startFakeSmtp, type FakeSmtp } from '@/scripts/fake-smtp.mjs';
+import { startTestMailbox, type TestMailbox } from '../support/mail';
 
-let smtp: FakeSmtp;
+// The one test mailbox (tests/support/mail.ts): the fake server on a free port, its own folder,
+// SMTP_URL and MAILBOX_DIR pointed at it and restored afterwards.
+let mailbox: TestMailbox;
+let smtp: { url: string };
 let dir: string;
-const saved = { SMTP_URL: process.env.SMTP_URL, MAILBOX_DIR: process.env.MAILBOX_DIR };
 
 beforeAll(async () => {
-  dir = await mkdtemp(path.join(os.tmpdir(), 'switchback-fake-smtp-'));
-  smtp = await startFakeSmtp({ port: 0, mailboxDir: dir });
+  mailbox = await startTestMailbox();
+  smtp = { url: mailbox.url };
+  dir = mailbox.dir;
 });
 afterAll(async () => {
-  await smtp.stop();
-  await rm(dir, { recursive: true, force: true });
-  Object.assign(process.env, saved);
-  for (const [key, value] of Object.entries(saved)) if (value === undefined) delete process.env[key];
+  await mailbox.stop();
 });
 
 describe('the fake SMTP server', () => {

@@ -6,7 +6,7 @@ import type { ModelId } from '../types';
  * One binary choice as the refit sees it: the sooner amount after soonerDelay days, valued with
  * the rate of `soonerMagnitude`, against the later amount after laterDelay days, valued with the
  * rate of `laterMagnitude`. Calibration items use one magnitude for both options; the pairs of
- * the probe block value the smaller reward with k and the larger with K (DESIGN.md).
+ * the probe block value the smaller reward with k and the larger with K (docs/mathematics.md).
  */
 export type FitChoice = {
   soonerAmount: number;

@@ -43,7 +43,7 @@ export type ZoneDiagnosis = {
  * both views), inside, or after it (D ≥ D_upper: SS expected in both views). Probes mostly
  * after the zone mean participants were more impatient at these delays than their calibration
  * suggested; mostly before, more patient. Probes reaching beyond 3 times the longest
- * calibration delay are counted as extrapolated (DESIGN.md, "Power").
+ * calibration delay are counted as extrapolated (docs/mathematics.md, "Power").
  *
  * @throws DesignInputError when refits do not line up with participants, or lack `model`
  */

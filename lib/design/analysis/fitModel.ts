@@ -47,8 +47,10 @@ export type FitOptions = {
   choice: ChoiceModel;
   /** confidence of the Wald intervals, strictly between 0 and 1; default 0.95 */
   confidence?: number;
-  /** a starting point (e.g. the fit to a subset of the same choices) instead of the grid */
+  /** a further starting point (e.g. the fit to a subset of the same choices) */
   start?: ModelParameters;
+  /** how many of the best grid starts Newton's method climbs from, 1 to 7; default 2 */
+  gridStarts?: number;
 };
 
 /**
@@ -103,8 +105,10 @@ export function fitModel(choices: readonly FitChoice[] | PackedChoices, options:
   const bounds = boundsFor(shapeName, freeShape, fixedShape);
   const free = [true, true, freeShape];
 
-  // Newton's method from the two best grid starts (and the given start), keeping the best ascent
-  const starts = startingPoints(model.id, data, gamma, lapse, shapeName, freeShape, fixedShape);
+  // Newton's method from the best grid starts (and the given start), keeping the best ascent
+  const gridStarts = options.gridStarts ?? 2;
+  if (!(Number.isInteger(gridStarts) && gridStarts >= 1 && gridStarts <= 7)) throw new DesignInputError('gridStarts', 'a whole number from 1 to 7', gridStarts);
+  const starts = startingPoints(model.id, data, gamma, lapse, shapeName, freeShape, fixedShape).slice(0, gridStarts);
   if (options.start) starts.unshift(fromParameters(options.start, shapeName, freeShape, fixedShape, bounds));
   let outcome: Climb | null = null;
   for (const start of starts) {
@@ -335,7 +339,7 @@ function standardErrors(id: ModelId, data: PackedChoices, theta: Theta, gamma: n
  * between the two tie rates where switching from SS to LL agrees with most choices. This finds
  * the sharp peak of a low-noise likelihood, which a coarse rate grid can miss, and avoids the
  * flat regions (all factors ≈ 0 or ≈ 1) where Newton's method cannot move. The two shape
- * values whose starts have the highest full likelihood are kept.
+ * values are returned best first (fitModel climbs from `gridStarts` of them).
  */
 function startingPoints(
   id: ModelId,
@@ -353,7 +357,7 @@ function startingPoints(
     return { theta, value: choiceLogLikelihood(id, data, theta, gamma, lapse) };
   });
   scored.sort((a, b) => b.value - a.value);
-  return scored.slice(0, 2).map((s) => s.theta);
+  return scored.map((s) => s.theta);
 }
 
 /** Tie rate of "S today or L after D days" (closed forms as in indifferenceRate); null when no rate ties. */

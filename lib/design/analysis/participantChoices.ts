@@ -8,7 +8,7 @@ export type ParticipantChoices = { calibration: FitChoice[]; stage2: FitChoice[]
 /**
  * The answered choices of a participant as FitChoices: calibration items value both options with
  * their own magnitude's rate; in every pair view the sooner option is the small reward (rate k)
- * and the later option the large reward (rate K), as DESIGN.md defines the gaps. Unanswered
+ * and the later option the large reward (rate K), as docs/mathematics.md defines the gaps. Unanswered
  * items are left out.
  *
  * @throws DesignInputError naming `participants[…].…` for a choice that is not 'sooner', 'later' or null

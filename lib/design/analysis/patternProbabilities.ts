@@ -10,8 +10,8 @@ export type PatternCounts = { LL: number; LS: number; SL: number; SS: number };
 
 /**
  * The probabilities of the four patterns of one question pair for a chooser with the given
- * model and parameters: the two views are independent logistic choices (DESIGN.md, "Choice
- * noise"), P(LL at far view) = p_far and P(SS at near view) = q_near, so
+ * model and parameters: the two views are independent logistic choices (docs/mathematics.md, "Choice
+ * model"), P(LL at far view) = p_far and P(SS at near view) = q_near, so
  * P(LS) = p_far·q_near, P(LL) = p_far·(1 − q_near), P(SS) = (1 − p_far)·q_near,
  * P(SL) = (1 − p_far)·(1 − q_near).
  *

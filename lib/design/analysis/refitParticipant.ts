@@ -42,8 +42,8 @@ export type RefitOptions = {
  * them), once on calibration plus stage-2 choices and once on calibration choices alone, and
  * scores how well the calibration-only fit predicts the stage-2 choices (the logarithmic
  * scoring rule, Good 1952, J R Stat Soc B 14:107–114): the out-of-sample check of which model
- * predicted the reversals, not only which fits best. The full fit starts from the
- * calibration-only estimate.
+ * predicted the reversals, not only which fits best. The full fit climbs from the
+ * calibration-only estimate and from the best grid start.
  *
  * @throws DesignInputError for bad models, choice model or choices, or a participant without calibration choices
  */
@@ -55,11 +55,13 @@ export function refitParticipant(participant: ParticipantData, options: RefitOpt
   const base = { choice: options.choice, confidence: options.confidence };
   const models = (options.models ?? MODEL_IDS).map((id): ModelRefit => {
     const calibrationOnly = fitModel(calibrationData, { ...base, model: { id } });
-    const full = stage2.length === 0 ? calibrationOnly : fitModel(allData, { ...base, model: { id }, start: calibrationOnly.parameters });
+    const full = stage2.length === 0 ? calibrationOnly : fitModel(allData, { ...base, model: { id }, start: calibrationOnly.parameters, gridStarts: 1 });
     const predictiveLogScore = stage2.length === 0 ? 0 : choiceLogLikelihood(id, stage2Data, thetaOf(id, calibrationOnly.parameters), options.choice.sensitivity, options.choice.lapse ?? 0);
     return { model: id, full, calibrationOnly, predictiveLogScore, predictedChoices: stage2.length };
   });
-  const design = fitModel(calibrationData, { ...base, model: options.model, shape: 'fixed' });
+  // a design model without a shape parameter is the same fit as that model's calibration-only one
+  const same = options.model.id === 'exponential' || options.model.id === 'hyperbolic' ? models.find((m) => m.model === options.model.id) : undefined;
+  const design = same ? same.calibrationOnly : fitModel(calibrationData, { ...base, model: options.model, shape: 'fixed' });
   return { participantId: participant.participantId, models, design };
 }
 

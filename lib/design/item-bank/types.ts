@@ -2,7 +2,7 @@ import type { ModelSpec } from '../types';
 
 /** Which block an item belongs to: the first stage (calibration) or the second (probe). */
 export type ItemBlock = 'calibration' | 'probe';
-/** What an item is for. Pair roles follow DESIGN.md; an attention check has a dominated later option. */
+/** What an item is for. Pair roles follow docs/mathematics.md; an attention check has a dominated later option. */
 export type ItemRole = 'calibration' | 'reversal-probe' | 'late-anchor' | 'soon-anchor' | 'attention-check';
 /** Far view: both rewards in the future; near view: the same rewards seen from the soon delay (sooner = today). */
 export type ItemView = 'far' | 'near';

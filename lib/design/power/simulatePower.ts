@@ -21,7 +21,7 @@ export type PowerSimulator = {
 };
 
 /**
- * Prepares the power simulation of a two-stage design (DESIGN.md, "Power"). Replicate r uses
+ * Prepares the power simulation of a two-stage design (docs/mathematics.md, "Power"). Replicate r uses
  * its own generator seeded with replicateSeed(seed, r), so any split of the replicates over
  * worker threads gives the same tallies. Within a replicate the largest sample size is
  * simulated once and each smaller sample size is its first n participants: participants are

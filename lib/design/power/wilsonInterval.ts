@@ -18,7 +18,8 @@ export function wilsonInterval(successes: number, trials: number, confidence = 0
   }
   if (!(confidence > 0 && confidence < 1)) throw new DesignInputError('confidence', 'a number strictly between 0 and 1', confidence);
   if (trials === 0) return { lower: 0, upper: 1 };
-  const z = normalQuantile(1 - (1 - confidence) / 2);
+  // z from the lower tail: 1 − α/2 would be rounded to the spacing of doubles near 1 before the quantile sees it
+  const z = -normalQuantile((1 - confidence) / 2);
   const n = trials;
   const p = successes / n;
   const z2 = z * z;

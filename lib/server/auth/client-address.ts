@@ -1,5 +1,5 @@
 import { BlockList, isIPv4, isIPv6 } from 'node:net';
-import { serverEnv } from '@/lib/server/env';
+import { proxyEnv } from '@/lib/server/env';
 
 /**
  * The header in which scripts/serve.mjs hands Next the address of the connection. It overwrites
@@ -72,7 +72,7 @@ export function clientAddress(
   const stamped = options.stamped ?? peerHeaderStamped();
   const peer = stamped ? header(headers, PEER_HEADER)?.trim() : undefined;
   if (!peer) return UNKNOWN_ADDRESS;
-  const trusted = addressMatcher(options.trustedProxies ?? serverEnv().TRUSTED_PROXIES);
+  const trusted = addressMatcher(options.trustedProxies ?? proxyEnv().TRUSTED_PROXIES);
   if (!trusted(peer)) return plain(peer);
   const hops = (header(headers, 'x-forwarded-for') ?? '').split(',').map((hop) => plain(hop)).filter(Boolean);
   for (let i = hops.length - 1; i >= 0; i--) if (!trusted(hops[i])) return hops[i];

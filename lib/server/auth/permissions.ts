@@ -58,10 +58,17 @@ export const apiPermissions: Record<string, Partial<Record<Method, Access>>> = {
   '/api/studies/[id]/api-keys/[keyId]': { DELETE: 'operator' },
   '/api/studies/[id]/participants': { GET: 'viewer' },
   '/api/studies/[id]/participants/batch': { POST: 'operator' },
+  // Results (issue 14): observed choices (operators upload them), saved analyses and their downloads.
+  '/api/studies/[id]/observed-choices': { GET: 'viewer', POST: 'operator' },
+  '/api/studies/[id]/analyses': { GET: 'viewer', POST: 'editor' },
+  '/api/studies/[id]/analyses/[analysisId]': { GET: 'viewer' },
+  '/api/studies/[id]/analyses/[analysisId]/export': { GET: 'viewer' },
   '/api/v1/studies/[id]/probe-items': { POST: 'api-key' },
   '/api/v1/openapi.json': { GET: 'public' },
   // Two-stage session API (issue 13): server and browser keys of the study; a browser key also
   // needs the participant's session token and a listed origin (CORS preflights, OPTIONS, are public).
   '/api/v1/studies/[id]/calibration': { GET: 'api-key' },
   '/api/v1/studies/[id]/stage2-answers': { POST: 'api-key' },
+  '/api/studies/[id]/item-bank/[versionId]/starter': { GET: 'operator' },
+  '/api/studies/[id]/sessions': { GET: 'viewer', PATCH: 'operator' },
 };

@@ -4,6 +4,8 @@ import type { NextRequest } from 'next/server';
 import { Membership, Study, User } from '@/db/models';
 import { db } from '@/db';
 import { NotFoundError, UnauthorizedError, ForbiddenError } from '@/lib/server/errors';
+import { authEnv } from '@/lib/server/env';
+import { parseEntityId } from '@/lib/server/route-ids';
 import { sessionEnded } from '@/lib/server/auth/ended-sessions';
 import { authOptions } from './options';
 import { roleAtLeast, type Role } from '@/lib/shared/roles';
@@ -27,7 +29,7 @@ async function currentAccount(id: number, epoch: unknown, sid: unknown): Promise
 
 /** The signed-in user of an API request (from the JWT cookie), or null. */
 export async function getRequestUser(request: NextRequest): Promise<SessionUser | null> {
-  const token = await getToken({ req: request, secret: process.env.NEXTAUTH_SECRET });
+  const token = await getToken({ req: request, secret: authEnv().NEXTAUTH_SECRET });
   if (!token) return null;
   return currentAccount(Number(token.sub), token.epoch, token.sid);
 }
@@ -41,9 +43,7 @@ export async function requireUser(request: NextRequest): Promise<SessionUser> {
 
 /** Parses a study id from a route parameter; anything malformed is simply "not found". */
 export function parseStudyId(raw: string | undefined): number {
-  const id = Number(raw);
-  if (!raw || !/^\d{1,10}$/.test(raw) || !Number.isSafeInteger(id) || id <= 0) throw new NotFoundError('Study not found.');
-  return id;
+  return parseEntityId(raw, 'Study');
 }
 
 /**

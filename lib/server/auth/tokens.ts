@@ -10,9 +10,3 @@ export function newToken(): { token: string; hash: string } {
   const token = randomBytes(32).toString('base64url');
   return { token, hash: hashToken(token) };
 }
-
-/** Parses a numeric route id; malformed ids are "not found" rather than an error. */
-export function parseId(raw: string | undefined): number | null {
-  const id = Number(raw);
-  return raw && /^\d{1,10}$/.test(raw) && Number.isSafeInteger(id) && id > 0 ? id : null;
-}

@@ -1,3 +1,5 @@
+import { probeApiEnv } from '@/lib/server/env';
+
 /**
  * Token buckets per API key, in this process's memory: each key may burst `capacity` requests
  * and then `perSecond` a second. One app process serves a lab; behind several processes each
@@ -33,10 +35,7 @@ export class KeyRateLimiter {
   }
 }
 
-const positive = (raw: string | undefined, fallback: number) => {
-  const n = Number(raw);
-  return Number.isFinite(n) && n > 0 ? n : fallback;
-};
+const limits = probeApiEnv();
 
 /** The probe-items API's limiter. */
-export const probeRateLimiter = new KeyRateLimiter(positive(process.env.PROBE_API_BURST, 200), positive(process.env.PROBE_API_PER_SECOND, 100));
+export const probeRateLimiter = new KeyRateLimiter(limits.PROBE_API_BURST, limits.PROBE_API_PER_SECOND);

@@ -10,7 +10,8 @@ import { calibrationQuerySchema, stage2AnswersRequestSchema } from '@/lib/shared
 import { withCors } from '@/lib/server/http/cors';
 import { recordStage2Answers } from '@/lib/server/services/stage2-answers';
 import { requireParticipantToken, startSession } from '@/lib/server/services/session-tokens';
-
+import { parseRouteId } from '@/lib/server/route-ids';
+import { probeApiEnv } from '@/lib/server/env';
 
 /** One request to a participant-session endpoint, without a framework (the Next routes and serve.mjs build it). */
 export type SessionCall = {
@@ -30,20 +31,15 @@ export type SessionCall = {
 
 export const CAUTION = 'Estimates describe hypothetical choices of this participant; they are not a clinical assessment.';
 
-const positive = (raw: string | undefined, fallback: number) => {
-  const n = Number(raw);
-  return Number.isFinite(n) && n > 0 ? n : fallback;
-};
-
 /**
  * Browser keys have a limiter of their own (BROWSER_API_BURST, default 120; BROWSER_API_PER_SECOND,
  * default 30): a key shipped in a public page should not be able to use a server key's budget.
  */
-export const browserRateLimiter = new KeyRateLimiter(positive(process.env.BROWSER_API_BURST, 120), positive(process.env.BROWSER_API_PER_SECOND, 30));
+export const browserRateLimiter = new KeyRateLimiter(probeApiEnv().BROWSER_API_BURST, probeApiEnv().BROWSER_API_PER_SECOND);
 
 /** The study id segment as a number, -1 when it is not one (the key check then answers 404). */
 export function studyIdOf(raw: string): number {
-  return /^\d{1,10}$/.test(raw) ? Number(raw) : -1;
+  return parseRouteId(raw) ?? -1;
 }
 
 /** A key's presentation settings (what its calibration block, scoring and item-bank id use). */

@@ -1,6 +1,7 @@
 import { readdir, readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { simpleParser, type AddressObject } from 'mailparser';
+import { mailEnv } from '@/lib/server/env';
 
 /** One message kept by the local test mail server, as the mailbox page shows it. */
 export type MailboxMessage = { id: string; receivedAt: string; from: string; to: string; subject: string; text: string; recipients: string[] };
@@ -17,8 +18,8 @@ const CACHE_LIMIT = 500;
  * mailbox page and its link are hidden). Set by scripts/services.mjs as MAILBOX_DIR.
  */
 export function mailboxDir(): string | null {
-  if (!process.env.SMTP_URL) return null;
-  return process.env.MAILBOX_DIR?.trim() || null;
+  const env = mailEnv();
+  return env.SMTP_URL ? (env.MAILBOX_DIR ?? null) : null;
 }
 
 function addresses(value: AddressObject | AddressObject[] | undefined): string {

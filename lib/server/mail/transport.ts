@@ -1,4 +1,5 @@
 import nodemailer, { type Transporter } from 'nodemailer';
+import { mailEnv } from '@/lib/server/env';
 
 /** A message ready to send: plain text always, HTML as the richer alternative. */
 export type MailMessage = { to: string; subject: string; text: string; html: string };
@@ -10,7 +11,6 @@ export class MailNotConfiguredError extends Error {
   }
 }
 
-const DEFAULT_FROM = 'Switchback <no-reply@switchback.local>';
 const transports = new Map<string, Transporter>();
 
 /**
@@ -18,7 +18,8 @@ const transports = new Map<string, Transporter>();
  * point SMTP_URL at its own server and the running app follows a changed setting after a restart.
  */
 export function mailSettings() {
-  return { smtpUrl: process.env.SMTP_URL?.trim() || null, from: process.env.MAIL_FROM?.trim() || DEFAULT_FROM };
+  const env = mailEnv();
+  return { smtpUrl: env.SMTP_URL ?? null, from: env.MAIL_FROM };
 }
 
 function transportFor(url: string): Transporter {

@@ -6,6 +6,7 @@ import { apiKeyCreateSchema, type ApiKeyCreateInput } from '@/lib/shared/validat
 import { recordAudit } from './audit';
 import { bankOrInvalid, loadVersion } from './item-bank';
 import { itemBankId, presentationOf } from './item-bank-id';
+import { decodeJson } from '@/db/json';
 
 /** SHA-256 (hex) of a key's secret: the only form in which a key is stored. */
 export function hashSecret(secret: string): string {
@@ -175,9 +176,9 @@ export async function requireApiKey(authorization: string | null, studyId: numbe
   return key;
 }
 
-/** A JSON column as the driver returns it (MariaDB's JSON is LONGTEXT: text, or already parsed). */
+/** The allowed origins of a key (a JSON column): the strings among them. */
 function parseOrigins(raw: unknown): string[] {
-  const value = typeof raw === 'string' ? (JSON.parse(raw) as unknown) : raw;
+  const value = decodeJson(raw);
   return Array.isArray(value) ? value.filter((o): o is string => typeof o === 'string') : [];
 }
 

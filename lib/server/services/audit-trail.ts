@@ -1,5 +1,6 @@
 import { QueryTypes } from 'sequelize';
 import { db } from '@/db';
+import { decodeJson } from '@/db/json';
 import { toSafeCsv } from '@/lib/shared/csv/formula-guard';
 import { recordAudit } from './audit';
 
@@ -33,8 +34,7 @@ export async function listAuditEvents(studyId: number, limit = AUDIT_LIST_LIMIT)
     actorId: r.actor_id,
     actorName: r.name,
     actorEmail: r.email,
-    // MariaDB's JSON is LONGTEXT underneath; raw queries may hand it back as a string.
-    details: (typeof r.details === 'string' ? JSON.parse(r.details) : r.details) as Record<string, unknown>,
+    details: decodeJson(r.details) as Record<string, unknown>,
   }));
 }
 

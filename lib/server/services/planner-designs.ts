@@ -1,14 +1,12 @@
+import { parseRouteId } from '@/lib/server/route-ids';
 import { Design, DesignVersion, PriorSet } from '@/db/models';
 import { db } from '@/db';
 import { ConflictError, NotFoundError, ValidationError } from '@/lib/server/errors';
 import { contentHash } from '@/lib/shared/canonical-json';
 import { designSpecSchema, frozenDesignSchema, type DesignSpec, type FrozenDesign } from '@/lib/shared/validations/planner';
 import { recordAudit } from './audit';
+import { decodeJson } from '@/db/json';
 
-// MariaDB stores JSON as LONGTEXT; depending on the driver path a JSON column may come back as text.
-function json<T>(value: T | string): T {
-  return typeof value === 'string' ? (JSON.parse(value) as T) : value;
-}
 
 export type VersionSummaryDto = { id: number; number: number; hash: string; createdAt: string; frozenBy: number | null };
 export type DesignDto = {
@@ -36,11 +34,11 @@ async function priorFor(studyId: number, priorSetId: number) {
 
 /** The frozen content of a draft: its spec with the prior's values copied in. */
 export function frozenContent(spec: DesignSpec, prior: PriorSet): FrozenDesign {
-  return frozenDesignSchema.parse({ spec, prior: { ...json(prior.values), name: prior.name } });
+  return frozenDesignSchema.parse({ spec, prior: { ...decodeJson(prior.values), name: prior.name } });
 }
 
 async function toDto(row: Design, latest: DesignVersion | null, priors: Map<number, PriorSet>): Promise<DesignDto> {
-  const spec = json(row.spec);
+  const spec = decodeJson(row.spec);
   const prior = priors.get(spec.priorSetId);
   const frozen = !!latest && !!prior && latest.hash === contentHash(frozenContent(spec, prior));
   return {
@@ -76,7 +74,7 @@ export async function getDesign(studyId: number, designId: number): Promise<Desi
   db();
   const row = await Design.findOne({ where: { id: designId, studyId } });
   if (!row) throw new NotFoundError('Design not found.');
-  row.spec = json(row.spec);
+  row.spec = decodeJson(row.spec);
   return row;
 }
 
@@ -120,7 +118,7 @@ export async function updateDesign(actorId: number, studyId: number, designId: n
     }
     await recordAudit({ actorId, studyId, action: 'design.update', details: { designId, version: version + 1 } }, transaction);
     const row = (await Design.findByPk(designId, { transaction }))!;
-    row.spec = json(row.spec);
+    row.spec = decodeJson(row.spec);
     return row;
   });
 }
@@ -151,7 +149,7 @@ export async function freezeDesignReporting(actorId: number, studyId: number, de
   return db().transaction(async (transaction) => {
     const design = await Design.findOne({ where: { id: designId, studyId }, transaction, lock: transaction.LOCK.UPDATE });
     if (!design) throw new NotFoundError('Design not found.');
-    const spec = designSpecSchema.parse(json(design.spec));
+    const spec = designSpecSchema.parse(decodeJson(design.spec));
     const prior = await PriorSet.findOne({ where: { id: spec.priorSetId, studyId }, transaction });
     if (!prior) throw new ValidationError([{ path: 'priorSetId', message: 'The design’s prior set no longer exists; choose one before freezing.' }]);
     const content = frozenContent(spec, prior);
@@ -167,7 +165,7 @@ export async function freezeDesignReporting(actorId: number, studyId: number, de
 export type VersionDto = VersionSummaryDto & { designId: number; content: FrozenDesign };
 
 export function versionJson(row: DesignVersion): VersionDto {
-  return { ...versionSummary(row), designId: row.designId, content: json(row.content) };
+  return { ...versionSummary(row), designId: row.designId, content: decodeJson(row.content) };
 }
 
 /** The study's frozen versions, newest first (optionally of one design). */
@@ -181,8 +179,9 @@ export async function listVersions(studyId: number, designId?: number): Promise<
 export async function getVersion(studyId: number, key: string): Promise<DesignVersion> {
   db();
   let row: DesignVersion | null = null;
+  const id = parseRouteId(key);
   if (/^[0-9a-f]{64}$/i.test(key)) row = await DesignVersion.findOne({ where: { studyId, hash: key.toLowerCase() }, order: [['id', 'ASC']] });
-  else if (/^\d{1,10}$/.test(key)) row = await DesignVersion.findOne({ where: { studyId, id: Number(key) } });
+  else if (id !== null) row = await DesignVersion.findOne({ where: { studyId, id } });
   if (!row) throw new NotFoundError('Frozen version not found.');
   return row;
 }

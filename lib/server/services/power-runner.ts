@@ -6,6 +6,7 @@ import type { PowerRunSpec } from '@/lib/shared/validations/power';
 import { notifyPowerRunFinished } from './notices';
 import { buildScenario, runResult } from '@/lib/shared/power-scenario';
 import { runScenario } from '@/lib/server/jobs/power/run-scenario';
+import { decodeJson } from '@/db/json';
 
 /** Runs executing in this process, with their cancel flags (on globalThis to survive dev reloads). */
 const holder = globalThis as unknown as { switchbackPowerRuns?: Map<number, { cancel: boolean }> };
@@ -15,9 +16,6 @@ export const activeRuns = (holder.switchbackPowerRuns ??= new Map());
 export const HEARTBEAT_MS = 2000;
 export const STALE_MS = 20_000;
 
-function json<T>(value: T | string): T {
-  return typeof value === 'string' ? (JSON.parse(value) as T) : value;
-}
 
 /** Asks this process to stop a run before its next chunk. */
 export function requestCancel(runId: number): void {
@@ -62,8 +60,8 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
       .catch((error) => console.warn(`[switchback] power run ${runId}: heartbeat not written (${error instanceof Error ? error.message : error})`)); // the next beat retries
   }, HEARTBEAT_MS);
   try {
-    const spec = json<PowerRunSpec>(run.spec);
-    const scenario = buildScenario(spec, json<FrozenDesign>(version.content));
+    const spec = decodeJson<PowerRunSpec>(run.spec);
+    const scenario = buildScenario(spec, decodeJson<FrozenDesign>(version.content));
     let lastWrite = 0;
     const outcome = await runScenario(scenario, {
       workers: options.workers,
@@ -78,7 +76,7 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
       },
     });
     if (!outcome) return; // cancelled: the cancel already wrote the status
-    const result: object = runResult(scenario, outcome, { number: version.number, hash: version.hash, content: json<FrozenDesign>(version.content) });
+    const result: object = runResult(scenario, outcome, { number: version.number, hash: version.hash, content: decodeJson<FrozenDesign>(version.content) });
     const [stored] = await PowerRun.update(
       {
         status: 'finished',

@@ -2,6 +2,7 @@ import { Op } from 'sequelize';
 import { db } from '@/db';
 import { DesignVersion, PowerRun, User } from '@/db/models';
 import { ApiError, ConflictError, NotFoundError, ValidationError } from '@/lib/server/errors';
+import { parseEntityId } from '@/lib/server/route-ids';
 import { createPowerSimulator, POWER_ENGINE_VERSION, type PowerSummary } from '@/lib/design/power';
 import { DesignInputError } from '@/lib/design/DesignInputError';
 import { activeRuns, launchRun, markInterruptedRuns, requestCancel, STALE_MS } from './power-runner';
@@ -9,10 +10,8 @@ import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpec, PowerStatus } from '@/lib/shared/validations/power';
 import { recordAudit } from './audit';
 import { buildScenario } from '@/lib/shared/power-scenario';
+import { decodeJson } from '@/db/json';
 
-function json<T>(value: T | string): T {
-  return typeof value === 'string' ? (JSON.parse(value) as T) : value;
-}
 
 export type PowerResultDto = { summary: PowerSummary; methodText: string; software: string; soonDelay: number };
 
@@ -37,7 +36,7 @@ export type PowerRunDto = {
 };
 
 function toDto(row: PowerRun, version: DesignVersion, creator: User | null, withResult: boolean): PowerRunDto {
-  const content = json<FrozenDesign>(version.content);
+  const content = decodeJson<FrozenDesign>(version.content);
   let secondsLeft: number | null = null;
   if (row.status === 'running' && row.startedAt && row.completed > 0) {
     const elapsed = (Date.now() - row.startedAt.getTime()) / 1000;
@@ -52,14 +51,14 @@ function toDto(row: PowerRun, version: DesignVersion, creator: User | null, with
     percent: row.total > 0 ? Math.floor((100 * row.completed) / row.total) : 0,
     secondsLeft,
     message: row.message ?? null,
-    spec: json<PowerRunSpec>(row.spec),
+    spec: decodeJson<PowerRunSpec>(row.spec),
     design: { versionId: version.id, number: version.number, hash: version.hash, name: content.spec.name },
     engineVersion: row.engineVersion,
     createdBy: creator?.name ?? null,
     createdAt: row.createdAt.toISOString(),
     startedAt: row.startedAt?.toISOString() ?? null,
     finishedAt: row.finishedAt?.toISOString() ?? null,
-    result: withResult && row.result ? json<PowerResultDto>(row.result as PowerResultDto) : null,
+    result: withResult && row.result ? decodeJson<PowerResultDto>(row.result as PowerResultDto) : null,
   };
 }
 
@@ -97,8 +96,7 @@ export async function findPowerRun(studyId: number, runId: number): Promise<Powe
 
 /** Parses a run id from a route parameter; anything malformed is "not found". */
 export function parseRunId(raw: string | undefined): number {
-  if (!raw || !/^\d{1,10}$/.test(raw)) throw new NotFoundError('Power run not found.');
-  return Number(raw);
+  return parseEntityId(raw, 'Power run');
 }
 
 /**
@@ -111,7 +109,7 @@ export async function createPowerRun(actorId: number, studyId: number, spec: Pow
   const version = await DesignVersion.findOne({ where: { id: spec.designVersionId, studyId } });
   if (!version) throw new ValidationError([{ path: 'designVersionId', message: 'Choose a frozen design version of this study.' }]);
   try {
-    createPowerSimulator(buildScenario(spec, json<FrozenDesign>(version.content)));
+    createPowerSimulator(buildScenario(spec, decodeJson<FrozenDesign>(version.content)));
   } catch (error) {
     if (error instanceof DesignInputError) throw new ValidationError([{ path: error.field, message: error.message }]);
     throw error;

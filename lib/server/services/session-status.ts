@@ -1,6 +1,10 @@
 import { QueryTypes } from 'sequelize';
 import { db } from '@/db';
+import { Study } from '@/db/models';
 import type { StoredSessionStatus } from '@/db/models/session';
+import { toSafeCsv } from '@/lib/shared/csv/formula-guard';
+import { NotFoundError } from '@/lib/server/errors';
+import { recordAudit } from './audit';
 
 /** A session's status as shown and exported: the furthest step reached, or abandoned. */
 export type SessionStatus = StoredSessionStatus | 'abandoned';
@@ -98,4 +102,29 @@ export function countByStatus(rows: readonly { status: SessionStatus }[]): Recor
   const counts = Object.fromEntries(SESSION_STATUSES.map((s) => [s, 0])) as Record<SessionStatus, number>;
   for (const r of rows) counts[r.status] += 1;
   return counts;
+}
+
+/** Sessions as CSV (one row per participant), every cell through the formula guard. */
+export function sessionsCsv(rows: readonly SessionStatusRow[]): string {
+  const header = ['participantId', 'status', 'answered', 'itemCount', 'source', 'designVersionId', 'startedAt', 'servedAt', 'completedAt', 'lastActivityAt'];
+  return toSafeCsv(header, rows.map((r) => [r.participantId, r.status, r.answered, r.itemCount, r.source, r.designVersionId, r.startedAt, r.servedAt, r.completedAt, r.lastActivityAt]));
+}
+
+/** The study's sessions with counts per status, optionally only one status. */
+export async function studySessions(study: { id: number; sessionIdleMinutes: number }, filter: SessionStatus | null) {
+  const all = await listSessionStatuses(study.id, { idleMinutes: study.sessionIdleMinutes });
+  return { idleMinutes: study.sessionIdleMinutes, counts: countByStatus(all), sessions: filter ? all.filter((r) => r.status === filter) : all };
+}
+
+/** Sets after how many idle minutes an unfinished session reads as abandoned (audited). */
+export async function setSessionIdleMinutes(actorId: number, studyId: number, minutes: number) {
+  const sequelize = db();
+  return sequelize.transaction(async (transaction) => {
+    const study = await Study.findByPk(studyId, { transaction, lock: transaction.LOCK.UPDATE });
+    if (!study) throw new NotFoundError('Study not found.');
+    const before = study.sessionIdleMinutes;
+    await study.update({ sessionIdleMinutes: minutes }, { transaction });
+    await recordAudit({ actorId, studyId, action: 'sessions.idle-time', details: { from: before, to: minutes } }, transaction);
+    return { idleMinutes: minutes };
+  });
 }

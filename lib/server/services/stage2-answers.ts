@@ -1,6 +1,7 @@
 import { rawQuery } from '@/db';
 import type { AnswerSource } from '@/db/models/session';
 import { ConflictError, ValidationError } from '@/lib/server/errors';
+import { decodeJson } from '@/db/json';
 
 /** One answer to one served stage-2 item, as every writer hands it in. */
 export type Stage2AnswerInput = {
@@ -63,7 +64,7 @@ async function servedParticipant(studyId: number, participantId: string): Promis
   const [row] = await rawQuery(SELECT_SERVED, [studyId, participantId]);
   if (!row) return null;
   const raw = row.item_ids;
-  const itemIds = (typeof raw === 'string' ? JSON.parse(raw) : (raw ?? [])) as string[];
+  const itemIds = (decodeJson(raw) ?? []) as string[];
   const served = { ref: Number(row.id), designVersionId: Number(row.design_version_id), itemIds };
   if (servedCache.size >= SERVED_CACHE_LIMIT) servedCache.clear();
   servedCache.set(cacheKey, served);

@@ -1,4 +1,5 @@
-import { area, line, scaleLinear } from 'd3';
+import { scaleLinear } from 'd3-scale';
+import { area, line } from 'd3-shape';
 import { textWidth as measure, wrapText } from './figure-text';
 
 /** One curve: a label and its points (sample size, power, Wilson interval). */

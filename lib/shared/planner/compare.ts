@@ -2,7 +2,7 @@ import { MODEL_IDS, type ModelId, type ModelSpec } from '@/lib/design';
 import { expectedReversalRate } from '@/lib/criteria';
 import { fallbackProbe } from './choose-delays';
 import { personalDelays, sharesAt } from './personal';
-import { priorNodes } from './points';
+import { expectationNodes } from './points';
 import { modelOf } from './summary';
 import type { DesignSummary, PlannerInput } from './types';
 
@@ -24,7 +24,7 @@ export function alternativeModel(id: ModelId, own: ModelSpec): ModelSpec {
  */
 export function robustness(input: PlannerInput, summary: DesignSummary): Array<{ model: ModelSpec; own: boolean; rate: number }> {
   const own = modelOf(input.spec);
-  const nodes = priorNodes(input.prior);
+  const nodes = expectationNodes(input.prior, summary.choiceSensitivity);
   const d = summary.soonDelay;
   const gamma = summary.choiceSensitivity;
   const probe = summary.roles.find((r) => r.role === 'probe')?.lateDelay ?? null;

@@ -1,4 +1,4 @@
-import { anchorDelays, optimiseLateDelay, type ModelSpec, type RatePoints } from '@/lib/design';
+import { anchorDelays, optimiseLateDelayBatch, type ModelSpec, type RatePoints } from '@/lib/design';
 import { addShares, noShares, patternProbabilities } from './patterns';
 import type { PatternShares } from './types';
 
@@ -21,18 +21,19 @@ export function personalDelays(
 ): PersonalDelays {
   const n = points.kSmall.length;
   const out: PersonalDelays = { probe: new Float64Array(n), late: new Float64Array(n), soon: new Float64Array(n), hasZone: new Uint8Array(n) };
+  // every point's optimum in one batch solve (NaN where the zone is empty)
+  const optimum = optimiseLateDelayBatch(model, { ratio: new Float64Array(n).fill(ratio), soonDelay: new Float64Array(n).fill(soonDelay), kSmall: points.kSmall, kLarge: points.kLarge });
   for (let i = 0; i < n; i++) {
-    const pair = { model, ratio, soonDelay, kSmall: points.kSmall[i], kLarge: points.kLarge[i] };
-    const optimum = soonDelay > 0 ? optimiseLateDelay(pair) : null;
-    if (!optimum) {
+    const lateDelay = optimum.lateDelay[i];
+    if (Number.isNaN(lateDelay)) {
       out.probe[i] = fallback.probe;
       out.late[i] = fallback.late;
       out.soon[i] = fallback.soon;
       continue;
     }
-    const anchors = anchorDelays(pair);
+    const anchors = anchorDelays({ model, ratio, soonDelay, kSmall: points.kSmall[i], kLarge: points.kLarge[i] });
     out.hasZone[i] = 1;
-    out.probe[i] = Math.min(limit, optimum.lateDelay);
+    out.probe[i] = Math.min(limit, lateDelay);
     out.late[i] = anchors?.late ? Math.min(limit, anchors.late.lateDelay) : NaN;
     out.soon[i] = anchors?.soon && anchors.soon.lateDelay <= limit ? anchors.soon.lateDelay : NaN;
   }

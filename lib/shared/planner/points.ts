@@ -1,15 +1,26 @@
 import { createRandom, priorPoints, type RatePoints } from '@/lib/design';
+import { expectedRateNodes } from '@/lib/criteria';
 import type { PriorValues } from '@/lib/shared/validations/planner';
-import { PRIOR_DRAWS, PRIOR_SEED, QUADRATURE_NODES } from './types';
+import { PRIOR_DRAWS, PRIOR_SEED } from './types';
 
 /** The prior's Monte Carlo draws for charts (seeded, so every run and every machine sees the same points). */
 export function priorDraws(prior: PriorValues, count = PRIOR_DRAWS, seed = PRIOR_SEED): RatePoints {
   return priorPoints(prior, { method: 'monte-carlo', count, random: createRandom({ seed }) });
 }
 
-/** Gauss–Hermite nodes of the prior, behind every expectation the planner reports. */
-export function priorNodes(prior: PriorValues, nodes = QUADRATURE_NODES): RatePoints {
+/** The prior's tensor Gauss–Hermite rule with `nodes` points per axis. */
+export function priorNodes(prior: PriorValues, nodes: number): RatePoints {
   return priorPoints(prior, { method: 'quadrature', nodes });
+}
+
+/**
+ * The prior's Gauss–Hermite nodes behind every expectation the planner reports, as many as keep
+ * an expected reversal rate within 1e-4 of the exact expectation at choice sensitivity γ
+ * (expectedRateNodes); `withinTarget` is false when γ·(spread) is beyond what the largest rule meets.
+ */
+export function expectationNodes(prior: PriorValues, gamma: number): RatePoints & { withinTarget: boolean } {
+  const { nodes, withinTarget } = expectedRateNodes({ choice: { sensitivity: gamma }, prior });
+  return { ...priorNodes(prior, nodes), withinTarget };
 }
 
 /** Weighted mean of f over the points (equal weights for draws). */

@@ -1,8 +1,9 @@
 import { anchorDelays, extrapolationWarning, optimiseLateDelay, reversalZone, reversibleShare, type ModelSpec, type RatePoints } from '@/lib/design';
+import { expectedRateNodes } from '@/lib/criteria';
 import { gapCurve, valueCurve } from './curves';
 import { fallbackProbe, personalCriterion, personalSoonDelay, populationDelays, type Setting } from './choose-delays';
 import { personalDelays, sharesAt } from './personal';
-import { priorDraws, priorNodes, quantileSorted } from './points';
+import { expectationNodes, priorDraws, quantileSorted } from './points';
 import { designChoiceModel } from '@/lib/design/designChoiceModel';
 import { type DesignSummary, type PlannerInput, type PlannerWarning, type RoleSummary } from './types';
 
@@ -17,7 +18,8 @@ export function modelOf(spec: PlannerInput['spec']): ModelSpec {
 /**
  * Every number the design page shows, from the design's settings and its prior — the same
  * function runs in the browser (live, as fields change) and on the server (the summary route).
- * Expectations use the prior's Gauss–Hermite nodes; the spread of zone bounds uses 2,000
+ * Expectations use the prior's Gauss–Hermite nodes, as many as keep an expected reversal rate
+ * within 1e-4 absolute at the design's γ (expectationNodes); the spread of zone bounds uses 2,000
  * seeded draws. Personalised designs assume the calibration block recovers each participant's
  * rates exactly (the power simulation drops that assumption).
  *
@@ -28,7 +30,7 @@ export function computeDesignSummary(input: PlannerInput, options: { draws?: Rat
   const { spec, prior } = input;
   const model = modelOf(spec);
   const gamma = designChoiceModel(spec).sensitivity;
-  const nodes = options.nodes ?? priorNodes(prior);
+  const nodes = options.nodes ?? expectationNodes(prior, gamma);
   const draws = options.draws ?? priorDraws(prior);
   const s: Setting = { model, ratio: spec.ratio, limit: spec.lateDelayLimit, gamma, prior, nodes };
   const typicalRates = { kSmall: prior.medianSmall, kLarge: prior.medianLarge };
@@ -86,8 +88,21 @@ export function computeDesignSummary(input: PlannerInput, options: { draws?: Rat
     roles,
     valueCurve: probeDelay && probeDelay > d ? valueCurve({ model, ratio: spec.ratio, largeAmount: spec.largeAmount, soonDelay: d, lateDelay: probeDelay, ...typicalRates }) : null,
     gapCurve: gapCurve({ model, ratio: spec.ratio, soonDelay: d, ...typicalRates, limit: spec.lateDelayLimit, zone, optimum }),
-    warnings: warningsFor(spec, d, zone, optimum, boundSpread, probeDelays, lateAnchor, soonAnchor),
+    warnings: [
+      ...warningsFor(spec, d, zone, optimum, boundSpread, probeDelays, lateAnchor, soonAnchor),
+      ...accuracyWarning(gamma, prior),
+    ],
   };
+}
+
+/** A warning when γ × the prior's spread is beyond what the largest quadrature rule keeps within 1e-4. */
+function accuracyWarning(gamma: number, prior: PlannerInput['prior']): PlannerWarning[] {
+  const { sharpness, withinTarget } = expectedRateNodes({ choice: { sensitivity: gamma }, prior });
+  if (withinTarget) return [];
+  return [{
+    kind: 'accuracy',
+    message: `With choice sensitivity ${gamma} and a prior spread of ${Math.max(prior.sdLogSmall, prior.sdLogLarge)} (γ × spread = ${Math.round(sharpness)}), expected reversal rates are computed on the largest quadrature rule and may be off by more than 0.0001; compare designs rather than read the rates to four decimals.`,
+  }];
 }
 
 function spreadOfBounds(model: ModelSpec, ratio: number, d: number, limit: number, draws: RatePoints): DesignSummary['boundSpread'] {

@@ -7,8 +7,6 @@ export { DEFAULT_CHOICE_SENSITIVITY } from '@/lib/design/designChoiceModel';
 export const PRIOR_DRAWS = 2000;
 /** Fixed seed, so the browser and the server draw the same points. */
 export const PRIOR_SEED = 20260;
-/** Gauss–Hermite nodes per axis behind the expectations (deterministic, cheap). */
-export const QUADRATURE_NODES = 12;
 
 /** What the planner computes from: a design's settings and its prior's values. */
 export type PlannerInput = {
@@ -31,7 +29,7 @@ export type RoleSummary = {
 
 export type Quantiles = { p10: number; p50: number; p90: number };
 
-export type PlannerWarning = { kind: 'extrapolation' | 'empty-zone' | 'limit' | 'no-room' | 'model'; message: string };
+export type PlannerWarning = { kind: 'extrapolation' | 'empty-zone' | 'limit' | 'no-room' | 'model' | 'accuracy'; message: string };
 
 export type DesignSummary = {
   mode: DesignSpec['mode'];

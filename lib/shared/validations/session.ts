@@ -23,3 +23,14 @@ export const stage2AnswersRequestSchema = z.strictObject({
   answers: z.array(stage2AnswerSchema).max(200, 'At most 200 answers per request.'),
 });
 export type Stage2AnswersRequest = z.infer<typeof stage2AnswersRequestSchema>;
+
+/** GET /api/studies/{id}/sessions: one status only, and the format. */
+export const sessionsQuerySchema = z.strictObject({
+  status: z.enum(['started', 'calibrated', 'served', 'completed', 'abandoned'], { error: 'Filter by started, calibrated, served, completed or abandoned.' }).optional(),
+  format: z.enum(['json', 'csv']).default('json'),
+});
+
+/** PATCH /api/studies/{id}/sessions: after how many idle minutes an unfinished session reads as abandoned. */
+export const sessionSettingsSchema = z.strictObject({
+  idleMinutes: z.number({ error: 'Give the idle time in minutes.' }).int('Give whole minutes.').min(5, 'At least 5 minutes.').max(43_200, 'At most 30 days (43,200 minutes).'),
+});

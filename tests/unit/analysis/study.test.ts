@@ -110,7 +110,7 @@ describe('observed against expected patterns', () => {
   });
 
   it('expects under the design what preferenceGaps and choiceProbability give at the calibration estimates', () => {
-    // independent path: the public gap and choice functions of DESIGN.md at each participant's estimates
+    // independent path: the public gap and choice functions of docs/mathematics.md at each participant's estimates
     let ls = 0;
     data.forEach((p, i) => {
       const { kSmall, kLarge } = refits[i].design.parameters;
@@ -135,7 +135,7 @@ describe('zone diagnosis', () => {
     const fit = { parameters: { kSmall, kLarge, sensitivity: 1, presentBias: 1 } };
     const refit = { participantId: 'z', design: fit, models: [{ model: 'hyperbolic', full: fit, calibrationOnly: fit, predictiveLogScore: 0, predictedChoices: 0 }] } as never;
     const result = diagnoseZones([p], [refit], { model: 'hyperbolic' });
-    // closed form (DESIGN.md): D_lower = d + (1 − x)/(xK) = 30 + 0.4/0.006 ≈ 96.7, D_upper = (1 + kd − x)/(xK) = 1.9/0.006 ≈ 316.7
+    // closed form (docs/mathematics.md, "Closed forms"): D_lower = d + (1 − x)/(xK) = 30 + 0.4/0.006 ≈ 96.7, D_upper = (1 + kd − x)/(xK) = 1.9/0.006 ≈ 316.7
     const x = 0.6;
     expect(result.participants[0].zone!.lower).toBeCloseTo(30 + (1 - x) / (x * kLarge), 9);
     expect(result.participants[0].zone!.upper).toBeCloseTo((1 + kSmall * 30 - x) / (x * kLarge), 9);

@@ -1,5 +1,5 @@
 // Shared fixtures for the analysis tests: a design like the power benchmark's, and a log-likelihood
-// written straight from DESIGN.md with the public discountFactor and choiceProbability, so the
+// written straight from docs/mathematics.md with the public discountFactor and choiceProbability, so the
 // refit's own likelihood code is checked against an independent path.
 import { choiceProbability, discountFactor, type FitChoice, type ModelId, type ModelParameters, type ModelSpec, type PowerDesign, type PowerTruth } from '@/lib/design';
 

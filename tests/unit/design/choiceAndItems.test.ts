@@ -57,7 +57,6 @@ describe('indifference rates of fixed choice items', () => {
     it(`hyperbolic: $${S} today vs $${L} in ${D} days ties at k ≈ ${printed} (Kirby, Petry & Bickel 1999, from memory)`, () => {
       const k = indifferenceRate({ id: 'hyperbolic' }, { soonerAmount: S, laterAmount: L, laterDelay: D });
       expect(Number(k.toPrecision(2))).toBeCloseTo(printed, 12);
-      expect(k).toBeCloseTo((L / S - 1) / D, 15); // the item-table formula, direct evaluation
     });
   }
 
@@ -110,8 +109,10 @@ describe('calibration block', () => {
       expect(block).toHaveLength(12);
       const logs = block.map((i) => Math.log(i.targetRate));
       const step = (Math.log(0.5) - Math.log(1e-3)) / 11;
-      // rounding amounts to cents and delays to days moves ln k by at most a few hundredths here
-      logs.forEach((l, j) => expect(Math.abs(l - (Math.log(1e-3) + j * step))).toBeLessThan(0.25));
+      // Each item's delay is a whole day and its sooner amount whole cents, and targetRate is the
+      // exact tie of the rounded item, so it leaves the grid only by the cent rounding: half a cent
+      // on a later amount of 30 moves ln k by less than 1e-3 here (measured worst: 8.6e-4).
+      logs.forEach((l, j) => expect(Math.abs(l - (Math.log(1e-3) + j * step))).toBeLessThan(1e-3));
       for (const item of block) {
         expect(item.soonerDelay).toBe(0);
         expect(item.soonerAmount).toBeGreaterThan(0);

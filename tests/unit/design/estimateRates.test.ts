@@ -103,9 +103,13 @@ describe('rate estimation from calibration choices', () => {
     }
     gammas.sort((a, b) => a - b);
     const median = gammas[20];
-    // 120 choices per person; the median over 40 people lands well within ±40 % of γ = 10
-    expect(median).toBeGreaterThan(6);
-    expect(median).toBeLessThan(14);
+    // 120 choices per person. Measured over 25 seeds × 40 people: ln γ̂ has a standard deviation of
+    // 0.21 per person, and maximum likelihood overstates γ by about 6 % at this sample size (mean
+    // ln γ̂ = 2.362 against ln 10 = 2.303). The median of 40 then has a standard deviation of about
+    // 1.25 · 0.21 / √40 = 0.042 in ln γ (asymptotic variance of a sample median), so
+    // exp(ln 10 + [−4, +4] · 0.042 + [0, 0.06]) = [8.5, 12.6] holds it with four standard deviations to spare.
+    expect(median).toBeGreaterThan(8.5);
+    expect(median).toBeLessThan(12.6);
   });
 
   it('rejects mismatched responses, unknown choices and bad options', () => {

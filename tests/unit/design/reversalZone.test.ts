@@ -19,7 +19,7 @@ describe('preference gaps', () => {
   });
 });
 
-describe('reversal zone bounds (closed forms quoted in DESIGN.md, checked by the pattern at the edges)', () => {
+describe('reversal zone bounds (closed forms of docs/mathematics.md, checked by the pattern at the edges)', () => {
   it('hyperbolic: D_lower = d + (1 − x)/(xK), D_upper = (1 + kd − x)/(xK)', () => {
     const z = reversalZone({ model: hyperbolic, ratio: 0.5, soonDelay: 10, kSmall: 0.1, kLarge: 0.05 });
     // direct evaluation: 10 + 0.5/0.025 = 30, (1 + 1 − 0.5)/0.025 = 60 (the TSDoc example)

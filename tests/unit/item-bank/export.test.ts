@@ -4,7 +4,7 @@ import { restoreCell } from '@/lib/shared/csv/formula-guard';
 import { amountText, amountUnit, delayText, predictPattern, type BankItem } from '@/lib/design';
 import { ITEM_COLUMNS, itemsCsv } from '@/lib/server/services/item-bank';
 import { bankFor } from '@/lib/shared/item-bank-plan';
-import { design, HASH } from './fixtures';
+import { frozenDesign as design, HASH } from '../../support/frozen-design';
 
 const NULLABLE = new Set(['view', 'pairId', 'magnitude']);
 

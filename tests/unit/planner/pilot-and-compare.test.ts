@@ -86,7 +86,7 @@ describe('comparing designs', () => {
     const b = { spec: { ...defaultSpec('B', 1), soonDelay: { mode: 'fixed' as const, days: 30 } }, prior };
     const rows = compareRows([a, b], [computeDesignSummary(a), computeDesignSummary(b)]);
     const width = rows.find((r) => r.key === 'zone-width')!;
-    // hyperbolic zone width D_upper − D_lower = kd/(xK) − d grows with d when k > xK (DESIGN.md closed forms): the 30-day design wins
+    // hyperbolic zone width D_upper − D_lower = kd/(xK) − d grows with d when k > xK (docs/mathematics.md closed forms): the 30-day design wins
     expect(width.values[0]).toBeCloseTo((0.02 * 14) / (0.6 * 0.008) - 14, 9);
     expect(width.best).toEqual([1]);
     expect(rows.find((r) => r.key === 'criterion')!.better).toBe('higher');

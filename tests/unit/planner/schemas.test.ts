@@ -3,6 +3,7 @@ import { canonicalJson, contentHash } from '@/lib/shared/canonical-json';
 import { createHash } from 'node:crypto';
 import { defaultSpec, designFormSchema, toForm, toSpec } from '@/lib/shared/planner/design-form-values';
 import { commentSchema, designSpecSchema, designUpdateSchema, frozenDesignSchema, priorSetSchema, priorSetUpdateSchema, type DesignSpec } from '@/lib/shared/validations/planner';
+import reference from '../../fixtures/reference/reference.json';
 
 const population: DesignSpec = {
   ...defaultSpec('Population check', 3),
@@ -80,7 +81,8 @@ describe('the canonical hash', () => {
     // Hand-written canonical text, hashed directly with node:crypto as the second opinion.
     expect(canonicalJson({ b: [2, { d: 1, c: 'x' }], a: 1 })).toBe('{"a":1,"b":[2,{"c":"x","d":1}]}');
     expect(contentHash({ b: [2, { d: 1, c: 'x' }], a: 1 })).toBe(createHash('sha256').update('{"a":1,"b":[2,{"c":"x","d":1}]}').digest('hex'));
-    expect(contentHash({})).toBe('44136fa355b3678a1146ad16f7e8649e94fb4fc21fe77e8310c060f61caaff8a'); // SHA-256 of "{}" (from memory; also equals createHash above)
+    // SHA-256 of "{}" computed by Python's hashlib (tests/fixtures/reference)
+    expect(contentHash({})).toBe(reference.sha256.find((r) => r.text === '{}')!.hex);
     expect(contentHash({})).toBe(createHash('sha256').update('{}').digest('hex'));
   });
 });

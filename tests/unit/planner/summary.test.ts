@@ -1,7 +1,7 @@
-import * as d3 from 'd3';
+import { quantileSorted } from 'd3-array';
 import jstatModule from 'jstat';
 import { describe, expect, it } from 'vitest';
-import { DEFAULT_CHOICE_SENSITIVITY, discountFactor, MODEL_IDS, reversalZone, type ModelSpec } from '@/lib/design';
+import { createRandom, DEFAULT_CHOICE_SENSITIVITY, discountFactor, MODEL_IDS, reversalZone, type ModelSpec } from '@/lib/design';
 import { defaultSpec } from '@/lib/shared/planner/design-form-values';
 import { priorDraws } from '@/lib/shared/planner/points';
 import { priorView } from '@/lib/shared/planner/prior-view';
@@ -9,14 +9,16 @@ import { computeDesignSummary } from '@/lib/shared/planner/summary';
 import type { PlannerInput } from '@/lib/shared/planner/types';
 import type { DesignSpec, PriorValues } from '@/lib/shared/validations/planner';
 
-const { jStat } = jstatModule as unknown as { jStat: { normal: { cdf: (x: number, m: number, s: number) => number; sample: (m: number, s: number) => number } } };
+const { jStat } = jstatModule as unknown as {
+  jStat: { normal: { cdf: (x: number, m: number, s: number) => number; sample: (m: number, s: number) => number }; setRandom: (fn: () => number) => void };
+};
 
 const prior: PriorValues = { medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.6 };
 const spec = (over: Partial<DesignSpec> = {}): PlannerInput['spec'] => ({ ...defaultSpec('Test', 1), ...over });
 
 describe('the design page numbers', () => {
   it('put the typical participant’s zone at the hyperbolic closed form', () => {
-    // D_lower = d + (1 − x)/(xK), D_upper = (1 + kd − x)/(xK) (DESIGN.md, "Closed forms worth knowing")
+    // D_lower = d + (1 − x)/(xK), D_upper = (1 + kd − x)/(xK) (docs/mathematics.md, "Closed forms")
     const s = computeDesignSummary({ spec: spec({ ratio: 0.6, soonDelay: { mode: 'fixed', days: 14 } }), prior });
     const [x, d, k, K] = [0.6, 14, 0.02, 0.008];
     expect(s.typical.zone!.lower).toBeCloseTo(d + (1 - x) / (x * K), 9);
@@ -26,7 +28,7 @@ describe('the design page numbers', () => {
   });
 
   it('report the hyperbolic share of the prior that can reverse as the normal probability of k > xK', () => {
-    // ln k − ln K ~ N(μk − μK, σk² + σK² − 2ρσkσK); reversal possible iff k > xK (DESIGN.md). jstat is the second opinion.
+    // ln k − ln K ~ N(μk − μK, σk² + σK² − 2ρσkσK); reversal possible iff k > xK (docs/mathematics.md, "Choice model" and "Closed forms"). jstat is the second opinion.
     const s = computeDesignSummary({ spec: spec({ ratio: 0.6 }), prior });
     const sd = Math.sqrt(0.64 + 0.64 - 2 * 0.6 * 0.64);
     const expected = 1 - jStat.normal.cdf(Math.log(0.6), Math.log(0.02) - Math.log(0.008), sd);
@@ -57,6 +59,9 @@ describe('the design page numbers', () => {
     const n = 200_000;
     const sigma = (z: number) => 1 / (1 + Math.exp(-z));
     let sum = 0;
+    // jstat's normal sampler, fed a seeded uniform so the draws (and the outcome) repeat run to run
+    const seeded = createRandom({ seed: 20261203 });
+    jStat.setRandom(() => seeded.uniform());
     for (let i = 0; i < n; i++) {
       const z1 = jStat.normal.sample(0, 1);
       const z2 = jStat.normal.sample(0, 1);
@@ -66,6 +71,7 @@ describe('the design page numbers', () => {
       const near = 0.6 - discountFactor(model, K, D - d);
       sum += sigma(DEFAULT_CHOICE_SENSITIVITY * far) * sigma(DEFAULT_CHOICE_SENSITIVITY * near); // the γ a design without its own assumes
     }
+    jStat.setRandom(Math.random);
     // standard error ≤ 0.5/√n ≈ 0.0011; 0.006 allows > 5 SE plus the 12×12 quadrature error
     expect(Math.abs(s.expectedReversalRate - sum / n)).toBeLessThan(0.006);
   });
@@ -99,8 +105,8 @@ describe('the design page numbers', () => {
     }
     lower.sort((a, b) => a - b);
     expect(s.boundSpread!.withZone).toBe(lower.length);
-    expect(s.boundSpread!.lower!.p10).toBeCloseTo(d3.quantileSorted(lower, 0.1)!, 6);
-    expect(s.boundSpread!.lower!.p90).toBeCloseTo(d3.quantileSorted(lower, 0.9)!, 6);
+    expect(s.boundSpread!.lower!.p10).toBeCloseTo(quantileSorted(lower, 0.1)!, 6);
+    expect(s.boundSpread!.lower!.p90).toBeCloseTo(quantileSorted(lower, 0.9)!, 6);
   });
 
   it('warn when probes reach far beyond the calibration delays, and when the soon delay is 0', () => {
@@ -128,7 +134,7 @@ describe('the design page numbers', () => {
 
 describe('the prior picture', () => {
   it('draws the line where reversals become possible at K = k/x for the hyperbolic model and K = k for the exponential', () => {
-    // non-empty iff k > xK (hyperbolic), k > K (exponential): DESIGN.md closed forms
+    // non-empty iff k > xK (hyperbolic), k > K (exponential): docs/mathematics.md, "Closed forms"
     for (const [id, factor] of [['hyperbolic', 1 / 0.5], ['exponential', 1]] as const) {
       const view = priorView(prior, { model: { id }, ratio: 0.5, soonDelay: 7 });
       expect(view.boundary.kSmall.length).toBeGreaterThan(10);
@@ -153,4 +159,24 @@ describe('the prior picture', () => {
     const view = priorView(prior, { model: { id: 'hyperbolic' }, ratio: 0.5, soonDelay: 7 });
     for (let i = 0; i < view.draws.kSmall.length; i++) expect(view.canReverse[i]).toBe(view.draws.kSmall[i] > 0.5 * view.draws.kLarge[i] ? 1 : 0);
   });
+});
+
+describe('the accuracy of the expected reversal rates the design page shows', () => {
+  it('computes them on as many quadrature nodes as the 1e-4 target needs at the design’s γ, not a fixed 12', async () => {
+    const { expectationNodes } = await import('@/lib/shared/planner/points');
+    const { expectedRateNodes } = await import('@/lib/criteria');
+    // γ = 20 and spread 0.8: the node table (checked against fine-grid references in the criteria tests) asks for 40 per axis
+    expect(expectedRateNodes({ choice: { sensitivity: 20 }, prior }).nodes).toBe(40);
+    expect(expectationNodes(prior, 20).kSmall.length).toBe(40 * 40);
+    const s = spec({ mode: 'population', criterion: 'expected-reversal-rate', soonDelay: { mode: 'fixed', days: 14 }, choiceSensitivity: 20 });
+    const viaNodes = computeDesignSummary({ spec: s, prior }, { nodes: expectationNodes(prior, 20) });
+    expect(computeDesignSummary({ spec: s, prior }).expectedReversalRate).toBe(viaNodes.expectedReversalRate);
+    expect(viaNodes.warnings.some((w) => w.kind === 'accuracy')).toBe(false);
+  });
+
+  it('warns instead of claiming four decimals when γ × spread is beyond the largest rule', () => {
+    const s = computeDesignSummary({ spec: spec({ choiceSensitivity: 1000, soonDelay: { mode: 'fixed', days: 14 } }), prior });
+    const warning = s.warnings.find((w) => w.kind === 'accuracy');
+    expect(warning?.message).toContain('may be off by more than 0.0001');
+  }, 30_000);
 });

@@ -11,21 +11,10 @@ import {
 } from '@/lib/design';
 import { FastRateEstimator } from '@/lib/design/power/fastRateEstimate';
 import { calibrationItems } from '@/lib/design';
+import { POWER_PRIOR, powerDesign } from '../../support/frozen-design';
 
-const prior = { medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 1, sdLogLarge: 1, correlation: 0.8 };
-const spec = {
-  model: { id: 'hyperbolic' as const },
-  ratio: 0.82,
-  largeAmount: 100,
-  currency: 'EUR',
-  mode: 'personalised' as const,
-  soonDelay: { mode: 'fixed' as const, days: 30 },
-  lateDelayLimit: 9131,
-  probePairs: 4,
-  lateAnchors: 2,
-  soonAnchors: 2,
-  calibration: { itemsPerMagnitude: 20, minDelay: 1, maxDelay: 365 },
-};
+const prior = POWER_PRIOR;
+const spec = powerDesign().spec;
 
 function scenario(overrides: Partial<PowerScenario> = {}): PowerScenario {
   return {

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import binomialTest from '@stdlib/stats-binomial-test';
 import jstat from 'jstat';
 import { mcnemarExactTest, normalQuantile, sampleSizeFor, signTest, wilsonInterval } from '@/lib/design';
+import reference from '../../fixtures/reference/reference.json';
 
 const { jStat } = jstat as unknown as { jStat: { normal: { inv: (p: number, mean: number, sd: number) => number } } };
 
@@ -52,7 +53,8 @@ describe('sign test', () => {
 
 describe('Wilson score interval', () => {
   it('reproduces the Wilson intervals tabulated by Newcombe (1998, Stat Med 17:857–872, Table I, method 3)', () => {
-    // values (4 decimals) from memory of Newcombe's table; the table rounds to 4 decimals, so 5e-5 is the tolerance
+    // Newcombe's table rounds to 4 decimals, so 5e-5 is the tolerance; the same four cases to full
+    // precision are in the scipy fixture (next test)
     const cases: Array<[number, number, number, number]> = [
       [81, 263, 0.2553, 0.3662],
       [15, 148, 0.0624, 0.1605],
@@ -63,6 +65,15 @@ describe('Wilson score interval', () => {
       const interval = wilsonInterval(x, n);
       expect(Math.abs(interval.lower - lower)).toBeLessThan(5e-5 + 1e-12);
       expect(Math.abs(interval.upper - upper)).toBeLessThan(5e-5 + 1e-12);
+    }
+  });
+
+  it('matches scipy.stats.binomtest(...).proportion_ci(method="wilson") over n from 1 to 10,000, every edge, three levels (fixture: tests/fixtures/reference)', () => {
+    // the formula is closed; Φ⁻¹ (AS 241) is good to about 1e-16 relative, so a few ulps: 1e-14 absolute (measured worst 3.3e-16)
+    for (const c of reference.wilson) {
+      const interval = wilsonInterval(c.successes, c.trials, c.confidence);
+      expect(Math.abs(interval.lower - c.lower), `${c.successes}/${c.trials} at ${c.confidence}`).toBeLessThan(1e-14);
+      expect(Math.abs(interval.upper - c.upper), `${c.successes}/${c.trials} at ${c.confidence}`).toBeLessThan(1e-14);
     }
   });
 

@@ -62,7 +62,7 @@ describe('every name field of the shared schemas follows the rule', () => {
     },
   ] as const;
   for (const { schema, base, field } of cases) {
-    it(`refuses a lone surrogate in ${field} and names the field`, () => {
+    it(`bad input: a lone surrogate in ${field} is refused, naming the field`, () => {
       const result = (schema as unknown as { safeParse: (v: unknown) => { success: boolean; error?: { issues: Array<{ path: PropertyKey[] }> } } }).safeParse({
         ...base,
         [field]: 'Rainy \uD83C day',

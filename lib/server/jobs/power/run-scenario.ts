@@ -3,6 +3,7 @@ import path from 'node:path';
 import * as threads from 'node:worker_threads';
 import type { Worker } from 'node:worker_threads';
 import { mergeTallies } from '@/lib/design/power/tally';
+import { powerEnv } from '@/lib/server/env';
 import type { PowerScenario, PowerTally } from '@/lib/design/power/types';
 
 export type RunScenarioOptions = {
@@ -20,8 +21,8 @@ export type ScenarioOutcome = { tally: PowerTally; longestCalibrationDelay: numb
 
 /** Default worker count: POWER_WORKERS if set, else os.availableParallelism() (at most 8). */
 export function defaultWorkerCount(): number {
-  const configured = Number(process.env.POWER_WORKERS);
-  if (Number.isInteger(configured) && configured >= 1) return Math.min(configured, 16);
+  const configured = powerEnv().POWER_WORKERS;
+  if (configured !== undefined) return configured;
   return Math.max(1, Math.min(8, os.availableParallelism()));
 }
 

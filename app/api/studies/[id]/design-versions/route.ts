@@ -2,7 +2,7 @@ import { NextResponse } from 'next/server';
 import { route } from '@/lib/server/http/handler';
 import { requireRole } from '@/lib/server/auth/session';
 import { listVersions } from '@/lib/server/services/planner-designs';
-import { parseEntityId } from '@/lib/server/http/route-ids';
+import { parseEntityId } from '@/lib/server/route-ids';
 
 /** Frozen versions of the study, newest first; `?design=<id>` narrows to one design. */
 export const GET = route<{ id: string }>(async (request, { params }) => {

@@ -3,7 +3,7 @@ import { route } from '@/lib/server/http/handler';
 import { readJson } from '@/lib/server/http/read-json';
 import { requireRole } from '@/lib/server/auth/session';
 import { deleteDesign, designJson, getDesign, updateDesign } from '@/lib/server/services/planner-designs';
-import { parseEntityId } from '@/lib/server/http/route-ids';
+import { parseEntityId } from '@/lib/server/route-ids';
 import { designUpdateSchema } from '@/lib/shared/validations/planner';
 
 type Params = { id: string; designId: string };

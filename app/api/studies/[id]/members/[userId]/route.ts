@@ -4,13 +4,13 @@ import { NotFoundError } from '@/lib/server/errors';
 import { readJson } from '@/lib/server/http/read-json';
 import { requireRole } from '@/lib/server/auth/session';
 import { changeMemberRole, removeMember } from '@/lib/server/services/members';
-import { parseId } from '@/lib/server/auth/tokens';
+import { parseRouteId } from '@/lib/server/route-ids';
 import { memberRoleSchema } from '@/lib/shared/validations/team';
 
 type Params = { id: string; userId: string };
 
 function memberId(raw: string): number {
-  const id = parseId(raw);
+  const id = parseRouteId(raw);
   if (!id) throw new NotFoundError('This person is not a member of this study.');
   return id;
 }

@@ -2,7 +2,7 @@ import { NextResponse } from 'next/server';
 import { route } from '@/lib/server/http/handler';
 import { readJson } from '@/lib/server/http/read-json';
 import { requireRole } from '@/lib/server/auth/session';
-import { parseEntityId } from '@/lib/server/http/route-ids';
+import { parseEntityId } from '@/lib/server/route-ids';
 import { deletePrior, getPrior, priorJson, updatePrior } from '@/lib/server/services/priors';
 import { priorSetUpdateSchema } from '@/lib/shared/validations/planner';
 

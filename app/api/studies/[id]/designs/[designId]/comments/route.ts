@@ -3,7 +3,7 @@ import { route } from '@/lib/server/http/handler';
 import { readJson } from '@/lib/server/http/read-json';
 import { requireRole } from '@/lib/server/auth/session';
 import { addComment, listComments } from '@/lib/server/services/planner-comments';
-import { parseEntityId } from '@/lib/server/http/route-ids';
+import { parseEntityId } from '@/lib/server/route-ids';
 import { commentSchema } from '@/lib/shared/validations/planner';
 
 type Params = { id: string; designId: string };

@@ -3,7 +3,7 @@ import { route } from '@/lib/server/http/handler';
 import { requireRole } from '@/lib/server/auth/session';
 import { freezeDesignReporting, versionJson } from '@/lib/server/services/planner-designs';
 import { notifyDesignFrozen } from '@/lib/server/services/notices';
-import { parseEntityId } from '@/lib/server/http/route-ids';
+import { parseEntityId } from '@/lib/server/route-ids';
 
 /** Freezes the current draft into an immutable, content-hashed version (201; 200 when unchanged since the last freeze). */
 export const POST = route<{ id: string; designId: string }>(async (request, { params }) => {

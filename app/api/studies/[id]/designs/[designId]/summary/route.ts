@@ -1,7 +1,7 @@
 import { NextResponse } from 'next/server';
 import { route } from '@/lib/server/http/handler';
 import { requireRole } from '@/lib/server/auth/session';
-import { parseEntityId } from '@/lib/server/http/route-ids';
+import { parseEntityId } from '@/lib/server/route-ids';
 import { designSummary } from '@/lib/server/services/planner-summary';
 
 /** The numbers of the design page, recomputed on the server (the same function the browser runs). */

@@ -3,6 +3,7 @@ import { ValidationError } from '@/lib/server/errors';
 import { requireRole } from '@/lib/server/auth/session';
 import { EXPORT_FORMATS, exportRun, type ExportFormat } from '@/lib/server/services/power-export';
 import { parseRunId } from '@/lib/server/services/power-runs';
+import { parseRouteId } from '@/lib/server/route-ids';
 
 type Params = { id: string; runId: string };
 
@@ -17,8 +18,9 @@ export const GET = route<Params>(async (request, { params }) => {
   const format = (search.get('format') ?? 'svg') as ExportFormat;
   if (!EXPORT_FORMATS.includes(format)) throw new ValidationError([{ path: 'format', message: `Choose one of ${EXPORT_FORMATS.join(', ')}.` }]);
   const compare = search.getAll('compare').map((raw) => {
-    if (!/^\d{1,10}$/.test(raw)) throw new ValidationError([{ path: 'compare', message: 'Compare with the id of a finished run of this study.' }]);
-    return Number(raw);
+    const id = parseRouteId(raw);
+    if (id === null) throw new ValidationError([{ path: 'compare', message: 'Compare with the id of a finished run of this study.' }]);
+    return id;
   });
   if (compare.length > 3) throw new ValidationError([{ path: 'compare', message: 'Compare at most four runs on one chart.' }]);
   const file = await exportRun(study.id, parseRunId(p.runId), format, compare);
