@@ -19,6 +19,8 @@ test('the demo operator creates an API key, downloads the item bank and sees a p
   const secret = (await page.getByTestId('new-secret').textContent())!.trim();
   expect(secret).toMatch(/^sbk_/);
   await expect(page.getByTestId('api-key-row').filter({ hasText: keyName })).toBeVisible();
+  // the keys table names the design and its version number, not a database id
+  await expect(page.getByTestId('api-key-row').filter({ hasText: keyName }).getByTestId('api-key-version')).toHaveText(/^.+, version \d+$/);
   await page.screenshot(shot('item-bank-api-key'));
 
   // The item bank of that version as CSV, with the hash and seed in its name and header.
