@@ -5,8 +5,12 @@
 // participant; γ = 10 per large amount, ε = 0.02; 4 probe pairs, 2 late and 2 soon anchors;
 // exact McNemar, one-sided, α = 0.05; N = 20, 40, …, 200; 2,000 replications; seed 1.
 // Target: the whole curve in 5 s or less on a 2-core machine.
+// S1 + stress: the same with two stress truths added (delay sensitivity s ~ U(0.4, 0.9) per
+// participant, and choices half as sensitive, γ × 0.5): three curves, 6,000 replicates in all.
+// Target: the whole run in 5 s or less on a 2-core machine.
 import { summarisePower, type PowerScenario } from '@/lib/design/power';
-import { defaultWorkerCount, runScenario } from '@/lib/server/jobs/power/run-scenario';
+import { stressScenarios, type StressTruth } from '@/lib/design/power';
+import { defaultWorkerCount, runScenario, runScenarios } from '@/lib/server/jobs/power/run-scenario';
 import { POWER_PRIOR, powerDesign } from '../tests/support/frozen-design';
 
 const prior = POWER_PRIOR;
@@ -21,6 +25,11 @@ export const S1: PowerScenario = {
   seed: 1,
 };
 
+export const S1_STRESS: StressTruth[] = [
+  { kind: 'delay-sensitivity', low: 0.4, high: 0.9 },
+  { kind: 'choice-noise', factor: 0.5 },
+];
+
 export async function runPowerBench(): Promise<void> {
   const workers = defaultWorkerCount();
   const started = performance.now();
@@ -33,4 +42,22 @@ export async function runPowerBench(): Promise<void> {
   for (const p of summary.points) {
     console.log(`  N = ${String(p.n).padStart(3)}: power ${(100 * p.power).toFixed(1)} % (Wilson 95 % ${(100 * p.lower).toFixed(1)}–${(100 * p.upper).toFixed(1)} %), mean reversals ${p.meanReversals.toFixed(2)}`);
   }
+
+  const scenarios = stressScenarios(S1, S1_STRESS);
+  const startedStress = performance.now();
+  const outcomes = await runScenarios(scenarios, { workers });
+  const secondsStress = (performance.now() - startedStress) / 1000;
+  if (!outcomes) throw new Error('S1 with stress truths did not finish');
+  console.log(`\nPower simulation S1 + 2 stress truths (3 × ${S1.replications} replications, ${workers} worker threads, including their start-up)`);
+  console.log(`  whole run: ${secondsStress.toFixed(2)} s (target ≤ 5 s)`);
+  const labels = ['assumed truth', ...S1_STRESS.map((s) => (s.kind === 'delay-sensitivity' ? `s ~ U(${s.low}, ${s.high})` : s.kind === 'choice-noise' ? `γ × ${s.factor}` : s.kind))];
+  outcomes.forEach((outcome, i) => {
+    const summary = summarisePower(scenarios[i], outcome.tally, outcome.longestCalibrationDelay);
+    const at = (n: number) => summary.points.find((p) => p.n === n)!;
+    const last = summary.points[summary.points.length - 1];
+    console.log(
+      `  ${labels[i].padEnd(16)} power at N = 20: ${(100 * at(20).power).toFixed(1)} %, N = 100: ${(100 * at(100).power).toFixed(1)} %, N = 200: ${(100 * last.power).toFixed(1)} %; ` +
+        `probes in the true zone ${(100 * last.probesInTrueZone).toFixed(1)} %`,
+    );
+  });
 }

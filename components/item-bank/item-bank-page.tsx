@@ -76,6 +76,11 @@ export function ItemBankPage() {
                 <span className="font-mono" title="An API key with the same delay unit, gap and seed shows the same id; send it with calibration answers.">{preview.data.header.itemBankId}</span>
               </p>
               {preview.data.extrapolation ? <Notice tone="warning" title="Probe delays beyond the calibration range">{preview.data.extrapolation.message}</Notice> : null}
+              {preview.data.extrapolationRisk ? (
+                <Notice tone={preview.data.extrapolationRisk.outside > 0.5 ? 'warning' : 'info'} title="If delay sensitivity is below 1">
+                  <span data-testid="extrapolation-risk">{preview.data.extrapolationRisk.message}</span>
+                </Notice>
+              ) : null}
               {preview.data.notes.map((n) => (
                 <Notice key={n} tone="warning">
                   {n}

@@ -11,7 +11,8 @@ import { useVersions, type VersionDto } from '@/lib/client/planner';
 import { useStartPowerRun } from '@/lib/client/power';
 import { DEFAULT_CHOICE_SENSITIVITY } from '@/lib/design/designChoiceModel';
 import { MODEL_CHOICES } from '@/lib/shared/validations/planner';
-import { assumedTruth, DEFAULT_LAPSE, DEFAULT_POWER_TEST, parseSampleSizes, POWER_TEST_LABELS, POWER_TESTS, powerRunSpecSchema } from '@/lib/shared/validations/power';
+import { STRESS_DEFAULTS, STRESS_KINDS } from '@/lib/design/power/stressTruth';
+import { assumedTruth, DEFAULT_LAPSE, STRESS_LABELS, DEFAULT_POWER_TEST, parseSampleSizes, POWER_TEST_LABELS, POWER_TESTS, powerRunSpecSchema } from '@/lib/shared/validations/power';
 
 type Values = Record<string, string>;
 
@@ -45,7 +46,26 @@ function fromVersion(v: VersionDto | undefined, previous: Values): Values {
   };
 }
 
-const DEFAULTS: Values = { label: '', gamma: String(DEFAULT_CHOICE_SENSITIVITY), lapse: String(DEFAULT_LAPSE), calibration: 'simulated', test: DEFAULT_POWER_TEST, alpha: '0.05', alternative: 'greater', sizes: '20:200:20', replications: '500', seed: '1' };
+const DEFAULTS: Values = { label: '', gamma: String(DEFAULT_CHOICE_SENSITIVITY), lapse: String(DEFAULT_LAPSE), calibration: 'simulated', test: DEFAULT_POWER_TEST, alpha: '0.05', alternative: 'greater', sizes: '20:200:20', replications: '500', seed: '1',
+  // the known way to miss the zone is simulated unless the user unticks it
+  'stress.delay-sensitivity': 'on',
+  stressLow: String(STRESS_DEFAULTS['delay-sensitivity'].low),
+  stressHigh: String(STRESS_DEFAULTS['delay-sensitivity'].high),
+  stressBeta: String(STRESS_DEFAULTS['present-bias'].beta),
+  stressFactor: String(STRESS_DEFAULTS['choice-noise'].factor),
+};
+
+/** The stress truths ticked in the form, with their parameters. */
+function stressOf(v: Values) {
+  const on = (kind: string) => v[`stress.${kind}`] === 'on';
+  return [
+    ...(on('delay-sensitivity') ? [{ kind: 'delay-sensitivity' as const, low: Number(v.stressLow), high: Number(v.stressHigh) }] : []),
+    ...(on('no-magnitude-effect') ? [{ kind: 'no-magnitude-effect' as const }] : []),
+    ...(on('present-bias') ? [{ kind: 'present-bias' as const, beta: Number(v.stressBeta) }] : []),
+    ...(on('choice-noise') ? [{ kind: 'choice-noise' as const, factor: Number(v.stressFactor) }] : []),
+    ...(on('other-model') ? [{ kind: 'other-model' as const }] : []),
+  ];
+}
 
 /** Starts a run: the frozen version, the simulated truth (prefilled as the design assumes), the test and the simulation size. */
 export function NewRunForm() {
@@ -79,6 +99,7 @@ export function NewRunForm() {
         lapse: Number(current.lapse),
       },
       calibration: current.calibration,
+      stress: stressOf(current),
       test: { kind: current.test, alpha: Number(current.alpha), alternative: current.alternative },
       sampleSizes: sizes ?? [],
       replications: Number(current.replications),
@@ -142,6 +163,34 @@ export function NewRunForm() {
             <option value="simulated">Simulated, rates re-estimated</option>
             <option value="known">Not simulated: rates known</option>
           </SelectField>
+        </div>
+      </fieldset>
+      <fieldset className="space-y-3">
+        <legend className="text-sm font-semibold">Stress truths</legend>
+        <p className="text-xs text-ink-soft">
+          Each ticked deviation from the truth above is simulated as well, with the same design, test and seed; the results show power under each beside the assumed truth.
+        </p>
+        <div className="grid gap-2 sm:grid-cols-2">
+          {STRESS_KINDS.map((kind) => {
+            const key = `stress.${kind}`;
+            const i = stressOf(current).findIndex((s) => s.kind === kind);
+            return (
+              <div key={kind} className="space-y-2 rounded border border-ink/10 p-3">
+                <label className="flex items-start gap-2 text-sm">
+                  <input type="checkbox" className="mt-1" checked={current[key] === 'on'} onChange={(e) => setValues({ ...current, [key]: e.target.checked ? 'on' : '' })} />
+                  <span>{STRESS_LABELS[kind]}</span>
+                </label>
+                {current[key] === 'on' && kind === 'delay-sensitivity' ? (
+                  <div className="grid grid-cols-2 gap-2">
+                    <TextField label="Lowest s" inputMode="decimal" value={current.stressLow} onChange={set('stressLow')} error={err(`stress.${i}.low`)} />
+                    <TextField label="Highest s" inputMode="decimal" value={current.stressHigh} onChange={set('stressHigh')} error={err(`stress.${i}.high`)} />
+                  </div>
+                ) : null}
+                {current[key] === 'on' && kind === 'present-bias' ? <TextField label="Present bias β" inputMode="decimal" value={current.stressBeta} onChange={set('stressBeta')} error={err(`stress.${i}.beta`)} /> : null}
+                {current[key] === 'on' && kind === 'choice-noise' ? <TextField label="γ factor" inputMode="decimal" value={current.stressFactor} onChange={set('stressFactor')} error={err(`stress.${i}.factor`)} /> : null}
+              </div>
+            );
+          })}
         </div>
       </fieldset>
       <fieldset className="space-y-3">

@@ -7,7 +7,7 @@ import { Notice } from '@/components/ui/notice';
 import { Table, Td, Th } from '@/components/ui/table';
 import type { SampleSizeAnswer } from '@/lib/design/power/sampleSizeFor';
 import { powerExportUrl, type PowerRunDto } from '@/lib/client/power';
-import { testWarning } from '@/lib/shared/validations/power';
+import { monteCarloNote, runNotes, runSeries } from '@/lib/shared/power-figure';
 import { PowerChart } from './power-chart';
 
 const pct = (v: number) => `${(v * 100).toFixed(1)} %`;
@@ -30,21 +30,27 @@ export function RunResults({ run, studyId }: { run: PowerRunDto; studyId: number
   if (!result) return null;
   const { summary } = result;
   const label = run.label || `${run.design.name} v${run.design.number}`;
-  const warning = testWarning(run.spec.test.kind);
-  const notes = warning ? [warning] : [];
+  const notes = runNotes(run.spec, result);
+  const monteCarlo = monteCarloNote(result, run.spec.replications);
+  const R = summary.replicates;
   return (
     <div className="space-y-6">
       {summary.warnings.length ? (
         <Notice tone="warning" title="Read before using these numbers">
           <ul className="list-disc space-y-1 pl-5" data-testid="power-warnings">
-            {summary.warnings.map((w) => (
-              <li key={w.kind}>{w.message}</li>
+            {summary.warnings.map((w, i) => (
+              <li key={i}>{w.message}</li>
             ))}
           </ul>
         </Notice>
       ) : null}
       <Card title="Power curve">
-        <PowerChart series={[{ label, points: summary.points }]} title={`Power: ${label}`} caption={`${run.spec.replications} replications, seed ${run.spec.seed}.`} notes={notes} />
+        <PowerChart series={runSeries(label, result)} title={`Power: ${label}`} caption={`${run.spec.replications} replications, seed ${run.spec.seed}.`} notes={notes} />
+        {monteCarlo ? (
+          <p className="mt-2 text-sm font-semibold text-amber-800" data-testid="monte-carlo-note">
+            {monteCarlo}
+          </p>
+        ) : null}
         <dl className="mt-4 grid gap-2 text-sm sm:grid-cols-2">
           <div>
             <dt className="font-semibold">Sample size for 80 % power</dt>
@@ -63,12 +69,14 @@ export function RunResults({ run, studyId }: { run: PowerRunDto; studyId: number
           ))}
         </div>
       </Card>
-      <Table caption="Power by sample size">
+      {result.stress.length ? <StressTable run={run} result={result} /> : null}
+      <Table caption={result.stress.length ? 'Power by sample size under the assumed truth' : 'Power by sample size'}>
         <thead>
           <tr>
             <Th>N</Th>
             <Th>Power</Th>
             <Th>Wilson 95 %</Th>
+            {monteCarlo ? <Th>Monte Carlo SE</Th> : null}
             <Th>Mean reversals</Th>
             <Th>Probe patterns</Th>
             <Th>Anchor patterns (late · soon)</Th>
@@ -83,6 +91,7 @@ export function RunResults({ run, studyId }: { run: PowerRunDto; studyId: number
               <Td className="font-mono">
                 {pct(p.lower)} – {pct(p.upper)}
               </Td>
+              {monteCarlo ? <Td className="font-mono">±{pct(Math.sqrt((p.power * (1 - p.power)) / R))}</Td> : null}
               <Td className="font-mono">{p.meanReversals.toFixed(2)}</Td>
               <Td className="text-xs">{patternText(p.patterns.probe)}</Td>
               <Td className="text-xs">
@@ -112,5 +121,40 @@ export function RunResults({ run, studyId }: { run: PowerRunDto; studyId: number
         </p>
       </Card>
     </div>
+  );
+}
+
+/** Power under the assumed truth next to each stress truth, at the largest sample size simulated. */
+function StressTable({ run, result }: { run: PowerRunDto; result: NonNullable<PowerRunDto['result']> }) {
+  const rows = [{ key: 'assumed', label: 'Assumed truth (as the design assumes, or as set for this run)', summary: result.summary }, ...result.stress.map((s) => ({ key: s.stress.kind, label: `Stress: ${s.label}`, summary: s.summary }))];
+  const n = result.summary.points[result.summary.points.length - 1].n;
+  return (
+    <Table caption={`Power under each truth (N = ${n}, ${run.spec.replications} replications each)`}>
+      <thead>
+        <tr>
+          <Th>Truth</Th>
+          <Th>Power at N = {n}</Th>
+          <Th>Wilson 95 %</Th>
+          <Th>Sample size for 80 %</Th>
+          <Th>Probes inside the true zone</Th>
+        </tr>
+      </thead>
+      <tbody className="divide-y divide-ink/10" data-testid="stress-table">
+        {rows.map((r) => {
+          const p = r.summary.points[r.summary.points.length - 1];
+          return (
+            <tr key={r.key}>
+              <Td>{r.label}</Td>
+              <Td className="font-mono">{pct(p.power)}</Td>
+              <Td className="font-mono">
+                {pct(p.lower)} – {pct(p.upper)}
+              </Td>
+              <Td className="text-xs">{sampleSizeText(r.summary.sampleSizeFor80)}</Td>
+              <Td className="font-mono">{pct(p.probesInTrueZone)}</Td>
+            </tr>
+          );
+        })}
+      </tbody>
+    </Table>
   );
 }

@@ -1,7 +1,7 @@
 import type { Sequelize } from 'sequelize';
 import { createPowerSimulator, POWER_ENGINE_VERSION } from '../../lib/design/power';
-import { buildScenario, runResult } from '../../lib/shared/power-scenario';
-import { powerRunSpecSchema } from '../../lib/shared/validations/power';
+import { buildScenarios, runResult } from '../../lib/shared/power-scenario';
+import { assumedTruth, DEFAULT_POWER_TEST, powerRunSpecSchema } from '../../lib/shared/validations/power';
 import type { FrozenDesign } from '../../lib/shared/validations/planner';
 import { AuditEvent, DesignVersion, Membership, PowerRun, Study, User } from '../models';
 import { demoAccounts } from './demo-accounts.mjs';
@@ -12,7 +12,8 @@ export const DEMO_POWER_LABEL = 'Truth as the design assumes (demo)';
 
 
 /**
- * A small finished power run of the demo study's first frozen version, simulated here in
+ * A small finished power run of the demo study's first frozen version (the default participant-level
+ * test, the truth as the design assumes and one stress truth), simulated here in
  * process (no worker threads needed for 200 replicates). Seeds only when a frozen version
  * exists; safe to run again: a run with the demo label for that version is left alone.
  */
@@ -25,21 +26,25 @@ export async function seed(sequelize: Sequelize): Promise<void> {
   if (!version) return;
   if (await PowerRun.findOne({ where: { studyId: version.studyId, designVersionId: version.id, label: DEMO_POWER_LABEL } })) return;
   const content = decodeJson<FrozenDesign>(version.content);
-  const { name: _name, ...prior } = content.prior;
   const spec = powerRunSpecSchema.parse({
     designVersionId: version.id,
     label: DEMO_POWER_LABEL,
-    truth: { model: content.spec.model, prior, gamma: 10, lapse: 0.02 },
+    truth: assumedTruth(content),
     calibration: 'simulated',
-    test: { kind: 'mcnemar', alpha: 0.05, alternative: 'greater' },
+    stress: [{ kind: 'delay-sensitivity', low: 0.4, high: 0.9 }],
+    test: { kind: DEFAULT_POWER_TEST, alpha: 0.05, alternative: 'greater' },
     sampleSizes: [10, 20, 30, 40, 60, 80],
     replications: 200,
     seed: 2026,
   });
-  const scenario = buildScenario(spec, content);
-  const simulator = createPowerSimulator(scenario);
-  const tally = simulator.run(0, spec.replications);
-  const result: object = runResult(scenario, { tally, longestCalibrationDelay: simulator.longestCalibrationDelay }, { number: version.number, hash: version.hash, content });
+  const scenarios = buildScenarios(spec, content);
+  const outcomes = scenarios.map((scenario) => {
+    const simulator = createPowerSimulator(scenario);
+    return { tally: simulator.run(0, spec.replications), longestCalibrationDelay: simulator.longestCalibrationDelay };
+  });
+  const tally = outcomes[0].tally;
+  const result: object = runResult(scenarios, outcomes, { number: version.number, hash: version.hash, content }, spec.stress);
+  const total = spec.replications * scenarios.length;
   const now = new Date();
   await sequelize.transaction(async (transaction) => {
     const run = await PowerRun.create(
@@ -49,8 +54,8 @@ export async function seed(sequelize: Sequelize): Promise<void> {
         label: DEMO_POWER_LABEL,
         spec,
         status: 'finished',
-        completed: spec.replications,
-        total: spec.replications,
+        completed: total,
+        total,
         tally,
         result,
         engineVersion: POWER_ENGINE_VERSION,

@@ -9,12 +9,14 @@ import { ApiClientError, apiFetch } from './api';
 
 export type FrozenVersionDto = { id: number; number: number; hash: string; designName: string; mode: 'personalised' | 'population'; currency: string; frozenAt: string };
 export type ItemBankPreviewDto = {
-  header: { study: { id: number; name: string }; designVersion: { id: number; number: number; hash: string; name: string }; mode: string; seed: number; currency: string; delayUnit: string; amountUnit: number; minGap: number; probeGap: number; itemBankId: string };
+  header: { study: { id: number; name: string }; designVersion: { id: number; number: number; hash: string; name: string }; mode: string; seed: number; currency: string; delayUnit: string; amountUnit: number; minGap: number; probeGap: number; itemBankId: string; choiceModel: { sensitivity: number; lapse: number; unit: string } };
   designPoint: { kSmall: number; kLarge: number; soonDelay: number; lateDelay: number };
   probeRule: string | null;
   items: BankItem[];
   rounding: RoundingReport;
   extrapolation: { message: string } | null;
+  /** simulated share of probe pairs outside the true zone under delay sensitivity below 1 (personalised designs) */
+  extrapolationRisk: { low: number; high: number; outside: number; outsideAssumed: number; message: string } | null;
   notes: string[];
 };
 export type ApiKeyDto = {

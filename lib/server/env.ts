@@ -53,12 +53,13 @@ const probeApiSchema = z.object({
   BROWSER_API_PER_SECOND: positiveOr(30),
 });
 
-const powerSchema = z.object({
-  POWER_WORKERS: z.preprocess((v) => {
-    const n = Number(v);
-    return v !== undefined && v !== '' && Number.isInteger(n) && n >= 1 ? Math.min(n, 16) : undefined;
-  }, z.number().int().min(1).max(16).optional()),
-});
+/** A worker-thread count: a whole number 1 or more (at most 16), anything else undefined (automatic). */
+const workerCount = z.preprocess((v) => {
+  const n = Number(v);
+  return v !== undefined && v !== '' && Number.isInteger(n) && n >= 1 ? Math.min(n, 16) : undefined;
+}, z.number().int().min(1).max(16).optional());
+
+const powerSchema = z.object({ POWER_WORKERS: workerCount, ANALYSIS_WORKERS: workerCount });
 
 function parse<T extends z.ZodType>(schema: T): z.infer<T> {
   const parsed = schema.safeParse(process.env);
@@ -107,7 +108,7 @@ export function probeApiEnv() {
   return parse(probeApiSchema);
 }
 
-/** POWER_WORKERS: the power simulation's worker threads, a whole number 1–16, or undefined (automatic). */
+/** Worker threads, each a whole number 1–16 or undefined (automatic): POWER_WORKERS for power runs, ANALYSIS_WORKERS for results refits. */
 export function powerEnv() {
   return parse(powerSchema);
 }

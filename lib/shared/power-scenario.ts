@@ -1,9 +1,9 @@
 import { optimiseLateDelay } from '@/lib/design/optimiseLateDelay';
 import { locateFor } from './item-bank-plan';
-import { methodText, POWER_ENGINE_VERSION, summarisePower, type PowerSummary, type PowerTally } from '@/lib/design/power';
+import { createPowerSimulator, describeStress, methodText, POWER_ENGINE_VERSION, STRESS_DEFAULTS, stressScenarios, summarisePower, type PowerSummary, type PowerTally, type PowerWarning, type StressTruth } from '@/lib/design/power';
 import type { PowerScenario } from '@/lib/design/power/types';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
-import type { PowerRunSpec } from '@/lib/shared/validations/power';
+import { assumedTruth, type PowerRunSpec } from '@/lib/shared/validations/power';
 import packageJson from '@/package.json';
 
 /** "Switchback 0.1.0 (power engine 1)": the software version every run and method text cites. */
@@ -45,17 +45,125 @@ export function buildScenario(spec: PowerRunSpec, content: FrozenDesign): PowerS
   };
 }
 
-/** What a finished run stores as its result: the summary, the method paragraph, the software and the soon delay used. */
+/** The engine's scenarios of a run: the assumed truth first, then one per stress truth (runs saved before stress truths have none). */
+export function buildScenarios(spec: PowerRunSpec, content: FrozenDesign): PowerScenario[] {
+  return stressScenarios(buildScenario(spec, content), spec.stress ?? []);
+}
+
+/** Power under one stress truth, as a finished run stores it. */
+export type StressResult = { stress: StressTruth; label: string; summary: PowerSummary };
+
+export type PowerRunResult = { summary: PowerSummary; methodText: string; software: string; soonDelay: number; stress: StressResult[] };
+
+/**
+ * What a finished run stores as its result: the summary under the assumed truth, one per
+ * stress truth, the method paragraph, the software and the soon delay used. Under a stress
+ * truth that draws delay sensitivity below 1, the share of probe pairs outside the true zone is
+ * reported as a warning of the assumed summary: the extrapolation risk, simulated, not a rule.
+ */
 export function runResult(
-  scenario: PowerScenario,
-  outcome: { tally: PowerTally; longestCalibrationDelay: number | null },
+  scenarios: readonly PowerScenario[],
+  outcomes: ReadonlyArray<{ tally: PowerTally; longestCalibrationDelay: number | null }>,
   version: { number: number; hash: string; content: FrozenDesign },
-): { summary: PowerSummary; methodText: string; software: string; soonDelay: number } {
-  const summary = summarisePower(scenario, outcome.tally, outcome.longestCalibrationDelay);
-  const text = methodText(scenario, summary, {
-    software: POWER_SOFTWARE,
-    designLabel: `${version.content.spec.name}, frozen version ${version.number}`,
-    designHash: version.hash,
-  });
-  return { summary, methodText: text, software: POWER_SOFTWARE, soonDelay: scenario.design.soonDelay };
+  stress: readonly StressTruth[] = [],
+): PowerRunResult {
+  const summary = summarisePower(scenarios[0], outcomes[0].tally, outcomes[0].longestCalibrationDelay);
+  const stressed = stress.map((s, i): StressResult => ({
+    stress: s,
+    label: describeStress(s),
+    summary: summarisePower(scenarios[i + 1], outcomes[i + 1].tally, outcomes[i + 1].longestCalibrationDelay),
+  }));
+  summary.warnings.push(...stressWarnings(summary, stressed));
+  const text = methodText(
+    scenarios[0],
+    summary,
+    { software: POWER_SOFTWARE, designLabel: `${version.content.spec.name}, frozen version ${version.number}`, designHash: version.hash },
+    stressed,
+  );
+  return { summary, methodText: text, software: POWER_SOFTWARE, soonDelay: scenarios[0].design.soonDelay, stress: stressed };
+}
+
+function pct(v: number): string {
+  return `${(Math.round(v * 1000) / 10).toFixed(1)} %`;
+}
+
+function stressWarnings(assumed: PowerSummary, stressed: readonly StressResult[]): PowerWarning[] {
+  const warnings: PowerWarning[] = [];
+  const last = assumed.points[assumed.points.length - 1];
+  for (const s of stressed) {
+    const point = s.summary.points[s.summary.points.length - 1];
+    if (s.stress.kind === 'delay-sensitivity') {
+      warnings.push({
+        kind: 'extrapolation-risk',
+        message:
+          `Under delay sensitivity drawn from U(${s.stress.low}, ${s.stress.high}), ${pct(1 - point.probesInTrueZone)} of probe pairs fell outside the participants' true reversal zone ` +
+          `(${pct(1 - last.probesInTrueZone)} under the assumed truth; simulated at N = ${point.n}).`,
+      });
+    }
+    if (last.power - point.power > 0.1) {
+      warnings.push({ kind: 'stress', message: `Under ${s.label}, power at N = ${point.n} drops to ${pct(point.power)} (assumed truth: ${pct(last.power)}).` });
+    }
+  }
+  return warnings;
+}
+
+/** The extrapolation risk of a frozen design, computed by simulation (extrapolationRisk). */
+export type ExtrapolationRisk = {
+  low: number;
+  high: number;
+  participants: number;
+  /** share of probe pairs outside the participant's true reversal zone under the stress */
+  outside: number;
+  /** the same share when the truth is as the design assumes */
+  outsideAssumed: number;
+  message: string;
+};
+
+/**
+ * How often a personalised design's probe pairs would miss the true reversal zone when true
+ * delay sensitivity is below 1, computed rather than judged by a delay ratio: `participants`
+ * simulated people (seeded) answer the design's calibration block under the design's truth
+ * with s drawn from U(low, high) (stressTruth 'delay-sensitivity'), their rates are
+ * re-estimated as the probe-items API does, their probes are built from the estimates, and the
+ * share of probe pairs outside each person's true zone is counted; the same under the truth
+ * the design assumes is given beside it. Null for population designs (no calibration block).
+ */
+export function extrapolationRisk(
+  content: FrozenDesign,
+  options: { low?: number; high?: number; participants?: number; seed?: number } = {},
+): ExtrapolationRisk | null {
+  if (content.spec.mode !== 'personalised') return null;
+  const low = options.low ?? STRESS_DEFAULTS['delay-sensitivity'].low;
+  const high = options.high ?? STRESS_DEFAULTS['delay-sensitivity'].high;
+  const participants = options.participants ?? 400;
+  const spec = {
+    designVersionId: 1,
+    label: '',
+    truth: assumedTruth(content),
+    calibration: 'simulated' as const,
+    stress: [],
+    test: { kind: 'sign' as const, alpha: 0.05, alternative: 'greater' as const },
+    sampleSizes: [participants],
+    replications: 1,
+    seed: options.seed ?? 1,
+  };
+  const [assumed, stressed] = stressScenarios(buildScenario(spec, content), [{ kind: 'delay-sensitivity', low, high }]);
+  const outsideShare = (scenario: PowerScenario) => {
+    const tally = createPowerSimulator(scenario).run(0, 1);
+    const pairs = tally.patterns.probe[0].reduce((a, b) => a + b, 0);
+    return pairs > 0 ? 1 - tally.probesInTrueZone[0] / pairs : 0;
+  };
+  const outside = outsideShare(stressed);
+  const outsideAssumed = outsideShare(assumed);
+  return {
+    low,
+    high,
+    participants,
+    outside,
+    outsideAssumed,
+    message:
+      `Under delay sensitivity drawn from U(${low}, ${high}), ${pct(outside)} of probe pairs would fall outside the true reversal zone ` +
+      `(${pct(outsideAssumed)} when delay sensitivity is 1, as the design assumes); simulated for ${participants} participants answering this calibration block, ` +
+      'rates re-estimated as the probe-items API does.',
+  };
 }

@@ -3,7 +3,7 @@ import { expect, test } from '@playwright/test';
 import { openDemoStudy, shot, signInAs } from './helpers';
 
 test.describe('power simulation', () => {
-  test('the demo editor starts a run, watches its progress bar move and downloads the figure', async ({ page }) => {
+  test('the demo editor starts a run with stress truths, watches its progress bar move, sees power under each truth and downloads the figure', async ({ page }) => {
     test.setTimeout(240_000);
     await signInAs(page, 'editor');
     await openDemoStudy(page);
@@ -13,7 +13,11 @@ test.describe('power simulation', () => {
     const form = page.getByRole('form', { name: 'New power run' });
     await form.getByLabel('Label (shown in legends)').fill(label);
     await form.getByLabel('Sample sizes').fill('50:300:50');
-    await form.getByLabel('Replications').fill('3000');
+    await form.getByLabel('Replications').fill('1500');
+    // the delay-sensitivity stress is ticked by default; add noisier choices
+    await expect(form.getByLabel('Delay sensitivity below 1, drawn per participant')).toBeChecked();
+    await form.getByLabel('Noisier choices (γ times a factor)').check();
+    await expect(form.getByLabel('γ factor')).toHaveValue('0.5');
     await page.screenshot(shot('power-new-run'));
     await form.getByRole('button', { name: 'Start simulation' }).click();
 
@@ -33,7 +37,16 @@ test.describe('power simulation', () => {
     await expect(page.getByTestId('power-chart').locator('svg')).toBeVisible();
     await expect(page.getByTestId('method-text')).toContainText('sign test at the participant level');
     await expect(page.getByTestId('n-for-80')).not.toBeEmpty();
+    const truths = page.getByTestId('stress-table').locator('tr');
+    await expect(truths).toHaveCount(3);
+    await expect(truths.nth(1)).toContainText('delay sensitivity s drawn per participant from U(0.4, 0.9)');
+    await expect(truths.nth(2)).toContainText('noisier choices (γ × 0.5)');
+    await expect(page.getByTestId('method-text')).toContainText('2 stress truth(s)');
+    await expect(page.getByTestId('power-chart')).toContainText('Stress: s ~ U(0.4, 0.9)');
+    await page.getByTestId('power-chart').scrollIntoViewIfNeeded();
     await page.screenshot(shot('power-results'));
+    await page.getByTestId('stress-table').scrollIntoViewIfNeeded();
+    await page.screenshot(shot('power-stress-table'));
 
     const [png] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download PNG (300 dpi)' }).click()]);
     expect(png.suggestedFilename()).toMatch(/^power-run-\d+\.png$/);
@@ -41,7 +54,9 @@ test.describe('power simulation', () => {
     expect(bytes.subarray(1, 4).toString()).toBe('PNG');
     expect(bytes.readUInt32BE(16)).toBe(1950); // 6.5 in at 300 dpi
     const [svg] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download SVG' }).click()]);
-    expect(readFileSync((await svg.path())!, 'utf8')).toContain(label);
+    const svgText = readFileSync((await svg.path())!, 'utf8');
+    expect(svgText).toContain(label);
+    expect(svgText).toContain('Stress: noisier choices (γ × 0.5)');
   });
 
   test('a viewer opens runs but cannot start one', async ({ page }) => {

@@ -69,6 +69,8 @@ describe('one choice sensitivity per frozen version', () => {
     // the item-bank export states it
     const preview = previewItemBank(study, version, exportOptionsSchema.parse({ format: 'json' }));
     expect(preview.header.choiceModel).toEqual({ sensitivity: GAMMA, lapse: 0, unit: 'per unit of the larger amount' });
+    // and the item-bank page's extrapolation risk is simulated with the same design (and so the same γ)
+    expect(preview.extrapolationRisk?.message).toMatch(/^Under delay sensitivity drawn from U\(0\.4, 0\.9\), \d+\.\d % of probe pairs would fall outside the true reversal zone/);
 
     // the probe-items API estimates with it and says so
     const keyReply = await createKey(await requestAs(team.operator, 'POST', `/api/studies/${study.id}/api-keys`, { json: { name: 'Survey', designVersionId: version.id } }), ctx({ id: String(study.id) }));

@@ -10,7 +10,7 @@ import { contentHash } from '@/lib/shared/canonical-json';
 import { pngInfo } from '@/lib/server/figures/png';
 import { markInterruptedRuns } from '@/lib/server/services/power-runner';
 import { runScenario } from '@/lib/server/jobs/power/run-scenario';
-import { buildScenario } from '@/lib/shared/power-scenario';
+import { buildScenario, runResult } from '@/lib/shared/power-scenario';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpecInput } from '@/lib/shared/validations/power';
 import { POWER_PRIOR, powerDesign } from '../support/frozen-design';
@@ -130,6 +130,7 @@ describe('power runs', () => {
     expect(svgText).toContain('not a clinical assessment');
     expect(svgText).toContain('Wilson 95 %');
     expect(svgText).toContain('Pooled McNemar test assumes independent pairs');
+    expect(svgText).toContain('Fewer than 1,000 replications (20): Monte Carlo standard error up to');
 
     const png = Buffer.from(await (await download(team.viewer, study.id, a.id, 'format=png')).arrayBuffer());
     expect(png.subarray(1, 4).toString()).toBe('PNG');
@@ -214,5 +215,63 @@ describe('power runs', () => {
     const early = await download(team.viewer, study.id, running.id, 'format=csv');
     expect(early.status).toBe(409);
     await cancelRun(await requestAs(team.editor, 'POST', `/api/studies/${study.id}/power-runs/${running.id}/cancel`), ctx({ id: String(study.id), runId: String(running.id) }));
+  });
+
+  it('simulates stress truths beside the assumed one and shows power under each in the result, the figure and the CSV', async () => {
+    const { study, team } = await makeStudyWithTeam('Power stress');
+    const version = await frozenVersion(study.id, team.owner.id);
+    const stress = [{ kind: 'delay-sensitivity', low: 0.4, high: 0.9 }, { kind: 'choice-noise', factor: 0.5 }];
+    const response = await start(team.editor, study.id, { ...runSpec(version.id, { replications: 20, test: { kind: 'sign', alpha: 0.05, alternative: 'greater' } }), stress });
+    expect(response.status).toBe(202);
+    const { run } = await response.json();
+    expect(run.total).toBe(60); // 20 replicates under each of three truths
+    const finished = await waitFor(team.viewer, study.id, run.id, (r) => r.status === 'finished');
+    expect(finished.completed).toBe(60);
+    expect(finished.result.stress.map((s: { stress: { kind: string } }) => s.stress.kind)).toEqual(['delay-sensitivity', 'choice-noise']);
+    expect(finished.result.stress[0].summary.points.map((p: { n: number }) => p.n)).toEqual([5, 10, 20]);
+    expect(finished.result.methodText).toContain('2 stress truth(s)');
+    expect(finished.result.methodText).toMatch(/Monte Carlo standard error of up to/);
+    expect(finished.result.summary.warnings.map((w: { kind: string }) => w.kind)).toContain('extrapolation-risk');
+
+    const svg = await (await download(team.viewer, study.id, run.id, 'format=svg')).text();
+    expect(svg).toContain('Stress: s ~ U(0.4, 0.9)');
+    expect(svg).toContain('Stress: noisier choices (γ × 0.5)');
+    expect(svg).toContain('Fewer than 1,000 replications (20)');
+    const csv = (await (await download(team.viewer, study.id, run.id, 'format=csv')).text()).trim().split('\n');
+    expect(csv).toHaveLength(1 + 3 * 3);
+    expect(csv.filter((line) => line.startsWith('"s ~ U(0.4, 0.9)"'))).toHaveLength(3);
+
+    // a stress truth out of range is a 422 naming its field
+    const bad = await start(team.editor, study.id, { ...runSpec(version.id), stress: [{ kind: 'present-bias', beta: 1.5 }] });
+    expect(bad.status).toBe(422);
+    expect(JSON.stringify(await bad.json())).toContain('stress.0.beta');
+  });
+
+  it('still opens a run saved before stress truths and participant-level tests existed, with its stored test name', async () => {
+    const { study, team } = await makeStudyWithTeam('Power old run');
+    const version = await frozenVersion(study.id, team.owner.id);
+    const { stress: _none, ...oldSpec } = { ...runSpec(version.id), stress: [] };
+    const scenario = buildScenario({ ...oldSpec, label: '', stress: [] } as never, version.content as FrozenDesign);
+    const outcome = await runScenario(scenario, { workers: 1 });
+    const { stress: _s, ...oldResult } = runResult([scenario], [outcome!], { number: 1, hash: version.hash, content: version.content as FrozenDesign });
+    const row = await PowerRun.create({
+      studyId: study.id,
+      designVersionId: version.id,
+      label: 'Saved last year',
+      spec: oldSpec as never, // as stored before: no stress list
+      status: 'finished',
+      completed: 40,
+      total: 40,
+      tally: outcome!.tally,
+      result: oldResult,
+      engineVersion: '1',
+      createdBy: team.owner.id,
+    });
+    const opened = await read(team.viewer, study.id, row.id);
+    expect(opened.spec.test.kind).toBe('mcnemar');
+    expect(opened.spec.stress).toEqual([]);
+    expect(opened.result.stress).toEqual([]);
+    const svg = await (await download(team.viewer, study.id, row.id, 'format=svg')).text();
+    expect(svg).toContain('Pooled McNemar test assumes independent pairs');
   });
 });

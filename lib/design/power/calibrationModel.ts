@@ -54,15 +54,18 @@ export class CalibrationModel {
     this.blocks = [block('small'), block('large')];
   }
 
-  /** Simulates one magnitude's answers from a true rate (0 = small, 1 = large) and returns the estimate. */
-  answer(magnitude: 0 | 1, trueRate: number, random: SeededRandom): CalibrationEstimate {
+  /**
+   * Simulates one magnitude's answers from a true rate (0 = small, 1 = large) and the
+   * participant's true delay sensitivity s, and returns the estimate.
+   */
+  answer(magnitude: 0 | 1, trueRate: number, s: number, random: SeededRandom): CalibrationEstimate {
     const { truth } = this.scenario;
     const block = this.blocks[magnitude];
-    const s = truth.model.sensitivity ?? 1;
     const beta = truth.model.presentBias ?? 1;
+    const bias = truth.presentBias ?? 1; // every later delay here is > 0
     let key = 1; // a leading 1 keeps the bits readable
     for (let i = 0; i < block.count; i++) {
-      const gap = discountAt(truth.model.id, trueRate, s, beta, block.laterDelay[i]) - block.soonerShare[i];
+      const gap = bias * discountAt(truth.model.id, trueRate, s, beta, block.laterDelay[i]) - block.soonerShare[i];
       const later = random.uniform() < probabilityLarger(truth.gamma, truth.lapse, gap) ? 1 : 0;
       this.bits[i] = later;
       key = key * 2 + later;

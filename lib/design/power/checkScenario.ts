@@ -35,6 +35,16 @@ export function checkScenario(scenario: PowerScenario): void {
   checkModel(truth.model);
   checkPrior(truth.prior, 'truth.prior');
   checkChoiceModel({ sensitivity: truth.gamma, lapse: truth.lapse }, 'truth');
+  if (truth.sensitivityRange !== undefined) {
+    const { low, high } = truth.sensitivityRange ?? {};
+    if (!['hyperboloid', 'power-delay', 'exponential-power'].includes(truth.model.id)) {
+      throw new DesignInputError('truth.sensitivityRange', 'a range only for a true model with a delay sensitivity s', truth.model.id);
+    }
+    if (!(low > 0 && high >= low && high < Infinity)) throw new DesignInputError('truth.sensitivityRange', 'a range 0 < low ≤ high', truth.sensitivityRange);
+  }
+  if (truth.presentBias !== undefined && !(truth.presentBias > 0 && truth.presentBias <= 1)) {
+    throw new DesignInputError('truth.presentBias', 'a present bias β above 0 and at most 1', truth.presentBias);
+  }
   if (scenario.calibration !== 'simulated' && scenario.calibration !== 'known') throw new DesignInputError('calibration', "'simulated' or 'known'", scenario.calibration);
   if (!POWER_TEST_KINDS.includes(test?.kind)) throw new DesignInputError('test.kind', POWER_TEST_KINDS.map((k) => `'${k}'`).join(', '), test?.kind);
   if (!(test.alpha > 0 && test.alpha < 1)) throw new DesignInputError('test.alpha', 'a number strictly between 0 and 1', test.alpha);

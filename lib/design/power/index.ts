@@ -11,6 +11,7 @@ export { emptyTally, mergeTallies } from './tally';
 export { summarisePower, describeModel, type PowerPoint, type PowerSummary, type PowerWarning, type PatternShares } from './summarisePower';
 export { methodText, type MethodTextContext } from './methodText';
 export { probeSet, type ProbeSet } from './probeSet';
+export { applyStress, describeStress, stressLegend, stressScenarios, STRESS_DEFAULTS, STRESS_KINDS, type StressKind, type StressTruth } from './stressTruth';
 export { PAIR_ROLES, POWER_TEST_KINDS, type PairRole, type PowerDesign, type PowerScenario, type PowerTally, type PowerTestKind, type PowerTruth } from './types';
 
 /** Version of the simulation engine; runs store it so a changed engine is visible in their method text. */

@@ -46,7 +46,12 @@ function answer(a: SampleSizeAnswer, label: string): string {
  * The method paragraph of a power run, stating every simulation setting, the test, the
  * results at 80 % and 90 % power and the software version, for a grant or a preregistration.
  */
-export function methodText(scenario: PowerScenario, summary: PowerSummary, context: MethodTextContext): string {
+export function methodText(
+  scenario: PowerScenario,
+  summary: PowerSummary,
+  context: MethodTextContext,
+  stress: ReadonlyArray<{ label: string; summary: PowerSummary }> = [],
+): string {
   const { design, truth, test } = scenario;
   const spec = design.spec;
   const sizes = scenario.sampleSizes;
@@ -79,8 +84,33 @@ export function methodText(scenario: PowerScenario, summary: PowerSummary, conte
       `and identically distributed. Replicate r used its own generator seeded from the run seed ${scenario.seed}, so the results do not depend on how replicates were split between threads.`,
     `Power was ${pct(first.power)} (${pct(first.lower)}–${pct(first.upper)}) at N = ${first.n} and ${pct(last.power)} (${pct(last.lower)}–${pct(last.upper)}) at N = ${last.n}; ` +
       `${answer(summary.sampleSizeFor80, '80 %')}, and ${answer(summary.sampleSizeFor90, '90 %')}.`,
+    ...stressSentences(summary, stress),
+    ...monteCarloSentence(scenario.replications, [summary, ...stress.map((t) => t.summary)]),
     'These are estimates from simulated hypothetical choices under the stated assumptions, not a clinical assessment of any person.',
   ].join(' ');
+}
+
+function stressSentences(summary: PowerSummary, stress: ReadonlyArray<{ label: string; summary: PowerSummary }>): string[] {
+  if (stress.length === 0) return ['Only the assumed truth was simulated: no stress truths (deviations from the design\u2019s assumptions) were added.'];
+  const last = summary.points[summary.points.length - 1];
+  const parts = stress.map((t) => {
+    const p = t.summary.points[t.summary.points.length - 1];
+    return `${t.label}: ${pct(p.power)} (${pct(p.lower)}–${pct(p.upper)}) at N = ${p.n}, with ${pct(p.probesInTrueZone)} of probe pairs inside the true reversal zone, and ${answer(t.summary.sampleSizeFor80, '80 %')}`;
+  });
+  return [
+    `To show how power depends on these assumptions, the same design, test and seeds were simulated under ${stress.length} stress truth(s), each one named deviation of the simulated participants from the assumed truth ` +
+      `(against ${pct(last.power)} at N = ${last.n} and ${pct(last.probesInTrueZone)} of probe pairs inside the true zone under the assumed truth): ${parts.join('; ')}.`,
+  ];
+}
+
+function monteCarloSentence(replications: number, summaries: readonly PowerSummary[]): string[] {
+  if (replications >= 1000) return [];
+  let worst = 0;
+  for (const s of summaries) for (const p of s.points) worst = Math.max(worst, Math.sqrt((p.power * (1 - p.power)) / replications));
+  return [
+    `With fewer than 1,000 replicates (${replications}), each power value carries a Monte Carlo standard error of up to ${(100 * worst).toFixed(1)} percentage points ` +
+      '(√(p(1 − p)/R), the largest over the curves); the Wilson intervals above include this error.',
+  ];
 }
 
 function pct(v: number): string {

@@ -35,7 +35,8 @@ export type PowerSimulator = {
  * them, a population design, a participant flagged all-sooner, all-later or non-monotone, or
  * one with no zone at the estimates gets the fallback set built at the design prior's
  * medians. Every pair's two choices come from the truth: P(LL far) = choice(γ, ε, A) and
- * P(SS near) = choice(γ, ε, B).
+ * P(SS near) = choice(γ, ε, B). A stress truth (stressTruth) may draw each participant's delay
+ * sensitivity from a range, set K = k, or multiply every delayed value by a present bias β.
  *
  * @throws DesignInputError for a scenario out of range, or a design whose prior medians have no reversal zone
  */
@@ -85,8 +86,11 @@ function simulateReplicate(
   const nMax = sizes[sizes.length - 1];
   const rates = priorPoints(truth.prior, { method: 'monte-carlo', count: nMax, random });
   const id = truth.model.id;
-  const s = truth.model.sensitivity ?? 1;
+  const modelS = truth.model.sensitivity ?? 1;
   const beta = truth.model.presentBias ?? 1;
+  const bias = truth.presentBias ?? 1;
+  const range = truth.sensitivityRange;
+  const sameRates = truth.magnitudeEffect === false;
   const x = design.spec.ratio;
   const personal = design.spec.mode === 'personalised';
   // running totals over the participants so far: patterns [role*4 + pattern], then counters
@@ -99,15 +103,16 @@ function simulateReplicate(
   let checkpoint = 0;
   for (let i = 0; i < nMax; i++) {
     const kTrue = rates.kSmall[i];
-    const KTrue = rates.kLarge[i];
+    const KTrue = sameRates ? kTrue : rates.kLarge[i];
+    const s = range ? range.low + (range.high - range.low) * random.uniform() : modelS;
     let probes = fallback;
     if (personal) {
       let kHat = kTrue;
       let KHat = KTrue;
       let useFallback = false;
       if (calibration) {
-        const small = calibration.answer(0, kTrue, random);
-        const large = calibration.answer(1, KTrue, random);
+        const small = calibration.answer(0, kTrue, s, random);
+        const large = calibration.answer(1, KTrue, s, random);
         kHat = small.rate;
         KHat = large.rate;
         if (small.flagged || large.flagged) flagged++;
@@ -119,7 +124,8 @@ function simulateReplicate(
     }
     // the fallback set may use the design point's soon delay
     const d = probes === fallback && design.designPoint ? design.designPoint.soonDelay : design.soonDelay;
-    const farSoon = x * discountAt(id, kTrue, s, beta, d);
+    // the truth's value of a reward after D days (as a share of its amount); present bias spares D = 0 only
+    const farSoon = x * bias * discountAt(id, kTrue, s, beta, d);
     let probeLS = 0;
     let probeSL = 0;
     let anchorLS = 0;
@@ -128,8 +134,8 @@ function simulateReplicate(
       const delays = probes[ROLES[role]];
       for (let j = 0; j < delays.length; j++) {
         const D = delays[j];
-        const far = discountAt(id, KTrue, s, beta, D) - farSoon;
-        const near = x - discountAt(id, KTrue, s, beta, D - d);
+        const far = bias * discountAt(id, KTrue, s, beta, D) - farSoon;
+        const near = x - bias * discountAt(id, KTrue, s, beta, D - d);
         const farSooner = random.uniform() >= probabilityLarger(truth.gamma, truth.lapse, far);
         const nearSooner = random.uniform() < probabilityLarger(truth.gamma, truth.lapse, near);
         const pattern = (farSooner ? 2 : 0) + (nearSooner ? 1 : 0); // LL, LS, SL, SS

@@ -23,7 +23,7 @@ export type PowerPoint = {
   probesInTrueZone: number;
 };
 
-export type PowerWarning = { kind: 'model-mismatch' | 'misplaced-probes' | 'extrapolation' | 'flagged' | 'underpowered'; message: string };
+export type PowerWarning = { kind: 'model-mismatch' | 'misplaced-probes' | 'extrapolation' | 'extrapolation-risk' | 'stress' | 'flagged' | 'underpowered'; message: string };
 
 export type PowerSummary = {
   points: PowerPoint[];

@@ -37,6 +37,12 @@ export type PowerTruth = {
   gamma: number;
   /** lapse rate ε */
   lapse: number;
+  /** stress: each participant's delay sensitivity s drawn uniformly from [low, high] instead of the model's s */
+  sensitivityRange?: { low: number; high: number };
+  /** stress: false makes each participant discount the large reward at their small-reward rate (K = k) */
+  magnitudeEffect?: boolean;
+  /** stress: present bias β (0 < β < 1) multiplying every delayed value of the model, on top of it */
+  presentBias?: number;
 };
 
 /** Everything one power simulation needs (pure data; the app stores it with the run). */

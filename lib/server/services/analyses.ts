@@ -14,6 +14,7 @@ import packageJson from '@/package.json';
 import { recordAudit } from './audit';
 import { loadVersion } from './item-bank';
 import { loadStudyData } from './observed-choices';
+import { parseEntityId } from '@/lib/server/route-ids';
 
 /** "Switchback 0.1.0 (analysis engine 1)": the software every saved analysis cites. */
 export const ANALYSIS_SOFTWARE = `Switchback ${packageJson.version} (analysis engine ${ANALYSIS_ENGINE_VERSION})`;
@@ -121,9 +122,7 @@ export async function getAnalysis(studyId: number, analysisId: number): Promise<
 
 /** An analysis id from a route segment; anything else is a missing analysis. */
 export function parseAnalysisId(raw: string): number {
-  const id = Number(raw);
-  if (!/^\d{1,10}$/.test(raw) || !Number.isSafeInteger(id) || id <= 0) throw new NotFoundError('Analysis not found.');
-  return id;
+  return parseEntityId(raw, 'Analysis');
 }
 
 export const ANALYSIS_EXPORTS = ['csv', 'json', 'patterns.svg', 'patterns.png', 'zones.svg', 'zones.png'] as const;

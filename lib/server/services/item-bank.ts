@@ -7,6 +7,7 @@ import { CHOICE_SENSITIVITY_UNIT, DesignInputError, designChoiceModel, type Bank
 import type { Study } from '@/db/models';
 import { exportOptionsSchema, type ExportOptions } from '@/lib/shared/validations/item-bank';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
+import { extrapolationRisk, type ExtrapolationRisk } from '@/lib/shared/power-scenario';
 import { recordAudit } from './audit';
 import { bankFor, defaultSeed } from '@/lib/shared/item-bank-plan';
 import { itemBankId, presentationOf } from './item-bank-id';
@@ -51,6 +52,17 @@ export function bankOrInvalid(version: { hash: string; content: FrozenDesign }, 
   }
 }
 
+const risks = new Map<string, ExtrapolationRisk | null>();
+
+/** The simulated extrapolation risk of a version, computed once per process (frozen content never changes). */
+function riskFor(version: DesignVersion): ExtrapolationRisk | null {
+  if (!risks.has(version.hash)) {
+    if (risks.size >= 64) risks.delete(risks.keys().next().value!);
+    risks.set(version.hash, extrapolationRisk(version.content as FrozenDesign));
+  }
+  return risks.get(version.hash)!;
+}
+
 /** What the item-bank page shows: the items, rounding report, warnings and the file header. */
 export function previewItemBank(study: Study, version: DesignVersion, options: ExportOptions) {
   const { bank } = bankOrInvalid(version, options);
@@ -81,6 +93,7 @@ export function previewItemBank(study: Study, version: DesignVersion, options: E
     items: bank.items,
     rounding: bank.rounding,
     extrapolation: bank.extrapolation,
+    extrapolationRisk: riskFor(version),
     notes: bank.notes,
   };
 }

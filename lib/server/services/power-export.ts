@@ -2,8 +2,10 @@ import { Parser } from '@json2csv/plainjs';
 import { embeddedFontCss } from '@/lib/server/figures/embedded-font';
 import { figurePng } from '@/lib/server/figures/png';
 import { powerCurveSvg, type PowerFigureOptions, type PowerSeries } from '@/lib/shared/figures/power-curve';
+import { stressLegend } from '@/lib/design/power';
 import { PAIR_ROLES } from '@/lib/design/power/types';
-import { testWarning } from '@/lib/shared/validations/power';
+import { neutraliseRows } from '@/lib/shared/csv/formula-guard';
+import { runNotes, runSeries } from '@/lib/shared/power-figure';
 import { finishedResult, type PowerRunDto, type PowerResultDto } from './power-runs';
 
 export const EXPORT_FORMATS = ['svg', 'png', 'csv', 'json'] as const;
@@ -18,41 +20,59 @@ function series(run: PowerRunDto, result: PowerResultDto): PowerSeries {
   return { label: runLabel(run), points: result.summary.points };
 }
 
-/** The figure of one run, or of several on one chart (the first gives the title). */
+/** The figure of one run (its assumed truth and each stress truth), or of several runs on one chart (the first gives the title). */
 export function runFigureSvg(runs: Array<{ run: PowerRunDto; result: PowerResultDto }>, extra: Pick<PowerFigureOptions, 'fontCss'> = {}): string {
   const first = runs[0];
   const caption =
     runs.length === 1
       ? `${first.run.spec.replications} replications, seed ${first.run.spec.seed}; ${first.result.software}; design ${first.run.design.hash.slice(0, 12)}.`
       : `${first.result.software}.`;
-  const notes = [...new Set(runs.map((r) => testWarning(r.run.spec.test.kind)).filter((n): n is string => n !== null))];
-  return powerCurveSvg(
-    runs.map((r) => series(r.run, r.result)),
-    { title: runs.length === 1 ? `Power: ${runLabel(first.run)}` : 'Power: compared runs', caption, notes, ...extra },
-  );
+  const notes = [...new Set(runs.flatMap((r) => runNotes(r.run.spec, r.result)))];
+  return powerCurveSvg(runs.length === 1 ? runSeries(runLabel(first.run), first.result) : runs.map((r) => series(r.run, r.result)), {
+    title: runs.length === 1 ? `Power: ${runLabel(first.run)}` : 'Power: compared runs',
+    caption,
+    notes,
+    ...extra,
+  });
 }
 
-/** CSV, one row per sample size: power, interval, mean reversals, pattern shares per role, flags. */
+/**
+ * CSV, one row per truth and sample size (the assumed truth first, then each stress truth):
+ * power, interval, Monte Carlo standard error, mean reversals, pattern shares per role, flags,
+ * and the truth's choice sensitivity γ per unit of the larger amount. Every cell goes through
+ * the formula guard.
+ */
 export function runCsv(run: PowerRunDto, result: PowerResultDto): string {
-  const rows = result.summary.points.map((p) => {
-    const row: Record<string, number | string> = {
-      n: p.n,
-      power: p.power,
-      wilson_lower: p.lower,
-      wilson_upper: p.upper,
-      rejections: p.rejections,
-      replicates: result.summary.replicates,
-      mean_reversals_per_participant: p.meanReversals,
-    };
-    for (const role of PAIR_ROLES) for (const pattern of ['LL', 'LS', 'SL', 'SS'] as const) row[`${role}_${pattern}`] = p.patterns[role][pattern];
-    row.flagged_share = p.flaggedShare;
-    row.fallback_share = p.fallbackShare;
-    row.probes_in_true_zone = p.probesInTrueZone;
-    row.design_hash = run.design.hash;
-    row.seed = run.spec.seed;
-    return row;
-  });
-  return new Parser().parse(rows);
+  const replicates = result.summary.replicates;
+  const curves = [
+    { truth: 'assumed', gamma: run.spec.truth.gamma, summary: result.summary },
+    ...(result.stress ?? []).map((s) => ({ truth: stressLegend(s.stress), gamma: s.stress.kind === 'choice-noise' ? run.spec.truth.gamma * s.stress.factor : run.spec.truth.gamma, summary: s.summary })),
+  ];
+  const rows = curves.flatMap((curve) =>
+    curve.summary.points.map((p) => {
+      const row: Record<string, number | string> = {
+        truth: curve.truth,
+        n: p.n,
+        power: p.power,
+        wilson_lower: p.lower,
+        wilson_upper: p.upper,
+        monte_carlo_se: Math.sqrt((p.power * (1 - p.power)) / replicates),
+        rejections: p.rejections,
+        replicates,
+        mean_reversals_per_participant: p.meanReversals,
+      };
+      for (const role of PAIR_ROLES) for (const pattern of ['LL', 'LS', 'SL', 'SS'] as const) row[`${role}_${pattern}`] = p.patterns[role][pattern];
+      row.flagged_share = p.flaggedShare;
+      row.fallback_share = p.fallbackShare;
+      row.probes_in_true_zone = p.probesInTrueZone;
+      row.choice_sensitivity_per_larger_amount = curve.gamma;
+      row.test = run.spec.test.kind;
+      row.design_hash = run.design.hash;
+      row.seed = run.spec.seed;
+      return row;
+    }),
+  );
+  return new Parser().parse(neutraliseRows(rows));
 }
 
 /** Everything a reader needs to check a run: spec, design, results, method text, software. */
@@ -64,6 +84,7 @@ export function runJson(run: PowerRunDto, result: PowerResultDto) {
     soonDelay: result.soonDelay,
     software: result.software,
     summary: result.summary,
+    stress: result.stress ?? [],
     methodText: result.methodText,
   };
 }

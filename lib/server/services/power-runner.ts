@@ -4,8 +4,8 @@ import { DesignVersion, PowerRun } from '@/db/models';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpec } from '@/lib/shared/validations/power';
 import { notifyPowerRunFinished } from './notices';
-import { buildScenario, runResult } from '@/lib/shared/power-scenario';
-import { runScenario } from '@/lib/server/jobs/power/run-scenario';
+import { buildScenarios, runResult } from '@/lib/shared/power-scenario';
+import { runScenarios } from '@/lib/server/jobs/power/run-scenario';
 import { decodeJson } from '@/db/json';
 
 /** Runs executing in this process, with their cancel flags (on globalThis to survive dev reloads). */
@@ -61,27 +61,30 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
   }, HEARTBEAT_MS);
   try {
     const spec = decodeJson<PowerRunSpec>(run.spec);
-    const scenario = buildScenario(spec, decodeJson<FrozenDesign>(version.content));
+    const content = decodeJson<FrozenDesign>(version.content);
+    const scenarios = buildScenarios(spec, content);
+    const total = scenarios.reduce((sum, s) => sum + s.replications, 0);
     let lastWrite = 0;
-    const outcome = await runScenario(scenario, {
+    const outcomes = await runScenarios(scenarios, {
       workers: options.workers,
       shouldStop: () => state.cancel,
       onProgress: async (completed) => {
         const t = Date.now();
-        if (t - lastWrite < 250 && completed < scenario.replications) return;
+        if (t - lastWrite < 250 && completed < total) return;
         lastWrite = t;
         await PowerRun.update({ completed, heartbeatAt: new Date() }, { where: { id: runId, status: 'running' } }).catch((error) =>
           console.warn(`[switchback] power run ${runId}: progress not written (${error instanceof Error ? error.message : error})`),
         );
       },
     });
-    if (!outcome) return; // cancelled: the cancel already wrote the status
-    const result: object = runResult(scenario, outcome, { number: version.number, hash: version.hash, content: decodeJson<FrozenDesign>(version.content) });
+    if (!outcomes) return; // cancelled: the cancel already wrote the status
+    const result: object = runResult(scenarios, outcomes, { number: version.number, hash: version.hash, content }, spec.stress ?? []);
     const [stored] = await PowerRun.update(
       {
         status: 'finished',
-        completed: scenario.replications,
-        tally: outcome.tally,
+        completed: total,
+        // the assumed truth's tally (the stress truths' summaries are in the result)
+        tally: outcomes[0].tally,
         result,
         finishedAt: new Date(),
         heartbeatAt: new Date(),

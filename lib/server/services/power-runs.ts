@@ -3,17 +3,18 @@ import { db } from '@/db';
 import { DesignVersion, PowerRun, User } from '@/db/models';
 import { ApiError, ConflictError, NotFoundError, ValidationError } from '@/lib/server/errors';
 import { parseEntityId } from '@/lib/server/route-ids';
-import { createPowerSimulator, POWER_ENGINE_VERSION, type PowerSummary } from '@/lib/design/power';
+import { createPowerSimulator, POWER_ENGINE_VERSION } from '@/lib/design/power';
 import { DesignInputError } from '@/lib/design/DesignInputError';
 import { activeRuns, launchRun, markInterruptedRuns, requestCancel, STALE_MS } from './power-runner';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpec, PowerStatus } from '@/lib/shared/validations/power';
 import { recordAudit } from './audit';
-import { buildScenario } from '@/lib/shared/power-scenario';
+import { buildScenarios, type PowerRunResult } from '@/lib/shared/power-scenario';
 import { decodeJson } from '@/db/json';
 
 
-export type PowerResultDto = { summary: PowerSummary; methodText: string; software: string; soonDelay: number };
+/** A finished run's result; runs saved before stress truths existed read with none. */
+export type PowerResultDto = PowerRunResult;
 
 export type PowerRunDto = {
   id: number;
@@ -35,6 +36,15 @@ export type PowerRunDto = {
   result: PowerResultDto | null;
 };
 
+function readResult(result: PowerResultDto): PowerResultDto {
+  return { ...result, stress: result.stress ?? [] };
+}
+
+/** A stored spec, with the stress list runs saved before stress truths lack. */
+function readSpec(spec: PowerRunSpec): PowerRunSpec {
+  return { ...spec, stress: spec.stress ?? [] };
+}
+
 function toDto(row: PowerRun, version: DesignVersion, creator: User | null, withResult: boolean): PowerRunDto {
   const content = decodeJson<FrozenDesign>(version.content);
   let secondsLeft: number | null = null;
@@ -51,14 +61,14 @@ function toDto(row: PowerRun, version: DesignVersion, creator: User | null, with
     percent: row.total > 0 ? Math.floor((100 * row.completed) / row.total) : 0,
     secondsLeft,
     message: row.message ?? null,
-    spec: decodeJson<PowerRunSpec>(row.spec),
+    spec: readSpec(decodeJson<PowerRunSpec>(row.spec)),
     design: { versionId: version.id, number: version.number, hash: version.hash, name: content.spec.name },
     engineVersion: row.engineVersion,
     createdBy: creator?.name ?? null,
     createdAt: row.createdAt.toISOString(),
     startedAt: row.startedAt?.toISOString() ?? null,
     finishedAt: row.finishedAt?.toISOString() ?? null,
-    result: withResult && row.result ? decodeJson<PowerResultDto>(row.result as PowerResultDto) : null,
+    result: withResult && row.result ? readResult(decodeJson<PowerResultDto>(row.result as PowerResultDto)) : null,
   };
 }
 
@@ -109,14 +119,14 @@ export async function createPowerRun(actorId: number, studyId: number, spec: Pow
   const version = await DesignVersion.findOne({ where: { id: spec.designVersionId, studyId } });
   if (!version) throw new ValidationError([{ path: 'designVersionId', message: 'Choose a frozen design version of this study.' }]);
   try {
-    createPowerSimulator(buildScenario(spec, decodeJson<FrozenDesign>(version.content)));
+    for (const scenario of buildScenarios(spec, decodeJson<FrozenDesign>(version.content))) createPowerSimulator(scenario);
   } catch (error) {
     if (error instanceof DesignInputError) throw new ValidationError([{ path: error.field, message: error.message }]);
     throw error;
   }
   const row = await db().transaction(async (transaction) => {
     const created = await PowerRun.create(
-      { studyId, designVersionId: version.id, label: spec.label, spec, total: spec.replications, engineVersion: POWER_ENGINE_VERSION, createdBy: actorId, heartbeatAt: new Date() },
+      { studyId, designVersionId: version.id, label: spec.label, spec, total: spec.replications * (1 + spec.stress.length), engineVersion: POWER_ENGINE_VERSION, createdBy: actorId, heartbeatAt: new Date() },
       { transaction },
     );
     await recordAudit({ actorId, studyId, action: 'power-run.start', details: { runId: created.id, designVersionId: version.id, replications: spec.replications } }, transaction);

@@ -29,7 +29,7 @@ const LINE = 15;
 export const FIGURE = { width: 650, height: 420, inchesWide: 6.5, inchesHigh: 4.2 } as const;
 export const FIGURE_FONT = 'Source Sans 3';
 
-const COLOURS = ['#0f766e', '#b45309', '#4338ca', '#be123c'];
+const COLOURS = ['#0f766e', '#b45309', '#4338ca', '#be123c', '#6d28d9', '#0369a1'];
 const MARGIN = { top: 44, right: 24, bottom: 74, left: 64 };
 
 function escapeXml(text: string): string {

@@ -1,4 +1,4 @@
-import { scaleBand, scaleLinear, scaleLog } from 'd3';
+import { scaleBand, scaleLinear, scaleLog } from 'd3-scale';
 import { FIGURE } from './power-curve';
 import { ROLE_LABELS, SOURCE_LABELS } from '@/lib/shared/results/stored-analysis';
 import type { RolePatterns, ZoneDiagnosis } from '@/lib/design';

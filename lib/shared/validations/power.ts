@@ -49,12 +49,40 @@ export const DEFAULT_LAPSE = 0.02;
 
 export type PowerTruthValues = z.infer<typeof powerTruthSchema>;
 
+/** One stress truth of a run (lib/design/power/stressTruth): a named deviation from the assumed truth. */
+export const stressTruthSchema = z.discriminatedUnion('kind', [
+  z.strictObject({
+    kind: z.literal('delay-sensitivity'),
+    low: z.number({ error: 'The lowest delay sensitivity must be a number.' }).gt(0, 'The lowest delay sensitivity must be above 0.').max(1, 'The lowest delay sensitivity must be at most 1.'),
+    high: z.number({ error: 'The highest delay sensitivity must be a number.' }).gt(0, 'The highest delay sensitivity must be above 0.').max(1, 'The highest delay sensitivity must be at most 1.'),
+  }),
+  z.strictObject({ kind: z.literal('no-magnitude-effect') }),
+  z.strictObject({ kind: z.literal('present-bias'), beta: z.number({ error: 'Present bias β must be a number.' }).gt(0, 'Present bias β must be above 0.').lt(1, 'Present bias β must be below 1.') }),
+  z.strictObject({ kind: z.literal('choice-noise'), factor: z.number({ error: 'The γ factor must be a number.' }).gt(0, 'The γ factor must be above 0.').lt(1, 'The γ factor must be below 1.') }),
+  z.strictObject({ kind: z.literal('other-model') }),
+]);
+export type StressTruthValues = z.infer<typeof stressTruthSchema>;
+
+/** Labels of the stress truths in the new-run form. */
+export const STRESS_LABELS: Record<StressTruthValues['kind'], string> = {
+  'delay-sensitivity': 'Delay sensitivity below 1, drawn per participant',
+  'no-magnitude-effect': 'No magnitude effect (K = k)',
+  'present-bias': 'Present bias β on every delayed value',
+  'choice-noise': 'Noisier choices (γ times a factor)',
+  'other-model': 'The other model (exponential ↔ hyperbolic)',
+};
+
+/** Below this many replications the page and the method paragraph show the Monte Carlo error. */
+export const MONTE_CARLO_NOTE_BELOW = 1000;
+
 export const powerRunSpecSchema = z
   .strictObject({
     designVersionId: z.number({ error: 'Choose a frozen design version.' }).int().positive('Choose a frozen design version.'),
     label: nameText({ label: 'The label', min: 0, max: 120, tooLong: 'Keep the label under 120 characters.' }).default(''),
     truth: powerTruthSchema,
     calibration: z.enum(['simulated', 'known']),
+    /** stress truths simulated beside the assumed one; absent in runs saved before they existed */
+    stress: z.array(stressTruthSchema).max(5, 'Add at most five stress truths.').default([]),
     test: z.strictObject({
       kind: z.enum(POWER_TESTS),
       alpha: z.number().gt(0, 'α must be above 0.').max(0.5, 'α must be at most 0.5.'),
@@ -68,6 +96,14 @@ export const powerRunSpecSchema = z
     seed: z.number().int('The seed is a whole number.').min(0, 'The seed is 0 or more.').max(2147483647, 'The seed is at most 2147483647.'),
   })
   .superRefine((spec, ctx) => {
+    const kinds = new Set<string>();
+    spec.stress.forEach((stress, i) => {
+      if (kinds.has(stress.kind)) ctx.addIssue({ code: 'custom', path: ['stress', i, 'kind'], message: 'Add each stress truth once.' });
+      kinds.add(stress.kind);
+      if (stress.kind === 'delay-sensitivity' && stress.high < stress.low) {
+        ctx.addIssue({ code: 'custom', path: ['stress', i, 'high'], message: 'The highest delay sensitivity must be at least the lowest.' });
+      }
+    });
     spec.sampleSizes.forEach((n, i) => {
       if (i > 0 && n <= spec.sampleSizes[i - 1]) ctx.addIssue({ code: 'custom', path: ['sampleSizes', i], message: 'List sample sizes in increasing order, each once.' });
     });

@@ -3,11 +3,12 @@ import path from 'node:path';
 import * as threads from 'node:worker_threads';
 import type { Worker } from 'node:worker_threads';
 import type { ParticipantData, ParticipantRefit, RefitOptions } from '@/lib/design';
+import { powerEnv } from '@/lib/server/env';
 
 /** Default worker count: ANALYSIS_WORKERS if set, else the machine's available parallelism (at most 8). */
 export function defaultRefitWorkers(): number {
-  const configured = Number(process.env.ANALYSIS_WORKERS);
-  if (Number.isInteger(configured) && configured >= 1) return Math.min(configured, 16);
+  const configured = powerEnv().ANALYSIS_WORKERS;
+  if (configured !== undefined) return configured;
   return Math.max(1, Math.min(8, os.availableParallelism()));
 }
 

@@ -19,6 +19,9 @@ export type RunScenarioOptions = {
 
 export type ScenarioOutcome = { tally: PowerTally; longestCalibrationDelay: number | null } | null;
 
+/** Per scenario of a run (the assumed truth first, then each stress truth): its merged tally. */
+export type ScenariosOutcome = Array<{ tally: PowerTally; longestCalibrationDelay: number | null }> | null;
+
 /** Default worker count: POWER_WORKERS if set, else os.availableParallelism() (at most 8). */
 export function defaultWorkerCount(): number {
   const configured = powerEnv().POWER_WORKERS;
@@ -46,15 +49,27 @@ const WorkerThread: typeof Worker = Reflect.get(threads, 'Worker');
  * workers. A thrown error in a worker rejects; shouldStop() ends the run early (null).
  */
 export async function runScenario(scenario: PowerScenario, options: RunScenarioOptions = {}): Promise<ScenarioOutcome> {
-  const total = scenario.replications;
-  const chunkSize = options.chunkSize ?? Math.min(250, Math.max(10, Math.ceil(total / 40)));
-  const chunks: Array<[number, number]> = [];
-  for (let from = 0; from < total; from += chunkSize) chunks.push([from, Math.min(total, from + chunkSize)]);
+  const outcome = await runScenarios([scenario], options);
+  return outcome ? outcome[0] : null;
+}
+
+/**
+ * Runs several scenarios of one run (the assumed truth and its stress truths) on one pool of
+ * worker threads, chunk by chunk, so the threads start once; progress counts the replicates of
+ * every scenario. Each scenario's tally is merged on its own.
+ */
+export async function runScenarios(scenarios: readonly PowerScenario[], options: RunScenarioOptions = {}): Promise<ScenariosOutcome> {
+  const chunks: Array<{ index: number; from: number; to: number }> = [];
+  scenarios.forEach((scenario, index) => {
+    const total = scenario.replications;
+    const chunkSize = options.chunkSize ?? Math.min(250, Math.max(10, Math.ceil(total / 40)));
+    for (let from = 0; from < total; from += chunkSize) chunks.push({ index, from, to: Math.min(total, from + chunkSize) });
+  });
   const count = Math.max(1, Math.min(options.workers ?? defaultWorkerCount(), chunks.length));
   const key = `${Date.now()}-${Math.random()}`;
   const workers = Array.from({ length: count }, () => new WorkerThread(workerEntry()));
-  const tallies: PowerTally[] = [];
-  let longestCalibrationDelay: number | null = null;
+  const tallies: PowerTally[][] = scenarios.map(() => []);
+  const longest: Array<number | null> = scenarios.map(() => null);
   let completed = 0;
   let next = 0;
   let stopped = false;
@@ -68,10 +83,10 @@ export async function runScenario(scenario: PowerScenario, options: RunScenarioO
             stopped = true;
             break;
           }
-          const [from, to] = chunks[next++];
-          const reply = await ask(worker, { id: ++requestId, key, scenario, from, to });
-          tallies.push(reply.tally);
-          longestCalibrationDelay = reply.longestCalibrationDelay;
+          const { index, from, to } = chunks[next++];
+          const reply = await ask(worker, { id: ++requestId, key, index, scenario: scenarios[index], from, to });
+          tallies[index].push(reply.tally);
+          longest[index] = reply.longestCalibrationDelay;
           completed += to - from;
           await options.onProgress?.(completed);
         }
@@ -81,7 +96,7 @@ export async function runScenario(scenario: PowerScenario, options: RunScenarioO
     await Promise.all(workers.map((w) => w.terminate()));
   }
   if (stopped || options.shouldStop?.()) return null;
-  return { tally: mergeTallies(tallies), longestCalibrationDelay };
+  return tallies.map((parts, index) => ({ tally: mergeTallies(parts), longestCalibrationDelay: longest[index] }));
 }
 
 /** Resolves when a worker has loaded the engine and listens; rejects if it fails to start. */
@@ -113,7 +128,7 @@ function ready(worker: Worker): Promise<void> {
 
 type Reply = { id: number; tally: PowerTally; longestCalibrationDelay: number | null; error?: undefined } | { id: number; error: string };
 
-function ask(worker: Worker, request: { id: number; key: string; scenario: PowerScenario; from: number; to: number }) {
+function ask(worker: Worker, request: { id: number; key: string; index: number; scenario: PowerScenario; from: number; to: number }) {
   return new Promise<{ tally: PowerTally; longestCalibrationDelay: number | null }>((resolve, reject) => {
     const onMessage = (reply: Reply) => {
       if (reply.id !== request.id) return;
