@@ -13,20 +13,24 @@ export default async function WorkspaceLayout({ children }: { children: ReactNod
   return (
     <div className="flex min-h-screen flex-col">
       <header className="border-b border-ink/10 bg-paper-raised">
-        <div className="mx-auto flex max-w-6xl items-center justify-between gap-4 px-6 py-3">
+        {/* Wraps at phone width instead of pushing "Sign out" off the screen. */}
+        <div className="mx-auto flex max-w-6xl flex-wrap items-center justify-between gap-x-4 gap-y-2 px-4 py-3 sm:px-6">
           <Link href="/studies" aria-label="Switchback, your studies">
             <Wordmark />
           </Link>
-          <div className="flex items-center gap-4 text-sm">
+          <div className="flex min-w-0 flex-wrap items-center gap-x-4 gap-y-2 text-sm">
+            <Link href="/glossary" className="text-ink-soft hover:text-ink" data-testid="glossary-link">
+              Methods &amp; glossary
+            </Link>
             <WorkspaceLinks />
-            <span className="text-ink-soft" data-testid="current-user">
+            <span className="hidden max-w-[14rem] truncate text-ink-soft sm:inline" data-testid="current-user" title={user.email}>
               {user.name || user.email}
             </span>
             <SignOutButton />
           </div>
         </div>
       </header>
-      <main className="mx-auto w-full max-w-6xl flex-1 px-6 py-8">{children}</main>
+      <main className="mx-auto w-full min-w-0 max-w-6xl flex-1 px-4 py-8 sm:px-6">{children}</main>
       <CautionFooter />
     </div>
   );

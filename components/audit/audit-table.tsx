@@ -11,25 +11,51 @@ import {
   type ColumnFiltersState,
   type SortingState,
 } from '@tanstack/react-table';
-import { useMemo, useState } from 'react';
+import Link from 'next/link';
+import { Fragment, useMemo, useState } from 'react';
 import { buttonClass } from '@/components/ui/button';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { QueryState } from '@/components/ui/query-state';
 import { Table, Td, Th } from '@/components/ui/table';
 import { useStudyContext } from '@/components/studies/study-context';
-import { useAuditEvents, type AuditEventDto } from '@/lib/client/team';
+import { useAuditEvents, type AuditEventDto, type AuditNamesDto } from '@/lib/client/team';
 import { formatDateTime } from '@/lib/shared/format';
-import { describeAction, describeDetails } from './describe';
+import { describeAction, describeEvent, sentenceText, type SentencePart } from './describe';
 
 const column = createColumnHelper<AuditEventDto>();
 
-const columns = [
-  column.accessor('at', { header: 'When', cell: (c) => <span className="whitespace-nowrap">{formatDateTime(c.getValue())}</span>, enableColumnFilter: false }),
-  column.accessor('action', { header: 'What', cell: (c) => <span title={c.getValue()}>{describeAction(c.getValue())}</span>, filterFn: 'equalsString' }),
-  column.accessor((e) => e.actorName ?? e.actorEmail ?? 'a removed account', { id: 'actor', header: 'Who', filterFn: 'equalsString' }),
-  column.accessor((e) => describeDetails(e.details), { id: 'details', header: 'Details', enableSorting: false, cell: (c) => <span className="text-ink-soft [overflow-wrap:anywhere]">{c.getValue()}</span> }),
-];
+const NO_NAMES: AuditNamesDto = { designs: {}, versions: {}, priors: {}, users: {} };
+
+function Sentence({ parts }: { parts: SentencePart[] }) {
+  return (
+    <span className="[overflow-wrap:anywhere]">
+      {parts.map((p, i) =>
+        typeof p === 'string' ? (
+          <Fragment key={i}>{p}</Fragment>
+        ) : (
+          <Link key={i} href={p.href} className="text-teal-700 underline">
+            {p.text}
+          </Link>
+        ),
+      )}
+    </span>
+  );
+}
+
+function makeColumns(names: AuditNamesDto, studyId: number) {
+  return [
+    column.accessor('at', { header: 'When', cell: (c) => <span className="whitespace-nowrap">{formatDateTime(c.getValue())}</span>, enableColumnFilter: false }),
+    column.accessor('action', { header: 'What', cell: (c) => <span title={c.getValue()}>{describeAction(c.getValue())}</span>, filterFn: 'equalsString' }),
+    column.accessor((e) => e.actorName ?? e.actorEmail ?? 'a removed account', { id: 'actor', header: 'Who', filterFn: 'equalsString' }),
+    column.accessor((e) => sentenceText(describeEvent(e, names, studyId)), {
+      id: 'details',
+      header: 'Details',
+      enableSorting: false,
+      cell: (c) => <Sentence parts={describeEvent(c.row.original, names, studyId)} />,
+    }),
+  ];
+}
 
 function SortMark({ state }: { state: false | 'asc' | 'desc' }) {
   return <span aria-hidden="true">{state === 'asc' ? ' ▲' : state === 'desc' ? ' ▼' : ''}</span>;
@@ -40,6 +66,7 @@ export function AuditTable() {
   const { study } = useStudyContext();
   const query = useAuditEvents(study.id);
   const events = useMemo(() => query.data?.events ?? [], [query.data]);
+  const columns = useMemo(() => makeColumns(query.data?.names ?? NO_NAMES, study.id), [query.data, study.id]);
   const [sorting, setSorting] = useState<SortingState>([{ id: 'at', desc: true }]);
   const [columnFilters, setColumnFilters] = useState<ColumnFiltersState>([]);
   const [globalFilter, setGlobalFilter] = useState('');
@@ -114,7 +141,7 @@ export function AuditTable() {
                     return (
                       <Th key={header.id} aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}>
                         {header.column.getCanSort() ? (
-                          <button type="button" className="uppercase tracking-wide hover:text-ink" onClick={header.column.getToggleSortingHandler()}>
+                          <button type="button" className="hover:text-ink" onClick={header.column.getToggleSortingHandler()}>
                             {flexRender(header.column.columnDef.header, header.getContext())}
                             <SortMark state={sorted} />
                           </button>

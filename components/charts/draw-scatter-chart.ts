@@ -2,6 +2,7 @@ import { axisBottom, axisLeft } from 'd3-axis';
 import { scaleLog } from 'd3-scale';
 import { select } from 'd3-selection';
 import { line } from 'd3-shape';
+import { CHART_INK, CHART_TEXT, LEGEND_ROW, styleAxis, styleRoot } from './chart-style';
 
 export type ScatterSpec = {
   title: string;
@@ -33,15 +34,16 @@ export function drawScatterChart(svgEl: SVGSVGElement, spec: ScatterSpec): void 
   const height = spec.height ?? 380;
   const svg = select(svgEl).attr('viewBox', `0 0 ${width} ${height}`).attr('role', 'img').attr('aria-label', spec.title);
   svg.selectAll('*').remove();
+  styleRoot(svg);
   const innerW = width - MARGIN.left - MARGIN.right;
   const innerH = height - MARGIN.top - MARGIN.bottom;
   const x = scaleLog().domain(spec.domain).range([0, innerW]);
   const y = scaleLog().domain(spec.domain).range([innerH, 0]);
   const g = svg.append('g').attr('transform', `translate(${MARGIN.left},${MARGIN.top})`);
-  g.append('g').attr('transform', `translate(0,${innerH})`).call(axisBottom(x).ticks(5, '~g'));
-  g.append('g').call(axisLeft(y).ticks(5, '~g'));
-  g.append('text').attr('x', innerW / 2).attr('y', innerH + 36).attr('text-anchor', 'middle').attr('font-size', 11).attr('fill', '#4a5a5f').text(spec.xLabel);
-  g.append('text').attr('transform', 'rotate(-90)').attr('x', -innerH / 2).attr('y', -50).attr('text-anchor', 'middle').attr('font-size', 11).attr('fill', '#4a5a5f').text(spec.yLabel);
+  styleAxis(g.append('g').attr('transform', `translate(0,${innerH})`).call(axisBottom(x).ticks(5, '~g')));
+  styleAxis(g.append('g').call(axisLeft(y).ticks(5, '~g')));
+  g.append('text').attr('x', innerW / 2).attr('y', innerH + 38).attr('text-anchor', 'middle').attr('font-size', CHART_TEXT.label).attr('fill', CHART_INK.soft).text(spec.xLabel);
+  g.append('text').attr('transform', 'rotate(-90)').attr('x', -innerH / 2).attr('y', -50).attr('text-anchor', 'middle').attr('font-size', CHART_TEXT.label).attr('fill', CHART_INK.soft).text(spec.yLabel);
   let on = '';
   let off = '';
   for (let i = 0; i < spec.x.length; i++) {
@@ -60,14 +62,14 @@ export function drawScatterChart(svgEl: SVGSVGElement, spec: ScatterSpec): void 
     for (let i = 0; i < spec.line.x.length; i++) pts.push([x(spec.line.x[i]), y(spec.line.y[i])]);
     g.append('path').attr('d', line()(pts)).attr('fill', 'none').attr('stroke', '#c9861c').attr('stroke-width', 2.5).attr('data-series', spec.line.label);
   }
-  const legend = g.append('g').attr('transform', 'translate(8, 6)').attr('font-size', 10).attr('fill', '#1d2a2e');
+  const legend = g.append('g').attr('transform', 'translate(8, 6)').attr('font-size', CHART_TEXT.legend).attr('fill', CHART_INK.text);
   const rows = [
     { colour: '#17645d', label: spec.flagLabel ?? 'highlighted' },
     { colour: '#7d8b8f', label: spec.otherLabel ?? 'other' },
     ...(spec.line ? [{ colour: '#c9861c', label: spec.line.label }] : []),
   ];
   rows.forEach((r, i) => {
-    legend.append('circle').attr('cx', 4).attr('cy', i * 14 + 4).attr('r', 3.5).attr('fill', r.colour);
-    legend.append('text').attr('x', 12).attr('y', i * 14 + 8).text(r.label);
+    legend.append('circle').attr('cx', 4).attr('cy', i * LEGEND_ROW + 5).attr('r', 4).attr('fill', r.colour);
+    legend.append('text').attr('x', 13).attr('y', i * LEGEND_ROW + 9).text(r.label);
   });
 }

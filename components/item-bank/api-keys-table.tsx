@@ -2,12 +2,18 @@
 
 import { Button } from '@/components/ui/button';
 import { Table, Td, Th } from '@/components/ui/table';
-import { useRevokeApiKey, type ApiKeyDto } from '@/lib/client/item-bank';
+import { useFrozenVersions, useRevokeApiKey, type ApiKeyDto } from '@/lib/client/item-bank';
 import { formatDateTime } from '@/lib/shared/format';
 
 /** The study's keys with prefix, creator and last use; active keys can be revoked. */
 export function ApiKeysTable({ studyId, keys }: { studyId: number; keys: ApiKeyDto[] }) {
   const revoke = useRevokeApiKey(studyId);
+  // the design's name and version number instead of the version's database id
+  const versions = useFrozenVersions(studyId);
+  const versionName = (id: number) => {
+    const v = versions.data?.find((x) => x.id === id);
+    return v ? `${v.designName}, version ${v.number}` : 'a frozen version';
+  };
   if (keys.length === 0) return <p className="text-sm text-ink-soft">No keys yet.</p>;
   return (
     <Table caption="API keys">
@@ -32,7 +38,7 @@ export function ApiKeysTable({ studyId, keys }: { studyId: number; keys: ApiKeyD
               <span className="block text-xs text-ink-soft">{k.allowedOrigins.length ? k.allowedOrigins.join(', ') : 'no browser origins'}</span>
             </Td>
             <Td>
-              #{k.designVersionId}
+              <span data-testid="api-key-version">{versionName(k.designVersionId)}</span>
               {k.presentation ? (
                 <span className="block text-xs text-ink-soft">
                   {k.presentation.delayUnit}, gap {k.presentation.minGap}, seed {k.presentation.seed} · item bank <span className="font-mono">{k.itemBankId}</span>

@@ -25,7 +25,7 @@ export function ItemBankPage() {
   const options = { delayUnit, minGap, ...(/^\d+$/.test(seed) ? { seed: Number(seed) } : {}) };
   const preview = useItemBankPreview(study.id, versionId, options);
   if (!can('operator')) return <Notice tone="warning" title="Operators and above">Exporting the item bank needs the operator role or higher.</Notice>;
-  const href = (format: 'csv' | 'json') => `/api/studies/${study.id}/item-bank/${versionId}/export?${exportQuery({ ...options, format })}`;
+  const href = (format: ExportOptions['format']) => `/api/studies/${study.id}/item-bank/${versionId}/export?${exportQuery({ ...options, format })}`;
   return (
     <div className="space-y-6">
       <QueryState query={versions} label="Loading frozen versions…">
@@ -49,10 +49,20 @@ export function ItemBankPage() {
               <a className={buttonClass('primary')} href={href('csv')} download data-testid="download-csv">
                 Download CSV
               </a>
+              <a className={buttonClass('secondary')} href={href('metadata')} download data-testid="download-metadata">
+                Its metadata (JSON)
+              </a>
               <a className={buttonClass('secondary')} href={href('json')} download data-testid="download-json">
-                Download JSON
+                Items and metadata in one JSON
+              </a>
+              <a className={buttonClass('ghost')} href={href('csv-annotated')} download data-testid="download-csv-annotated">
+                CSV with “#” comment lines
               </a>
             </div>
+            <p className="mt-2 text-xs text-ink-soft">
+              The CSV is plain: one header row, then one row per item, ready for spreadsheets and survey tools. The study, design version, hash, seed, units and column
+              meanings are in its metadata file (or in the single JSON); keep them beside the CSV.
+            </p>
             <p className="mt-2 text-xs text-ink-soft">Each download is recorded in the study&apos;s audit trail. CSV cells that a spreadsheet could run as a formula are prefixed with an apostrophe.</p>
           </Card>
         )}

@@ -10,10 +10,13 @@ import { useStudyContext } from '@/components/studies/study-context';
 import { useFrozenVersions, useParticipants, type ParticipantDto } from '@/lib/client/item-bank';
 import { formatDateTime } from '@/lib/shared/format';
 import { BatchUpload } from './batch-upload';
+import { EstimateResolutionNote } from './estimate-resolution-note';
 import { ItemTable } from './item-table';
 import { SessionsCard } from './sessions-card';
+import { TermHelp } from '@/components/glossary/term-help';
 
-const rate = (r: ParticipantDto['kSmall']) => `${r.rate.toPrecision(3)}${r.standardErrorLog !== null ? ` (SE ln k ${r.standardErrorLog.toFixed(2)})` : ''}`;
+/** A rate with the standard error of its logarithm, named with the rate's own symbol (k small reward, K large). */
+const rate = (r: ParticipantDto['kSmall'], symbol: 'k' | 'K') => `${r.rate.toPrecision(3)}${r.standardErrorLog !== null ? ` (SE ln ${symbol} ${r.standardErrorLog.toFixed(2)})` : ''}`;
 
 /** Participants served through the API or a batch: estimates, flags, items; export and batch upload. */
 export function ParticipantsPage() {
@@ -37,12 +40,16 @@ export function ParticipantsPage() {
       >
         <QueryState query={participants} label="Loading participants…">
           {participants.data?.length ? (
+            <>
+            <EstimateResolutionNote />
             <Table caption="Participants served">
               <thead className="bg-paper-sunk">
                 <tr>
                   <Th>Participant</Th>
-                  <Th>kSmall per day</Th>
-                  <Th>kLarge per day</Th>
+                  <Th>
+                    <TermHelp id="estimate">k, small reward</TermHelp> (per day)
+                  </Th>
+                  <Th>K, large reward (per day)</Th>
                   <Th>Items</Th>
                   <Th>Via</Th>
                   <Th>Served</Th>
@@ -57,8 +64,8 @@ export function ParticipantsPage() {
                           {p.participantId}
                         </button>
                       </Td>
-                      <Td className="tabular-nums">{rate(p.kSmall)}</Td>
-                      <Td className="tabular-nums">{rate(p.kLarge)}</Td>
+                      <Td className="tabular-nums">{rate(p.kSmall, 'k')}</Td>
+                      <Td className="tabular-nums">{rate(p.kLarge, 'K')}</Td>
                       <Td>
                         {p.itemSet}
                         {p.flag ? <span className="ml-1 rounded bg-amber-50 px-1 text-xs text-amber-700">{p.flag}</span> : null}
@@ -79,6 +86,7 @@ export function ParticipantsPage() {
                 ))}
               </tbody>
             </Table>
+            </>
           ) : (
             <p className="text-sm text-ink-soft">Nobody has been served yet. Participants appear here when your software calls the probe-items API or after a batch upload.</p>
           )}

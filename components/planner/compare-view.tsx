@@ -8,15 +8,26 @@ import { Table, Td, Th } from '@/components/ui/table';
 import type { DesignDto, PriorSetDto } from '@/lib/client/planner';
 import { compareRows, type CompareRow } from '@/lib/shared/planner/compare';
 import { MODEL_IDS } from '@/lib/design';
-import { fmtDays, fmtShare, fmtSmall } from '@/lib/shared/planner/format';
+import { fmtDays, fmtShare, fmtSmallRow } from '@/lib/shared/planner/format';
 import { computeDesignSummary } from '@/lib/shared/planner/summary';
 import type { DesignSummary, PlannerInput } from '@/lib/shared/planner/types';
 import { CRITERION_LABELS, MODEL_LABELS } from './labels';
+import { TermHelp } from '@/components/glossary/term-help';
 
-function fmt(row: CompareRow, v: number | null): string {
-  if (row.unit === 'days') return fmtDays(v);
-  if (row.unit.startsWith('share')) return fmtShare(v);
-  return fmtSmall(v);
+/** Rows whose label gets a help button, and the glossary entry it opens. */
+const ROW_TERMS: Record<string, string> = {
+  'zone-width': 'reversal-zone',
+  'gap-product': 'gap-product',
+  'reversal-own': 'expected-reversal-rate',
+  'late-clarity': 'anchor-clarity',
+  'soon-clarity': 'anchor-clarity',
+};
+
+/** One number format for every value of a row. */
+function rowFormat(row: CompareRow): (v: number | null) => string {
+  if (row.unit === 'days') return fmtDays;
+  if (row.unit.startsWith('share')) return fmtShare;
+  return fmtSmallRow(row.values);
 }
 
 /** Side-by-side table (best value per row highlighted) and overlaid gap-product curves for 2–4 designs. */
@@ -91,19 +102,23 @@ export function CompareView({ designs, priors }: { designs: DesignDto[]; priors:
           </tr>
         </thead>
         <tbody className="divide-y divide-ink/10" data-testid="compare-table">
-          {computed.rows.map((row) => (
-            <tr key={row.key}>
-              <Td>
-                {row.label}
-                {row.unit ? <span className="block text-xs text-ink-faint">{row.unit}</span> : null}
-              </Td>
-              {row.values.map((v, i) => (
-                <Td key={i} className={row.best.includes(i) ? 'bg-teal-50 font-semibold text-teal-700' : ''} data-best={row.best.includes(i) ? 'true' : undefined}>
-                  {fmt(row, v)}
+          {computed.rows.map((row) => {
+            const fmt = rowFormat(row);
+            return (
+              <tr key={row.key} data-row={row.key}>
+                <Td>
+                  {ROW_TERMS[row.key] ? <TermHelp id={ROW_TERMS[row.key]}>{row.label}</TermHelp> : row.label}
+                  {row.unit ? <span className="block text-xs text-ink-faint">{row.unit}</span> : null}
+                  {row.note ? <span className="block max-w-xs text-xs text-ink-soft">{row.note}</span> : null}
                 </Td>
-              ))}
-            </tr>
-          ))}
+                {row.values.map((v, i) => (
+                  <Td key={i} className={`tabular-nums ${row.best.includes(i) ? 'bg-teal-50 font-semibold text-teal-700' : ''}`} data-best={row.best.includes(i) ? 'true' : undefined}>
+                    {fmt(v)}
+                  </Td>
+                ))}
+              </tr>
+            );
+          })}
           <tr>
             <Td>Warnings</Td>
             {computed.summaries.map((s, i) => (

@@ -2,7 +2,7 @@
 
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useQueryClient } from '@tanstack/react-query';
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { useForm, useWatch, type Resolver } from 'react-hook-form';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
@@ -25,7 +25,20 @@ const resolver: Resolver<DesignFormValues, unknown, DesignSpec> = zodResolver(de
  * version the form was loaded from; a stale save gets 409, the typed values stay, and the
  * current version can be loaded underneath them.
  */
-export function DesignEditor({ studyId, design, priors, canEdit }: { studyId: number; design: DesignDto; priors: PriorSetDto[]; canEdit: boolean }) {
+export function DesignEditor({
+  studyId,
+  design,
+  priors,
+  canEdit,
+  onDirtyChange,
+}: {
+  studyId: number;
+  design: DesignDto;
+  priors: PriorSetDto[];
+  canEdit: boolean;
+  /** told whenever the form gains or loses unsaved edits (the freeze panel refuses to freeze then) */
+  onDirtyChange?: (dirty: boolean) => void;
+}) {
   const client = useQueryClient();
   const update = useUpdateDesign(studyId, design.id);
   const [conflict, setConflict] = useState(false);
@@ -38,6 +51,7 @@ export function DesignEditor({ studyId, design, priors, canEdit }: { studyId: nu
   });
   const values = useWatch({ control }) as DesignFormValues;
   useUnsavedWarning(formState.isDirty);
+  useEffect(() => onDirtyChange?.(formState.isDirty), [formState.isDirty, onDirtyChange]);
   const parsed = designSpecSchema.safeParse(toSpec(values));
   const prior = priors.find((p) => p.id === Number(values.priorSetId))?.values ?? null;
   const live = useLiveSummary(parsed.success ? parsed.data : null, prior);

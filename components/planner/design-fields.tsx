@@ -6,6 +6,7 @@ import type { PriorSetDto } from '@/lib/client/planner';
 import type { DesignFormValues } from '@/lib/shared/planner/design-form-values';
 import { MODEL_CHOICES } from '@/lib/shared/validations/planner';
 import { CRITERION_LABELS, MODEL_LABELS } from './labels';
+import { TermHelp } from '@/components/glossary/term-help';
 
 type Props = { register: UseFormRegister<DesignFormValues>; errors: FieldErrors<DesignFormValues>; values: DesignFormValues; priors: PriorSetDto[] };
 
@@ -63,12 +64,20 @@ export function DesignFields({ register, errors: e, values, priors }: Props) {
         )}
       </fieldset>
       <fieldset className="grid gap-3 sm:grid-cols-3">
-        <legend className="mb-1 text-sm font-semibold">Pairs and criterion</legend>
+        <legend className="mb-1 text-sm font-semibold">
+          <TermHelp id="pair-roles">Pairs</TermHelp> and criterion
+        </legend>
         <TextField label="Reversal probes" type="number" step="1" {...register('probePairs', num)} error={e.probePairs?.message} />
         <TextField label="Late anchors" type="number" step="1" {...register('lateAnchors', num)} error={e.lateAnchors?.message} />
         <TextField label="Soon anchors" type="number" step="1" {...register('soonAnchors', num)} error={e.soonAnchors?.message} />
         <div className="sm:col-span-3">
-          <SelectField label="Criterion" {...register('criterion')} error={e.criterion?.message} hint="what the delays are chosen to maximise">
+          <SelectField label="Criterion" {...register('criterion')} error={e.criterion?.message} hint={
+              <>
+                what the delays are chosen to maximise: <TermHelp id="gap-product">gap product</TermHelp>, <TermHelp id="expected-reversal-rate">expected reversal rate</TermHelp> or{' '}
+                <TermHelp id="maximin-gap">maximin gap</TermHelp>
+              </>
+            }
+          >
             {Object.entries(CRITERION_LABELS).map(([value, label]) => (
               <option key={value} value={value}>
                 {label}
@@ -78,7 +87,9 @@ export function DesignFields({ register, errors: e, values, priors }: Props) {
         </div>
       </fieldset>
       <fieldset className="grid gap-3 sm:grid-cols-3">
-        <legend className="mb-1 text-sm font-semibold">Calibration block</legend>
+        <legend className="mb-1 text-sm font-semibold">
+          <TermHelp id="calibration-block">Calibration block</TermHelp>
+        </legend>
         <TextField label="Items per magnitude" type="number" step="1" {...register('calibration.itemsPerMagnitude', num)} error={e.calibration?.itemsPerMagnitude?.message} />
         <TextField label="Shortest calibration delay (days)" type="number" step="1" {...register('calibration.minDelay', num)} error={e.calibration?.minDelay?.message} />
         <TextField label="Longest calibration delay (days)" type="number" step="1" {...register('calibration.maxDelay', num)} error={e.calibration?.maxDelay?.message} />

@@ -1,12 +1,14 @@
 'use client';
 
+import type { ReactNode } from 'react';
 import { Notice } from '@/components/ui/notice';
 import { Table, Td, Th } from '@/components/ui/table';
 import { fmtDays, fmtRate, fmtShare, fmtSmall } from '@/lib/shared/planner/format';
 import type { DesignSummary } from '@/lib/shared/planner/types';
-import { CRITERION_LABELS, ROLE_LABELS } from './labels';
+import { CRITERION_LABELS, CRITERION_TERMS, ROLE_LABELS } from './labels';
+import { TermHelp } from '@/components/glossary/term-help';
 
-function Stat({ label, value, testId }: { label: string; value: string; testId?: string }) {
+function Stat({ label, value, testId }: { label: ReactNode; value: string; testId?: string }) {
   return (
     <div className="rounded-md border border-ink/10 bg-paper px-3 py-2">
       <dt className="text-xs text-ink-soft">{label}</dt>
@@ -35,9 +37,9 @@ export function DesignNumbers({ summary: s }: { summary: DesignSummary }) {
       <dl className="grid grid-cols-2 gap-2 md:grid-cols-3">
         <Stat label="Soon delay d (days)" value={fmtDays(s.soonDelay)} testId="stat-soon-delay" />
         <Stat label={s.mode === 'population' ? 'Probe late delay D, everyone (days)' : 'Probe late delay D, typical participant (days)'} value={fmtDays(s.roles[1].lateDelay)} testId="stat-probe-delay" />
-        <Stat label="Reversal zone, typical participant (days)" value={zone ? `${fmtDays(zone.lower)} – ${fmtDays(zone.upper)}` : 'none'} testId="stat-zone" />
-        <Stat label="Expected reversal rate per probe" value={fmtShare(s.expectedReversalRate)} testId="stat-reversal-rate" />
-        <Stat label={`Criterion: ${CRITERION_LABELS[s.criterion]}${s.criterion === 'maximin' ? ' (smallest gap, × L; below 0 means outside some scenario’s zone)' : s.criterion === 'gap-product' ? ' (× L²)' : ''}`} value={s.criterion === 'expected-reversal-rate' ? fmtShare(s.criterionValue) : fmtSmall(s.criterionValue)} testId="stat-criterion" />
+        <Stat label={<><TermHelp id="reversal-zone">Reversal zone</TermHelp>, typical participant (days)</>} value={zone ? `${fmtDays(zone.lower)} – ${fmtDays(zone.upper)}` : 'none'} testId="stat-zone" />
+        <Stat label={<><TermHelp id="expected-reversal-rate">Expected reversal rate</TermHelp> per probe</>} value={fmtShare(s.expectedReversalRate)} testId="stat-reversal-rate" />
+        <Stat label={<>Criterion: <TermHelp id={CRITERION_TERMS[s.criterion]}>{CRITERION_LABELS[s.criterion]}</TermHelp>{s.criterion === 'maximin' ? ' (smallest gap, × L; below 0 means outside some scenario’s zone)' : s.criterion === 'gap-product' ? ' (× L²)' : ''}</>} value={s.criterion === 'expected-reversal-rate' ? fmtShare(s.criterionValue) : fmtSmall(s.criterionValue)} testId="stat-criterion" />
         <Stat label="Share of the prior that can reverse" value={fmtShare(s.reversibleShare)} testId="stat-reversible" />
       </dl>
       <p className="text-xs text-ink-soft">
@@ -47,10 +49,14 @@ export function DesignNumbers({ summary: s }: { summary: DesignSummary }) {
       <Table caption="Expected share of each choice pattern by pair role">
         <thead className="bg-paper-sunk">
           <tr>
-            <Th>Pair role</Th>
+            <Th>
+              <TermHelp id="pair-roles">Pair role</TermHelp>
+            </Th>
             <Th>Pairs</Th>
             <Th>Late delay (days)</Th>
-            <Th>LL</Th>
+            <Th>
+              <TermHelp id="patterns">LL</TermHelp>
+            </Th>
             <Th>LS (reversal)</Th>
             <Th>SL</Th>
             <Th>SS</Th>
@@ -82,7 +88,9 @@ export function DesignNumbers({ summary: s }: { summary: DesignSummary }) {
           </thead>
           <tbody className="divide-y divide-ink/10" data-testid="bound-spread">
             <tr>
-              <Td>lower bound D_lower</Td>
+              <Td>
+                lower bound <TermHelp id="reversal-zone">D_lower</TermHelp>
+              </Td>
               <Td>{fmtDays(spread.lower?.p10)}</Td>
               <Td>{fmtDays(spread.lower?.p50)}</Td>
               <Td>{fmtDays(spread.lower?.p90)}</Td>

@@ -11,6 +11,7 @@ import { useDeleteDesign, useDesign, usePriors } from '@/lib/client/planner';
 import { CommentsPanel } from './comments-panel';
 import { DesignEditor } from './design-editor';
 import { FreezePanel } from './freeze-panel';
+import { useFlag } from './unsaved-flag';
 
 /** One candidate design: settings and live numbers, freezing, and discussion. */
 export function DesignPage({ designId }: { designId: number }) {
@@ -20,6 +21,7 @@ export function DesignPage({ designId }: { designId: number }) {
   const priors = usePriors(study.id);
   const remove = useDeleteDesign(study.id);
   const canEdit = can('editor');
+  const unsaved = useFlag();
   if (design.error instanceof ApiClientError && design.error.status === 404) {
     return (
       <Notice tone="error" title="Design not found">
@@ -48,9 +50,9 @@ export function DesignPage({ designId }: { designId: number }) {
               ) : null}
             </div>
             {remove.error ? <Notice tone="error">{remove.error.message}</Notice> : null}
-            <DesignEditor key={design.data.id} studyId={study.id} design={design.data} priors={priors.data} canEdit={canEdit} />
+            <DesignEditor key={design.data.id} studyId={study.id} design={design.data} priors={priors.data} canEdit={canEdit} onDirtyChange={unsaved.set} />
             <div className="grid gap-6 lg:grid-cols-2">
-              <FreezePanel studyId={study.id} design={design.data} canEdit={canEdit} />
+              <FreezePanel studyId={study.id} design={design.data} canEdit={canEdit} unsaved={unsaved} />
               <CommentsPanel studyId={study.id} designId={designId} />
             </div>
           </div>

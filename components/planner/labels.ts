@@ -15,4 +15,11 @@ export const CRITERION_LABELS: Record<DesignSpec['criterion'], string> = {
   maximin: 'Maximin gap',
 };
 
+/** The glossary entry explaining each criterion. */
+export const CRITERION_TERMS: Record<DesignSpec['criterion'], string> = {
+  'gap-product': 'gap-product',
+  'expected-reversal-rate': 'expected-reversal-rate',
+  maximin: 'maximin-gap',
+};
+
 export const ROLE_LABELS = { 'late-anchor': 'Late anchor', probe: 'Reversal probe', 'soon-anchor': 'Soon anchor' } as const;

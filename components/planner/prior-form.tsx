@@ -2,7 +2,7 @@
 
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useQueryClient } from '@tanstack/react-query';
-import { useState } from 'react';
+import { useMemo, useState } from 'react';
 import { useForm, useWatch } from 'react-hook-form';
 import type { z } from 'zod';
 import { Button } from '@/components/ui/button';
@@ -10,7 +10,8 @@ import { TextArea, TextField } from '@/components/ui/field';
 import { Notice } from '@/components/ui/notice';
 import { ApiClientError } from '@/lib/client/api';
 import { plannerKeys, useCreatePrior, useUpdatePrior, type PriorSetDto } from '@/lib/client/planner';
-import { priorSetSchema } from '@/lib/shared/validations/planner';
+import { rememberFit, restoreExact, shownValue, type FittedValues } from '@/lib/shared/planner/fitted-precision';
+import { priorSetSchema, type PriorValues } from '@/lib/shared/validations/planner';
 import { PilotUpload } from './pilot-upload';
 import { PriorChart } from './prior-chart';
 import { useUnsavedWarning } from './use-unsaved-warning';
@@ -19,8 +20,10 @@ type Values = z.input<typeof priorSetSchema>;
 
 const BLANK: Values = { name: '', medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.6, source: 'manual', notes: '' };
 
+/** The form's values for a saved prior: numbers shown to four significant digits (the exact ones are kept aside). */
 function toValues(p: PriorSetDto): Values {
-  return { name: p.name, ...p.values, source: p.source, notes: p.notes };
+  const shown = Object.fromEntries(Object.entries(p.values).map(([key, value]) => [key, shownValue(value)])) as PriorValues;
+  return { name: p.name, ...shown, source: p.source, notes: p.notes };
 }
 
 /** Create or edit a prior set, with the live chart; a stale save gets 409 and the typed values stay. */
@@ -30,6 +33,9 @@ export function PriorForm({ studyId, prior, canEdit, onSaved }: { studyId: numbe
   const update = useUpdatePrior(studyId, prior?.id ?? 0);
   const [conflict, setConflict] = useState(false);
   const [saved, setSaved] = useState(false);
+  // exact values (saved, or of a pilot fit) while the fields show them at four significant digits
+  const [pilotFit, setFitted] = useState<FittedValues<keyof PriorValues>>({});
+  const fitted = useMemo(() => ({ ...(prior ? rememberFit(prior.values) : {}), ...pilotFit }), [prior, pilotFit]);
   const { register, handleSubmit, formState, setError, reset, control, setValue } = useForm<Values>({
     resolver: zodResolver(priorSetSchema),
     values: prior ? toValues(prior) : BLANK,
@@ -40,12 +46,14 @@ export function PriorForm({ studyId, prior, canEdit, onSaved }: { studyId: numbe
   const num = { valueAsNumber: true } as const;
   const e = formState.errors;
 
-  const onSubmit = handleSubmit(async (values) => {
+  const onSubmit = handleSubmit(async (typed) => {
+    const values = restoreExact(typed, fitted);
     setConflict(false);
     setSaved(false);
     try {
       const result = prior ? await update.mutateAsync({ prior: values, version: prior.version }) : await create.mutateAsync(values);
       reset(toValues(result));
+      setFitted({});
       setSaved(true);
       onSaved(result);
     } catch (error) {
@@ -79,12 +87,19 @@ export function PriorForm({ studyId, prior, canEdit, onSaved }: { studyId: numbe
           <TextField label="Spread, large reward (SD of ln K)" type="number" step="any" {...register('sdLogLarge', num)} error={e.sdLogLarge?.message} />
           <TextField label="Correlation of ln k and ln K" type="number" step="any" {...register('correlation', num)} error={e.correlation?.message} hint="between −0.99 and 0.99" />
         </div>
+        {Object.values(fitted).some((f) => f && f.shown !== f.exact) ? (
+          <p className="text-xs text-ink-soft" data-testid="fitted-precision">
+            Values are shown to four significant digits; the exact values are kept for every field you leave as shown.
+          </p>
+        ) : null}
         <TextArea label="Notes" rows={2} {...register('notes')} error={e.notes?.message} />
         {canEdit ? (
           <PilotUpload
             studyId={studyId}
             onFitted={(fit, fileName) => {
-              for (const [key, value] of Object.entries(fit.prior)) setValue(key as keyof Values, value, { shouldDirty: true, shouldValidate: true });
+              const exact = rememberFit(fit.prior);
+              setFitted(exact);
+              for (const [key, value] of Object.entries(exact)) setValue(key as keyof Values, value!.shown, { shouldDirty: true, shouldValidate: true });
               setValue('source', 'pilot', { shouldDirty: true });
               setValue('notes', [`Fitted from ${fit.rows} participants (${fileName}).`, ...fit.notes].join(' '), { shouldDirty: true });
             }}

@@ -9,5 +9,6 @@ import { powerCurveSvg, type PowerSeries } from '@/lib/shared/figures/power-curv
  */
 export function PowerChart({ series, title, caption, notes }: { series: PowerSeries[]; title?: string; caption?: string; notes?: string[] }) {
   const svg = useMemo(() => powerCurveSvg(series, { title, caption, notes }), [series, title, caption, notes]);
-  return <div data-testid="power-chart" className="w-full max-w-3xl [&>svg]:h-auto [&>svg]:w-full" dangerouslySetInnerHTML={{ __html: svg }} />;
+  // font-sans: the page's own copy of Source Sans 3 (next/font gives it another family name than the figure asks for)
+  return <div data-testid="power-chart" className="w-full max-w-3xl [&>svg]:h-auto [&>svg]:w-full [&>svg]:font-sans" dangerouslySetInnerHTML={{ __html: svg }} />;
 }

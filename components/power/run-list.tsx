@@ -8,6 +8,7 @@ import { QueryState } from '@/components/ui/query-state';
 import { Table, Td, Th } from '@/components/ui/table';
 import { useStudyContext } from '@/components/studies/study-context';
 import { usePowerRuns } from '@/lib/client/power';
+import { formatDateTime } from '@/lib/shared/format';
 import { STATUS_LABELS } from './run-status';
 
 /** The study's runs with live progress; tick two or more finished runs to compare them on one chart. */
@@ -60,7 +61,7 @@ export function RunList() {
                     {run.status === 'queued' && run.queuePosition !== null ? <span data-testid="queue-position"> · position {run.queuePosition} in the queue</span> : null}
                   </Td>
                   <Td className="text-xs text-ink-soft">
-                    {new Date(run.createdAt).toLocaleString('en-GB')}
+                    {formatDateTime(run.createdAt)}
                     {run.createdBy ? ` by ${run.createdBy}` : ''}
                   </Td>
                 </tr>

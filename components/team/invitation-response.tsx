@@ -7,6 +7,7 @@ import { AddressUnconfirmed } from '@/components/account/address-confirmation';
 import { Button, buttonClass } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
+import { formatDateTime } from '@/lib/shared/format';
 import { ROLE_LABELS } from '@/lib/shared/roles';
 import { useAcceptInvitation, useInvitationLink } from '@/lib/client/team';
 import type { InvitationLinkView } from '@/lib/server/services/invitations';
@@ -98,7 +99,7 @@ function InvitationResponse({ token, view, user, mailbox }: { token: string; vie
       >
         {accept.isPending || accept.isSuccess ? 'Joining…' : 'Accept and open the study'}
       </Button>
-      <p className="text-xs text-ink-soft">The link works once and until {new Date(view.expiresAt).toUTCString()}.</p>
+      <p className="text-xs text-ink-soft">The link works once and until {formatDateTime(view.expiresAt)}.</p>
     </div>
   );
 }

@@ -1,7 +1,7 @@
 import { forwardRef, useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes, type TextareaHTMLAttributes } from 'react';
 
 const control =
-  'block w-full rounded-md border border-ink/20 bg-paper-raised px-3 py-2 text-sm text-ink shadow-sm placeholder:text-ink-faint focus:border-teal-500 focus:outline-none aria-[invalid=true]:border-danger-500';
+  'block w-full rounded-md border border-ink/20 bg-paper-raised px-3 py-2 text-sm text-ink shadow-sm placeholder:text-ink-faint focus:border-teal-500 focus:outline-none aria-[invalid=true]:border-danger-500 disabled:cursor-not-allowed disabled:border-dashed disabled:border-ink/15 disabled:bg-paper-sunk disabled:text-ink-soft disabled:shadow-none';
 
 type FieldShellProps = { label: string; error?: string; hint?: ReactNode; id: string; children: ReactNode };
 

@@ -66,7 +66,8 @@ export function useDeletePrior(studyId: number) {
 /** Sends a pilot CSV as text/csv; a file with problems rejects with ApiClientError listing "line N: field" issues. */
 export function useFitPilot(studyId: number) {
   return useMutation({
-    mutationFn: (csv: string) => apiFetch<PilotFitDto>(`${base(studyId)}/priors/pilot`, { method: 'POST', body: csv, headers: { 'Content-Type': 'text/csv' } }),
+    mutationFn: ({ csv, model }: { csv: string; model: string }) =>
+      apiFetch<PilotFitDto>(`${base(studyId)}/priors/pilot?model=${encodeURIComponent(model)}`, { method: 'POST', body: csv, headers: { 'Content-Type': 'text/csv' } }),
   });
 }
 

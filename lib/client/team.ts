@@ -11,6 +11,12 @@ import { studyKeys } from './studies';
 export type InvitationDto = { id: number; email: string; role: Role; state: 'pending' | 'expired'; invitedBy: string | null; createdAt: string; expiresAt: string };
 export type InvitationReply = { invitation: InvitationDto; mailSent: boolean };
 export type AuditEventDto = { id: number; at: string; action: string; actorId: number | null; actorName: string | null; actorEmail: string | null; details: Record<string, unknown> };
+export type AuditNamesDto = {
+  designs: Record<string, string>;
+  versions: Record<string, { designId: number; designName: string; number: number }>;
+  priors: Record<string, string>;
+  users: Record<string, string>;
+};
 export type MailboxMessageDto = { id: string; receivedAt: string; from: string; to: string; subject: string; text: string; recipients: string[] };
 
 export const teamKeys = {
@@ -94,7 +100,7 @@ export function useRemoveMember(studyId: number) {
 export function useAuditEvents(studyId: number) {
   return useQuery({
     queryKey: teamKeys.audit(studyId),
-    queryFn: () => apiFetch<{ events: AuditEventDto[]; limit: number }>(`/api/studies/${studyId}/audit`),
+    queryFn: () => apiFetch<{ events: AuditEventDto[]; names: AuditNamesDto; limit: number }>(`/api/studies/${studyId}/audit`),
   });
 }
 

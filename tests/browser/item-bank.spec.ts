@@ -19,6 +19,8 @@ test('the demo operator creates an API key, downloads the item bank and sees a p
   const secret = (await page.getByTestId('new-secret').textContent())!.trim();
   expect(secret).toMatch(/^sbk_/);
   await expect(page.getByTestId('api-key-row').filter({ hasText: keyName })).toBeVisible();
+  // the keys table names the design and its version number, not a database id
+  await expect(page.getByTestId('api-key-row').filter({ hasText: keyName }).getByTestId('api-key-version')).toHaveText(/^.+, version \d+$/);
   await page.screenshot(shot('item-bank-api-key'));
 
   // The item bank of that version as CSV, with the hash and seed in its name and header.
@@ -29,8 +31,8 @@ test('the demo operator creates an API key, downloads the item bank and sees a p
   const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('download-csv').click()]);
   expect(download.suggestedFilename()).toMatch(/^switchback-items-\d+-.+-[0-9a-f]{12}-seed\d+\.csv$/);
   const csv = readFileSync((await download.path())!, 'utf8');
-  expect(csv).toMatch(/^# Switchback item bank/);
-  const rows = Papa.parse<Record<string, string>>(csv, { header: true, comments: '#', skipEmptyLines: true }).data;
+  expect(csv).toMatch(/^"id","block","role"/); // plain CSV: the header row first, no comment lines
+  const rows = Papa.parse<Record<string, string>>(csv, { header: true, skipEmptyLines: true }).data;
   const calibration = rows.filter((r) => r.role === 'calibration');
   expect(calibration.length).toBeGreaterThan(4);
 

@@ -95,7 +95,27 @@ test('the demo editor creates a prior and two designs, compares them and freezes
   // freeze the first one, then comment
   await page.goto(`${base}/designs`);
   await page.getByRole('link', { name: first }).click();
-  await page.getByRole('button', { name: 'Freeze this design' }).click();
+  // with an unsaved edit, freezing is refused (it would store the saved draft without the edit);
+  // wait for the design's background refetch first, which resets the form underneath the edit
+  await page.waitForLoadState('networkidle');
+  const name = page.getByLabel('Design name');
+  await name.fill(`${first} (edited)`);
+  await page.getByRole('button', { name: 'Freeze this design…' }).click();
+  await expect(page.getByTestId('freeze-confirm')).toContainText('Save your edits first');
+  await expect(page.getByTestId('freeze-confirm').getByRole('button', { name: /^Freeze version/ })).toHaveCount(0);
+  await page.getByTestId('freeze-confirm').scrollIntoViewIfNeeded();
+  await page.screenshot(shot('planner-freeze-unsaved'));
+  await page.getByRole('button', { name: 'Back' }).click();
+  await name.fill(first);
+  // with the form saved, it asks for confirmation; Cancel freezes nothing
+  await page.getByRole('button', { name: 'Freeze this design…' }).click();
+  await expect(page.getByTestId('freeze-confirm')).toContainText('Freeze the saved draft as version 1?');
+  await page.getByTestId('freeze-confirm').scrollIntoViewIfNeeded();
+  await page.screenshot(shot('planner-freeze-confirm'));
+  await page.getByRole('button', { name: 'Cancel' }).click();
+  await expect(page.getByTestId('freeze-status')).toContainText('Not frozen yet');
+  await page.getByRole('button', { name: 'Freeze this design…' }).click();
+  await page.getByRole('button', { name: 'Freeze version 1' }).click();
   await expect(page.getByTestId('freeze-status')).toContainText('frozen as version 1');
   await expect(page.getByTestId('version-list')).toContainText(/[0-9a-f]{64}/);
   await page.getByLabel('Add a comment').fill('Frozen for the ethics submission.');
@@ -120,7 +140,7 @@ test('the demo viewer sees the planner without edit controls, and the API refuse
   await expect(page.getByTestId('stat-zone')).not.toHaveText('none');
   await expect(page.getByTestId('version-list')).toContainText(/[0-9a-f]{64}/);
   await expect(page.getByRole('button', { name: 'Save design' })).toHaveCount(0);
-  await expect(page.getByRole('button', { name: 'Freeze this design' })).toHaveCount(0);
+  await expect(page.getByRole('button', { name: /Freeze this design/ })).toHaveCount(0);
   await expect(page.getByText(/not a clinical assessment/).first()).toBeVisible();
   // viewers may take part in the discussion
   const remark = `Could the soon delay be shorter? ${Date.now()}`;

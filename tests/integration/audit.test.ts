@@ -6,7 +6,7 @@ import { GET as listRoute } from '@/app/api/studies/[id]/audit/route';
 import { GET as csvRoute } from '@/app/api/studies/[id]/audit/csv/route';
 import { PATCH as patchMemberRoute } from '@/app/api/studies/[id]/members/[userId]/route';
 import { POST as inviteRoute } from '@/app/api/studies/[id]/invitations/route';
-import { AuditEvent, Invitation, Membership, User } from '@/db/models';
+import { AuditEvent, Invitation, Membership, PriorSet, User } from '@/db/models';
 import { recordAudit } from '@/lib/server/services/audit';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
 
@@ -64,6 +64,19 @@ describe('the audit list and its CSV', () => {
     for (const role of ['operator', 'viewer'] as const) {
       expect((await listRoute(await requestAs(team[role], 'GET', '/x'), ctx({ id: String(study.id) }))).status).toBe(403);
     }
+  });
+
+  it('names the designs, frozen versions, prior sets and people its events point to by id, so the page can write sentences', async () => {
+    const { study, team } = await makeStudyWithTeam('Audit names');
+    const prior = await PriorSet.create({ studyId: study.id, name: 'Harbourlight pilot prior', values: { medianSmall: 0.02, medianLarge: 0.01, sdLogSmall: 1, sdLogLarge: 1, correlation: 0 }, source: 'manual', notes: '', createdBy: team.editor.id });
+    await recordAudit({ actorId: team.owner.id, studyId: study.id, action: 'member.role-change', details: { userId: team.viewer.id, email: team.viewer.email, from: 'viewer', to: 'operator' } });
+    await recordAudit({ actorId: team.editor.id, studyId: study.id, action: 'prior.create', details: { priorId: prior.id, name: prior.name } });
+    const reply = await listRoute(await requestAs(team.editor, 'GET', '/x'), ctx({ id: String(study.id) }));
+    const { names } = await reply.json();
+    expect(names.priors).toEqual({ [String(prior.id)]: 'Harbourlight pilot prior' });
+    expect(names.users[String(team.viewer.id)]).toBe(team.viewer.name);
+    expect(names.users[String(team.owner.id)]).toBe(team.owner.name);
+    expect(names.designs).toEqual({});
   });
 
   it('exports CSV with formula-like cells neutralised, and records the export', async () => {

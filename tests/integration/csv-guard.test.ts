@@ -30,7 +30,7 @@ describe('the formula guard on every CSV', () => {
     await Study.update({ name: HOSTILE.slice(0, 120) }, { where: { id: study.id } });
     const version = await makeFrozenVersion(study.id);
     const reply = await exportBank(
-      await requestAs(team.operator, 'GET', `/api/studies/${study.id}/item-bank/${version.id}/export?format=csv`),
+      await requestAs(team.operator, 'GET', `/api/studies/${study.id}/item-bank/${version.id}/export?format=csv-annotated`),
       ctx({ id: String(study.id), versionId: String(version.id) }),
     );
     expect(reply.status).toBe(200);

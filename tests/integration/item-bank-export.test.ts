@@ -22,8 +22,26 @@ describe('item-bank export', () => {
     expect(csv.status).toBe(200);
     expect(csv.headers.get('content-disposition')).toContain(`switchback-items-${study.id}-export-study-${version.hash.slice(0, 12)}-seed42.csv`);
     const text = await csv.text();
-    expect(text).toContain(`hash ${version.hash} · seed 42`);
-    expect(text.split('\r\n').find((l) => !l.startsWith('#'))).toBe('id,block,role,set,view,pairId,magnitude,soonerAmount,soonerDelay,laterAmount,laterDelay,soonerSide,position,text');
+    // the default CSV is plain: the header row first, no comment lines a spreadsheet or survey import would choke on
+    const header = 'id,block,role,set,view,pairId,magnitude,soonerAmount,soonerDelay,laterAmount,laterDelay,soonerSide,position,text';
+    expect(text.split('\r\n')[0]).toBe(header);
+    expect(text).not.toMatch(/^#/m);
+    const rows = text.trimEnd().split('\r\n').length - 1;
+
+    // its metadata sidecar names the CSV, the hash, the seed and every column
+    const meta = await exportBank(await requestAs(team.operator, 'GET', `/api/studies/${study.id}/item-bank/${version.id}/export?format=metadata&seed=42&delayUnit=weeks`), params);
+    expect(meta.headers.get('content-disposition')).toContain(`seed42.meta.json`);
+    const sidecar = (await meta.json()) as { describes: string; itemCount: number; columns: Record<string, string>; header: { seed: number; designVersion: { hash: string } }; items?: unknown };
+    expect(sidecar.describes).toBe(`switchback-items-${study.id}-export-study-${version.hash.slice(0, 12)}-seed42.csv`);
+    expect(sidecar.itemCount).toBe(rows);
+    expect(sidecar.header).toMatchObject({ seed: 42, designVersion: { hash: version.hash } });
+    expect(Object.keys(sidecar.columns).join(',')).toBe(header);
+    expect(sidecar.items).toBeUndefined();
+
+    // the annotated CSV keeps the comment lines for readers that skip them
+    const annotated = await (await exportBank(await requestAs(team.operator, 'GET', `/api/studies/${study.id}/item-bank/${version.id}/export?format=csv-annotated&seed=42&delayUnit=weeks`), params)).text();
+    expect(annotated).toContain(`hash ${version.hash} · seed 42`);
+    expect(annotated.split('\r\n').find((l) => !l.startsWith('#'))).toBe(header);
 
     const json = await exportBank(await requestAs(team.owner, 'GET', `/api/studies/${study.id}/item-bank/${version.id}/export?format=json`), params);
     const body = (await json.json()) as { header: { seed: number; designVersion: { hash: string } }; items: unknown[] };
@@ -33,6 +51,8 @@ describe('item-bank export', () => {
     const events = await AuditEvent.findAll({ where: { studyId: study.id, action: 'item-bank.export' }, order: [['id', 'ASC']] });
     expect(events.map((e) => [e.actorId, e.details.format, e.details.seed])).toEqual([
       [team.operator.id, 'csv', 42],
+      [team.operator.id, 'metadata', 42],
+      [team.operator.id, 'csv-annotated', 42],
       [team.owner.id, 'json', body.header.seed],
     ]);
   });

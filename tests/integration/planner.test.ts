@@ -69,6 +69,24 @@ describe('prior sets', () => {
     const huge = await call(fitPilot, team.editor, 'POST', '/priors/pilot', {}, { body: 'x'.repeat(5 * 1024 * 1024 + 10), headers: { 'content-type': 'text/csv' } });
     expect(huge.status).toBe(413);
   });
+
+  it('fit from raw pilot choices under the model in the query, naming a bad model and a bad cell', async () => {
+    const { team, call } = await setUp();
+    const header = 'participant,magnitude,soonerAmount,soonerDelay,laterAmount,laterDelay,choice';
+    // three people, two questions per reward size each, switching between them (interior estimates)
+    const person = (p: string) => [`${p},small,50,0,100,7,later`, `${p},small,50,0,100,365,sooner`, `${p},large,500,0,1000,30,later`, `${p},large,500,0,1000,900,sooner`];
+    const body = [header, ...['a', 'b', 'c'].flatMap(person)].join('\n');
+    const fitted = await call(fitPilot, team.editor, 'POST', '/priors/pilot?model=exponential', {}, { body, headers: { 'content-type': 'text/csv' } });
+    expect(fitted.status).toBe(200);
+    expect(fitted.body).toMatchObject({ ok: true, rows: 3 });
+    expect(fitted.body.notes[0]).toMatch(/under the exponential model/);
+    const unknown = await call(fitPilot, team.editor, 'POST', '/priors/pilot?model=cubic', {}, { body, headers: { 'content-type': 'text/csv' } });
+    expect(unknown.status).toBe(422);
+    expect(unknown.body.issues.map((i: { path: string }) => i.path)).toEqual(['model']);
+    const bad = await call(fitPilot, team.editor, 'POST', '/priors/pilot', {}, { body: `${header}\na,small,50,0,100,7,perhaps\n`, headers: { 'content-type': 'text/csv' } });
+    expect(bad.status).toBe(422);
+    expect(bad.body.issues).toEqual([{ path: 'line 2: choice', message: '"perhaps" is not sooner or later.' }]);
+  });
 });
 
 describe('designs, summaries, freezing and comments', () => {

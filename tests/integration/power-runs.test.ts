@@ -119,17 +119,23 @@ describe('power runs', () => {
     expect(svg.headers.get('content-type')).toBe('image/svg+xml');
     const svgText = await svg.text();
     const parsed = new Resvg(svgText); // resvg parses the SVG and refuses malformed XML
-    // 6.5 × 4.5 inches (4.2 plus two warning lines: the run uses the pooled McNemar test, and fewer
-    // than 1,000 replications) at the CSS 96 px per inch resvg reads "in" with
-    expect([parsed.width, parsed.height]).toEqual([624, 432]);
+    // 6.5 inches wide; 4.2 inches high plus 0.15 inch per wrapped line after the first (caption,
+    // the pooled McNemar warning, the caution), at the CSS 96 px per inch resvg reads "in" with
+    const lines = (svgText.match(/data-line="/g) ?? []).length;
+    const inchesHigh = 4.2 + 0.15 * (lines - 1);
+    expect(lines).toBeGreaterThanOrEqual(3);
+    expect([parsed.width, parsed.height]).toEqual([624, Math.round(inchesHigh * 96)]);
+    // the download carries its font (base64 WOFF2 in @font-face), so it renders the same elsewhere
+    expect(svgText).toMatch(/@font-face\{font-family:'Source Sans 3';[^}]*src:url\(data:font\/woff2;base64,/);
+    expect(svgText).toContain('not a clinical assessment');
     expect(svgText).toContain('Wilson 95 %');
     expect(svgText).toContain('Pooled McNemar test assumes independent pairs');
     expect(svgText).toContain('Fewer than 1,000 replications (20): Monte Carlo standard error up to');
 
     const png = Buffer.from(await (await download(team.viewer, study.id, a.id, 'format=png')).arrayBuffer());
     expect(png.subarray(1, 4).toString()).toBe('PNG');
-    // 6.5 × 4.5 inches at 300 dpi; 300 dpi = 11811 pixels per metre (300 / 0.0254, rounded)
-    expect(pngInfo(png)).toEqual({ width: 1950, height: 1350, pixelsPerMetre: 11811 });
+    // 6.5 inches × the SVG's height at 300 dpi; 300 dpi = 11811 pixels per metre (300 / 0.0254, rounded)
+    expect(pngInfo(png)).toEqual({ width: 1950, height: Math.round(inchesHigh * 300), pixelsPerMetre: 11811 });
 
     const csv = await (await download(team.viewer, study.id, a.id, 'format=csv')).text();
     expect(csv.split('\r\n')[0]).toMatch(/^truth,n,power,wilson_lower,wilson_upper,/);

@@ -1,3 +1,4 @@
+import { formatDateTime } from '@/lib/shared/format';
 import { ROLE_LABELS, type Role } from '@/lib/shared/roles';
 import type { MailMessage } from './transport';
 
@@ -12,9 +13,6 @@ function escapeHtml(text: string): string {
   return text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 }
 
-function formatUtc(date: Date): string {
-  return new Intl.DateTimeFormat('en-GB', { dateStyle: 'long', timeStyle: 'short', timeZone: 'UTC' }).format(date) + ' UTC';
-}
 
 /** Builds text and HTML from paragraphs, one of which may be a link (shown as a button in HTML). */
 function compose(to: string, subject: string, parts: Array<string | { link: string; label: string }>): MailMessage {
@@ -33,9 +31,9 @@ function compose(to: string, subject: string, parts: Array<string | { link: stri
 /** The invitation to join a study: who invited, which role, the single-use link and its expiry. */
 export function invitationMessage(input: { to: string; studyName: string; inviterName: string; role: Role; link: string; expiresAt: Date }): MailMessage {
   return compose(input.to, `Join \u201c${input.studyName}\u201d on Switchback`, [
-    `${input.inviterName} has added you to the study \u201c${input.studyName}\u201d on Switchback as ${ROLE_LABELS[input.role].toLowerCase()}: you can ${ROLE_DUTIES[input.role]}.`,
+    `${input.inviterName} invites you to join the study \u201c${input.studyName}\u201d on Switchback as ${ROLE_LABELS[input.role].toLowerCase()}. Once you accept, you can ${ROLE_DUTIES[input.role]}.`,
     { link: input.link, label: 'Open the invitation' },
-    `The link works once and until ${formatUtc(input.expiresAt)}. If you have no Switchback account yet, you can create one from that page with this address.`,
+    `The link works once and until ${formatDateTime(input.expiresAt)}. If you have no Switchback account yet, you can create one from that page with this address.`,
     'Not expecting this? Ignore this message; nothing happens unless the link is used.',
   ]);
 }
@@ -45,7 +43,7 @@ export function passwordResetMessage(input: { to: string; link: string; expiresA
   return compose(input.to, 'Choose a new Switchback password', [
     'Someone (hopefully you) asked to choose a new password for the Switchback account of this address.',
     { link: input.link, label: 'Choose a new password' },
-    `The link works once and until ${formatUtc(input.expiresAt)}. If you did not ask for this, ignore this message: your password stays as it is.`,
+    `The link works once and until ${formatDateTime(input.expiresAt)}. If you did not ask for this, ignore this message: your password stays as it is.`,
   ]);
 }
 
@@ -74,7 +72,7 @@ export function addressConfirmationMessage(input: { to: string; link: string; ex
   return compose(input.to, 'Confirm your e-mail address for Switchback', [
     'An account on Switchback was created with this address. Confirm that the address is yours; until then, invitations to studies cannot be accepted with it.',
     { link: input.link, label: 'Confirm my address' },
-    `The link works once and until ${formatUtc(input.expiresAt)}. If you did not create this account, ignore this message: the address stays unconfirmed.`,
+    `The link works once and until ${formatDateTime(input.expiresAt)}. If you did not create this account, ignore this message: the address stays unconfirmed.`,
   ]);
 }
 

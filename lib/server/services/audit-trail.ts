@@ -38,6 +38,35 @@ export async function listAuditEvents(studyId: number, limit = AUDIT_LIST_LIMIT)
   }));
 }
 
+/** Names of the things audit details point to by id, so the audit page can write sentences with names and links. */
+export type AuditNamesDto = {
+  designs: Record<string, string>;
+  versions: Record<string, { designId: number; designName: string; number: number }>;
+  priors: Record<string, string>;
+  users: Record<string, string>;
+};
+
+/** The current names of the study's designs, frozen versions, prior sets and of the people its events mention. */
+export async function listAuditNames(studyId: number): Promise<AuditNamesDto> {
+  const q = <T extends object>(sql: string) => db().query<T>(sql, { replacements: { studyId }, type: QueryTypes.SELECT });
+  const [designs, versions, priors, users] = await Promise.all([
+    q<{ id: number; name: string }>('SELECT id, name FROM designs WHERE study_id = :studyId'),
+    q<{ id: number; design_id: number; number: number; name: string }>(
+      'SELECT v.id, v.design_id, v.number, d.name FROM design_versions v JOIN designs d ON d.id = v.design_id WHERE v.study_id = :studyId',
+    ),
+    q<{ id: number; name: string }>('SELECT id, name FROM prior_sets WHERE study_id = :studyId'),
+    q<{ id: number; name: string | null; email: string }>(
+      'SELECT DISTINCT u.id, u.name, u.email FROM users u JOIN audit_events a ON a.study_id = :studyId AND (a.actor_id = u.id OR JSON_VALUE(a.details, \'$.userId\') = u.id)',
+    ),
+  ]);
+  return {
+    designs: Object.fromEntries(designs.map((d) => [String(d.id), d.name])),
+    versions: Object.fromEntries(versions.map((v) => [String(v.id), { designId: v.design_id, designName: v.name, number: v.number }])),
+    priors: Object.fromEntries(priors.map((p) => [String(p.id), p.name])),
+    users: Object.fromEntries(users.map((u) => [String(u.id), u.name || u.email])),
+  };
+}
+
 /** Details as "key=value; key=value" for a table cell or a CSV column. */
 export function describeDetails(details: Record<string, unknown>): string {
   return Object.entries(details)

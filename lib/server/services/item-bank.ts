@@ -97,14 +97,35 @@ export function previewItemBank(study: Study, version: DesignVersion, options: E
   };
 }
 
+/** What each CSV column holds, for the metadata sidecar. */
+export const ITEM_COLUMN_MEANINGS: Record<(typeof ITEM_COLUMNS)[number], string> = {
+  id: 'item id, unique in the bank (the probe-items API and stage-2 answers use it)',
+  block: 'calibration (stage 1) or probe (stage 2)',
+  role: 'calibration, attention-check, late-anchor, reversal-probe or soon-anchor',
+  set: 'shared (everyone), personal, or fallback (served when a participant’s estimates cannot place a personal block)',
+  view: 'far or near view of a question pair (empty for calibration items and attention checks)',
+  pairId: 'the pair a far and a near view belong to',
+  magnitude: 'small or large reward, for calibration items (empty for pairs and checks)',
+  soonerAmount: 'smaller-sooner amount, in the currency',
+  soonerDelay: 'delay of the smaller-sooner amount, in the delay unit',
+  laterAmount: 'larger-later amount, in the currency',
+  laterDelay: 'delay of the larger-later amount, in the delay unit',
+  soonerSide: 'left or right: the side the smaller-sooner option is shown on',
+  position: '1-based presentation order within the block',
+  text: 'the question as worded for participants',
+};
+
 /** A file name with the study, the version's hash (12 hex digits) and the seed. */
-export function exportFileName(study: { id: number; name: string }, hash: string, seed: number, extension: 'csv' | 'json') {
+export function exportFileName(study: { id: number; name: string }, hash: string, seed: number, extension: 'csv' | 'json' | 'meta.json') {
   const slug = study.name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 40) || 'study';
   return `switchback-items-${study.id}-${slug}-${hash.slice(0, 12)}-seed${seed}.${extension}`;
 }
 
-/** Items as CSV: a commented header (study, design hash, seed, units), then one row per item, formula-safe. */
-export function itemsCsv(items: readonly BankItem[], headerLines: string[]): string {
+/**
+ * Items as CSV, one row per item, formula-safe. Without header lines it is a plain CSV (header
+ * row first); with them, each comes first as a "#" comment line (study, design hash, seed, units).
+ */
+export function itemsCsv(items: readonly BankItem[], headerLines: string[] = []): string {
   return recordsToCsv({ records: items, columns: ITEM_COLUMNS, comments: headerLines });
 }
 
@@ -115,9 +136,14 @@ export function itemsCsv(items: readonly BankItem[], headerLines: string[]): str
 export async function exportItemBank(actorId: number, study: Study, version: DesignVersion, options: ExportOptions) {
   const preview = previewItemBank(study, version, options);
   const { seed } = preview.header;
-  const filename = exportFileName(study, version.hash, seed, options.format);
+  const csvName = exportFileName(study, version.hash, seed, 'csv');
+  let filename: string;
   let body: string;
   if (options.format === 'csv') {
+    filename = csvName;
+    body = itemsCsv(preview.items);
+  } else if (options.format === 'csv-annotated') {
+    filename = csvName;
     body = itemsCsv(preview.items, [
       `Switchback item bank · study ${study.id} "${study.name}"`,
       `design version ${version.number} · hash ${version.hash} · seed ${seed} · item bank ${preview.header.itemBankId} (gap ${options.minGap})`,
@@ -125,7 +151,12 @@ export async function exportItemBank(actorId: number, study: Study, version: Des
       `mode ${preview.header.mode} · currency ${preview.header.currency} · amounts rounded to ${preview.header.amountUnit} · delays in whole ${preview.header.delayUnit} (a month is 30 days)`,
       preview.probeRule ?? 'Population design: every participant runs these items.',
     ]);
+  } else if (options.format === 'metadata') {
+    filename = exportFileName(study, version.hash, seed, 'meta.json');
+    const { items, ...rest } = preview;
+    body = `${JSON.stringify({ describes: csvName, itemCount: items.length, columns: ITEM_COLUMN_MEANINGS, ...rest }, null, 2)}\n`;
   } else {
+    filename = exportFileName(study, version.hash, seed, 'json');
     body = `${JSON.stringify(preview, null, 2)}\n`;
   }
   await db().transaction(async (transaction) => {
@@ -134,7 +165,7 @@ export async function exportItemBank(actorId: number, study: Study, version: Des
       transaction,
     );
   });
-  return { filename, body, contentType: options.format === 'csv' ? 'text/csv; charset=utf-8' : 'application/json; charset=utf-8' };
+  return { filename, body, contentType: options.format.startsWith('csv') ? 'text/csv; charset=utf-8' : 'application/json; charset=utf-8' };
 }
 
 /** Export options from a request's query string; unknown or bad parameters → 422 naming them. */

@@ -1,6 +1,7 @@
-import { figurePng } from '@/lib/server/figures/png';
-import { powerCurveSvg, type PowerSeries } from '@/lib/shared/figures/power-curve';
 import { recordsToCsv } from '@/lib/shared/csv';
+import { embeddedFontCss } from '@/lib/server/figures/embedded-font';
+import { figurePng } from '@/lib/server/figures/png';
+import { powerCurveSvg, type PowerFigureOptions, type PowerSeries } from '@/lib/shared/figures/power-curve';
 import { stressLegend } from '@/lib/design/power';
 import { PAIR_ROLES } from '@/lib/design/power/types';
 import { runNotes, runSeries } from '@/lib/shared/power-figure';
@@ -19,7 +20,7 @@ function series(run: PowerRunDto, result: PowerResultDto): PowerSeries {
 }
 
 /** The figure of one run (its assumed truth and each stress truth), or of several runs on one chart (the first gives the title). */
-export function runFigureSvg(runs: Array<{ run: PowerRunDto; result: PowerResultDto }>): string {
+export function runFigureSvg(runs: Array<{ run: PowerRunDto; result: PowerResultDto }>, extra: Pick<PowerFigureOptions, 'fontCss'> = {}): string {
   const first = runs[0];
   const caption =
     runs.length === 1
@@ -30,6 +31,7 @@ export function runFigureSvg(runs: Array<{ run: PowerRunDto; result: PowerResult
     title: runs.length === 1 ? `Power: ${runLabel(first.run)}` : 'Power: compared runs',
     caption,
     notes,
+    ...extra,
   });
 }
 
@@ -93,8 +95,8 @@ export async function exportRun(studyId: number, runId: number, format: ExportFo
   if (format === 'csv') return { body: runCsv(main.run, main.result), type: 'text/csv; charset=utf-8', file: `${base}.csv` };
   if (format === 'json') return { body: JSON.stringify(runJson(main.run, main.result), null, 2), type: 'application/json', file: `${base}.json` };
   const others = await Promise.all(compareWith.filter((id) => id !== runId).map((id) => finishedResult(studyId, id)));
-  const svg = runFigureSvg([main, ...others]);
   const name = others.length ? `${base}-compared` : base;
-  if (format === 'svg') return { body: svg, type: 'image/svg+xml', file: `${name}.svg` };
-  return { body: figurePng(svg), type: 'image/png', file: `${name}.png` };
+  // the SVG download carries its font, so it renders in Source Sans 3 wherever it is opened; the PNG renderer has the font files
+  if (format === 'svg') return { body: runFigureSvg([main, ...others], { fontCss: embeddedFontCss() }), type: 'image/svg+xml', file: `${name}.svg` };
+  return { body: figurePng(runFigureSvg([main, ...others])), type: 'image/png', file: `${name}.png` };
 }

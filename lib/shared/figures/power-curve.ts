@@ -1,5 +1,6 @@
 import { scaleLinear } from 'd3-scale';
 import { area, line } from 'd3-shape';
+import { textWidth as measure, wrapText } from './figure-text';
 
 /** One curve: a label and its points (sample size, power, Wilson interval). */
 export type PowerSeries = { label: string; points: ReadonlyArray<{ n: number; power: number; lower: number; upper: number }> };
@@ -10,9 +11,19 @@ export type PowerFigureOptions = {
   caption?: string;
   /** horizontal guide lines; default 0.8 and 0.9 */
   targets?: number[];
-  /** warnings a reader of the figure must see (e.g. a test's assumption), one line each below the caption */
+  /** warnings a reader of the figure must see (e.g. a test's assumption), below the caption, each wrapped to the figure's width */
   notes?: string[];
+  /** @font-face rules to embed (the SVG download carries its font this way; the page and the PNG renderer have it already) */
+  fontCss?: string;
 };
+
+/** The caution every power figure carries, on the page and wherever it is downloaded to. */
+export const FIGURE_CAUTION =
+  'Simulated hypothetical choices under the stated assumptions: power and rates shown are estimates for planning, not a clinical assessment of anyone.';
+
+/** Caption and note text size, and the height of one of their lines, in SVG units (1/100 inch). */
+const CAPTION_SIZE = 12;
+const LINE = 15;
 
 /** Figure size: 6.5 × 4.2 inches; one SVG unit is 1/100 inch, so 300 dpi is 3 pixels per unit. */
 export const FIGURE = { width: 650, height: 420, inchesWide: 6.5, inchesHigh: 4.2 } as const;
@@ -32,10 +43,17 @@ function escapeXml(text: string): string {
  * as SVG, and rendered to PNG, so all three always agree.
  */
 export function powerCurveSvg(series: readonly PowerSeries[], options: PowerFigureOptions = {}): string {
-  const notes = options.notes ?? [];
   const { width } = FIGURE;
-  // each note adds a line of 15 units below the plot, so the plot itself keeps its size
-  const height = FIGURE.height + 15 * notes.length;
+  // caption, notes and caution are wrapped to the figure's width with the font's own advance
+  // widths; every line after the first adds 15 units below the plot, so the plot keeps its size
+  const textWidth = width - MARGIN.left - MARGIN.right;
+  const captionText = `Shaded: Wilson 95 % interval. Dashed lines: 80 % and 90 % power.${options.caption ? ` ${options.caption}` : ''}`;
+  const lines = [
+    ...wrapText(captionText, textWidth, CAPTION_SIZE).map((text) => ({ text, kind: 'caption' as const })),
+    ...(options.notes ?? []).flatMap((note) => wrapText(note, textWidth, CAPTION_SIZE, 'semibold').map((text) => ({ text, kind: 'note' as const }))),
+    ...wrapText(FIGURE_CAUTION, textWidth, CAPTION_SIZE).map((text) => ({ text, kind: 'caution' as const })),
+  ];
+  const height = FIGURE.height + LINE * (lines.length - 1);
   const innerW = width - MARGIN.left - MARGIN.right;
   const innerH = FIGURE.height - MARGIN.top - MARGIN.bottom;
   const all = series.flatMap((s) => s.points.map((p) => p.n));
@@ -57,8 +75,10 @@ export function powerCurveSvg(series: readonly PowerSeries[], options: PowerFigu
   const parts: string[] = [];
   parts.push(
     `<svg xmlns="http://www.w3.org/2000/svg" width="${FIGURE.inchesWide}in" height="${height / 100}in" viewBox="0 0 ${width} ${height}" ` +
-      `font-family="${FIGURE_FONT}, sans-serif" role="img" aria-label="${escapeXml(options.title ?? 'Power curve')}">`,
+      // quoted: a family name with a digit in it is not a valid unquoted CSS name, and an invalid one falls back to a serif
+      `font-family="'${FIGURE_FONT}', sans-serif" role="img" aria-label="${escapeXml(options.title ?? 'Power curve')}">`,
   );
+  if (options.fontCss) parts.push(`<defs><style>${options.fontCss}</style></defs>`);
   parts.push(`<rect width="${width}" height="${height}" fill="#ffffff"/>`);
   if (options.title) parts.push(`<text x="${MARGIN.left}" y="24" font-size="16" font-weight="600" fill="#1f2933">${escapeXml(options.title)}</text>`);
   for (const t of y.ticks(5)) {
@@ -87,8 +107,8 @@ export function powerCurveSvg(series: readonly PowerSeries[], options: PowerFigu
   });
   // legend inside the plot, in whichever corner (or side) the curves and their bands leave free:
   // top left for the usual curve that rises with N, bottom right when power is high at small N
-  const longest = Math.max(...series.map((s) => s.label.length), 10);
-  const boxW = Math.min(innerW - 8, 34 + longest * 6.2);
+  const widest = Math.max(...series.map((s) => measure(s.label, 12)), 60);
+  const boxW = Math.min(innerW - 8, 34 + widest);
   const boxH = series.length * 18 + 8;
   const corners = [
     { lx: MARGIN.left + 10, ly: MARGIN.top + 8 },
@@ -125,10 +145,9 @@ export function powerCurveSvg(series: readonly PowerSeries[], options: PowerFigu
     parts.push(`<rect x="${lx}" y="${y0}" width="16" height="10" fill="${colour}" fill-opacity="0.3" stroke="${colour}"/>`);
     parts.push(`<text x="${lx + 22}" y="${y0 + 9}" font-size="12" fill="#1f2933">${escapeXml(s.label)}</text>`);
   });
-  const caption = `Shaded: Wilson 95 % interval. Dashed lines: 80 % and 90 % power.${options.caption ? ` ${options.caption}` : ''}`;
-  parts.push(`<text x="${MARGIN.left}" y="${FIGURE.height - 12}" font-size="11" fill="#4b5563">${escapeXml(caption)}</text>`);
-  notes.forEach((note, i) => {
-    parts.push(`<text x="${MARGIN.left}" y="${FIGURE.height + 3 + 15 * i}" font-size="11" font-weight="600" fill="#92400e">${escapeXml(note)}</text>`);
+  lines.forEach((l, i) => {
+    const style = l.kind === 'note' ? ' font-weight="600" fill="#92400e"' : l.kind === 'caution' ? ' fill="#1f2933" font-style="normal"' : ' fill="#4b5563"';
+    parts.push(`<text x="${MARGIN.left}" y="${FIGURE.height - 12 + LINE * i}" font-size="${CAPTION_SIZE}"${style} data-line="${l.kind}">${escapeXml(l.text)}</text>`);
   });
   parts.push('</svg>');
   return parts.join('\n');

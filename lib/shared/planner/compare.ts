@@ -49,7 +49,16 @@ export function robustness(input: PlannerInput, summary: DesignSummary): Array<{
   });
 }
 
-export type CompareRow = { key: string; label: string; unit: string; values: Array<number | null>; better: 'higher' | 'lower' | 'none'; best: number[] };
+export type CompareRow = {
+  key: string;
+  label: string;
+  unit: string;
+  values: Array<number | null>;
+  better: 'higher' | 'lower' | 'none';
+  best: number[];
+  /** a sentence that says how to read the row, where its values are not self-explanatory */
+  note?: string;
+};
 
 /** Indices of the best value in a row (ties all win); none when fewer than two values exist. */
 export function bestOf(values: Array<number | null>, better: CompareRow['better']): number[] {
@@ -79,8 +88,18 @@ export function compareRows(inputs: PlannerInput[], summaries: DesignSummary[]):
     rows.push(row(`reversal-${id}`, `Expected reversal rate if choices follow ${id}`, 'share of probes', robust.map((r) => r.find((x) => x.model.id === id)?.rate ?? null), 'higher'));
   }
   rows.push(row('worst-model', 'Worst expected reversal rate over the models', 'share of probes', robust.map((r) => Math.min(...r.map((x) => x.rate))), 'higher'));
-  rows.push(row('late-clarity', 'Late-anchor clarity (far gap × near gap)', '× L²', summaries.map((s) => s.typical.lateAnchor?.clarity ?? null), 'higher'));
-  rows.push(row('soon-clarity', 'Soon-anchor clarity', '× L²', summaries.map((s) => s.typical.soonAnchor?.clarity ?? null), 'higher'));
+  // Anchors are placed where their clarity equals the probe's gap product, so their raw clarities
+  // repeat the gap-product row by construction; what differs between designs is whether the
+  // distance bound stopped an anchor short of that target, which the share shows.
+  const anchorShare = (anchor: 'lateAnchor' | 'soonAnchor') =>
+    summaries.map((s) => {
+      const target = s.typical.optimum?.gapProduct;
+      const clarity = s.typical[anchor]?.clarity;
+      return target && clarity !== undefined && target > 0 ? clarity / target : null;
+    });
+  const anchorNote = 'Anchors sit where their clarity (the product of their two gaps) equals the probe’s gap product, so this is 100% unless the distance bound (4 × the zone’s distance from d) stopped the anchor first.';
+  rows.push({ ...row('late-clarity', 'Late-anchor clarity, as a share of the probe’s gap product', 'share of the target', anchorShare('lateAnchor'), 'higher'), note: anchorNote });
+  rows.push({ ...row('soon-clarity', 'Soon-anchor clarity, as a share of the probe’s gap product', 'share of the target', anchorShare('soonAnchor'), 'higher'), note: anchorNote });
   rows.push(row('reversible', 'Share of the prior that can reverse', 'share', summaries.map((s) => s.reversibleShare), 'higher'));
   return rows;
 }

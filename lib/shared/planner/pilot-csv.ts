@@ -1,9 +1,10 @@
 import Papa from 'papaparse';
-import { fitPrior } from '@/lib/design';
+import { fitPrior, type ModelSpec } from '@/lib/design';
+import { estimatePilotChoices, type PilotIssue } from './pilot-choices';
+
+export type { PilotIssue };
 import { PILOT_MAX_BYTES, PILOT_MAX_ROWS, type PriorValues } from '@/lib/shared/validations/planner';
 
-/** One problem in a pilot file: the 1-based line of the file and the column it concerns. */
-export type PilotIssue = { line: number; field: string; message: string };
 
 export type PilotFit =
   | { ok: true; rows: number; prior: PriorValues; notes: string[] }
@@ -23,14 +24,20 @@ export function utf8Bytes(text: string): number {
  * in the design core). Every bad cell is reported with its line and column; nothing is fitted
  * while any remains. Files over 5 MB or with over 100,000 rows are refused before fitting.
  * Fitted spreads and correlations are clipped to the ranges a prior set accepts, with a note.
+ *
+ * A file with a "choice" column holds raw pilot choices instead (one row per answered question:
+ * participant, magnitude, soonerAmount, soonerDelay, laterAmount, laterDelay, choice); each
+ * participant's rates are then first estimated with the calibration block's estimator under
+ * `model` (estimatePilotChoices), and the prior is fitted to those estimates.
  */
-export function fitPilotCsv(text: string): PilotFit {
+export function fitPilotCsv(text: string, options: { model?: ModelSpec } = {}): PilotFit {
   if (utf8Bytes(text) > PILOT_MAX_BYTES) {
     return { ok: false, rows: 0, issues: [], message: `The file is larger than 5 MB. Upload at most ${PILOT_MAX_ROWS.toLocaleString('en-GB')} rows of participant, kSmall, kLarge.` };
   }
   const parsed = Papa.parse<string[]>(text.replace(/^\uFEFF/, ''), { header: false, skipEmptyLines: false });
   const lines = parsed.data;
   const header = (lines[0] ?? []).map((h) => h.trim());
+  if (header.some((h) => h.toLowerCase() === 'choice')) return fitChoices(lines, header, parsed.errors, options.model ?? { id: 'hyperbolic' });
   const columns = REQUIRED.map((name) => header.findIndex((h) => h.toLowerCase() === name.toLowerCase()));
   const missing = REQUIRED.filter((_, i) => columns[i] < 0);
   if (missing.length) {
@@ -94,4 +101,24 @@ function clip(fit: PriorValues): { prior: PriorValues; notes: string[] } {
     }
   }
   return { prior, notes };
+}
+
+function listed(issues: PilotIssue[], rows: number): PilotFit {
+  const shown = issues.slice(0, MAX_LISTED);
+  const more = issues.length - shown.length;
+  return { ok: false, rows, issues: shown, message: `${issues.length} problem${issues.length === 1 ? '' : 's'} in the file${more > 0 ? ` (the first ${MAX_LISTED} are listed)` : ''}. Nothing was fitted.` };
+}
+
+function fitChoices(lines: string[][], header: string[], errors: Papa.ParseError[], model: ModelSpec): PilotFit {
+  const rows = lines.slice(1).filter((cells) => !(cells.length === 1 && cells[0].trim() === '')).length;
+  if (rows > PILOT_MAX_ROWS) return { ok: false, rows, issues: [], message: `The file has more than ${PILOT_MAX_ROWS.toLocaleString('en-GB')} rows; split it first.` };
+  const parseIssues: PilotIssue[] = errors.filter((e) => e.type !== 'Delimiter').map((e) => ({ line: (e.row ?? 0) + 1, field: '(row)', message: e.message }));
+  if (parseIssues.length) return listed(parseIssues, rows);
+  const result = estimatePilotChoices(lines, header, model);
+  if (!result.ok) return result.message ? { ok: false, rows, issues: result.issues, message: result.message } : listed(result.issues, rows);
+  if (result.estimates.length < 3) {
+    return { ok: false, rows, issues: [], message: `A prior needs at least 3 participants with usable estimates; this file gave ${result.estimates.length}. ${result.notes.slice(1).join(' ')}`.trim() };
+  }
+  const fitted = clip(fitPrior(result.estimates));
+  return { ok: true, rows: result.used, prior: fitted.prior, notes: [...result.notes, ...fitted.notes] };
 }

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '@/lib/shared/validations/error-map';
 import { DELAY_UNITS } from './item-bank';
 import { nameText } from '@/lib/shared/validations/text';
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '@/lib/shared/validations/error-map';
 
 /**
  * The item bank's entities, one zod schema each: export options (query string), probe-items
@@ -7,9 +8,17 @@ import { z } from 'zod';
 
 export const DELAY_UNITS = ['days', 'weeks', 'months'] as const;
 
+/**
+ * Export formats: `csv` a plain CSV (one header row, one row per item: what spreadsheets and
+ * survey tools import), `metadata` its JSON sidecar (study, version, hash, seed, units, rules,
+ * column meanings), `json` items and metadata in one file, `csv-annotated` the CSV after
+ * "#" comment lines carrying the metadata, for readers that skip comments.
+ */
+export const EXPORT_FORMATS = ['csv', 'metadata', 'json', 'csv-annotated'] as const;
+
 /** Options of an item-bank export or preview, read from the query string. */
 export const exportOptionsSchema = z.strictObject({
-  format: z.enum(['csv', 'json']).default('json'),
+  format: z.enum(EXPORT_FORMATS).default('json'),
   seed: z.coerce.number().int('The seed must be a whole number.').min(0, 'The seed must be 0 or more.').max(4294967295, 'The seed must be below 2³².').optional(),
   delayUnit: z.enum(DELAY_UNITS).default('days'),
   minGap: z.coerce.number().int().min(1, 'The gap must be at least 1 item.').max(20, 'The gap must be at most 20 items.').default(2),

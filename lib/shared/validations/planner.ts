@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '@/lib/shared/validations/error-map';
 import { freeText, nameText } from '@/lib/shared/validations/text';
 
 /**
@@ -104,6 +105,9 @@ export const commentSchema = z.strictObject({ text: freeText({ label: 'The comme
 /** Editing a prior set names the version it was based on (optimistic locking, 409 when stale). */
 export const priorSetUpdateSchema = z.strictObject({ prior: priorSetSchema, version: z.number().int().positive() });
 export type PriorSetUpdate = z.input<typeof priorSetUpdateSchema>;
+
+/** Query of a pilot upload: the model raw pilot choices are estimated under (files of per-person rates ignore it). */
+export const pilotQuerySchema = z.strictObject({ model: z.enum(MODEL_CHOICES).default('hyperbolic') });
 
 /** Pilot-data upload limits: bigger files are refused before parsing. */
 export const PILOT_MAX_BYTES = 5 * 1024 * 1024;

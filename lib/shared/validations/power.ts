@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '@/lib/shared/validations/error-map';
 import { designChoiceModel } from '@/lib/design/designChoiceModel';
 import { nameText } from '@/lib/shared/validations/text';
 import { modelSpecSchema, priorValuesSchema, type FrozenDesign } from './planner';

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '@/lib/shared/validations/error-map';
 import { participantIdSchema } from '@/lib/shared/validations/item-bank';
 
 /** GET /api/v1/studies/{id}/calibration: for whom, and whether their block is shuffled for them. */

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '@/lib/shared/validations/error-map';
 import { freeText, nameText } from '@/lib/shared/validations/text';
 
 /** The one schema of a study's editable fields, shared by the forms and the route handlers. */

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '@/lib/shared/validations/error-map';
 import { ROLES } from '@/lib/shared/roles';
 import { emailSchema, passwordSchema } from './user';
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '@/lib/shared/validations/error-map';
 
 // Text people type that the app stores and shows again. Two kinds of character are refused rather
 // than stored: a lone UTF-16 surrogate (half of a character, which no database column can hold, so

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import '@/lib/shared/validations/error-map';
 import { nameText } from '@/lib/shared/validations/text';
 
 export const emailSchema = z.string().trim().toLowerCase().pipe(z.email('Enter a valid e-mail address.')).pipe(z.string().max(254));

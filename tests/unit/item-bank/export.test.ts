@@ -31,6 +31,14 @@ describe('item-bank export', () => {
     }
   });
 
+  it('writes a plain CSV without header lines: the column row first, no comment lines', () => {
+    const { bank } = bankFor({ hash: HASH, content: design() });
+    const csv = itemsCsv(bank.items);
+    expect(csv.split('\r\n')[0]).toBe(ITEM_COLUMNS.join(','));
+    expect(csv).not.toMatch(/^#/m);
+    expect(readBack(csv)).toEqual(JSON.parse(JSON.stringify(bank.items)));
+  });
+
   it('neutralises a formula smuggled into a text cell and restores it on reading back', () => {
     const { bank } = bankFor({ hash: HASH, content: design() });
     const items = bank.items.map((i, n) => (n === 0 ? { ...i, text: '=HYPERLINK("http://example.org")' } : i));

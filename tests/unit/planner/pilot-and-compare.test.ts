@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { bestOf, compareRows, robustness } from '@/lib/shared/planner/compare';
 import { defaultSpec } from '@/lib/shared/planner/design-form-values';
 import { fitPilotCsv } from '@/lib/shared/planner/pilot-csv';
+import { fmtSmallRow } from '@/lib/shared/planner/format';
 import { computeDesignSummary } from '@/lib/shared/planner/summary';
 import type { PriorValues } from '@/lib/shared/validations/planner';
 
@@ -89,5 +90,35 @@ describe('comparing designs', () => {
     expect(width.values[0]).toBeCloseTo((0.02 * 14) / (0.6 * 0.008) - 14, 9);
     expect(width.best).toEqual([1]);
     expect(rows.find((r) => r.key === 'criterion')!.better).toBe('higher');
+  });
+
+  it('shows anchor clarity as a share of the probe’s gap product (100% by construction unless the distance bound stopped the anchor), not a copy of the gap-product row', () => {
+    const a = { spec: defaultSpec('A', 1), prior };
+    const b = { spec: { ...defaultSpec('B', 1), soonDelay: { mode: 'fixed' as const, days: 30 } }, prior };
+    const summaries = [computeDesignSummary(a), computeDesignSummary(b)];
+    const rows = compareRows([a, b], summaries);
+    for (const key of ['late-clarity', 'soon-clarity'] as const) {
+      const row = rows.find((r) => r.key === key)!;
+      expect(row.unit).toBe('share of the target');
+      expect(row.note).toMatch(/distance bound/);
+      summaries.forEach((s, i) => {
+        const anchor = key === 'late-clarity' ? s.typical.lateAnchor : s.typical.soonAnchor;
+        if (!anchor) return expect(row.values[i]).toBeNull();
+        // anchorDelays' root finder meets the target to its own tolerance when the bound is not reached
+        if (anchor.reachesTarget) expect(row.values[i]).toBeCloseTo(1, 6);
+        else expect(row.values[i]!).toBeLessThan(1);
+      });
+    }
+  });
+});
+
+describe('one number format per row', () => {
+  it('writes every value of a row in exponent notation when any of them is below 0.01', () => {
+    const f = fmtSmallRow([0.0123, 0.00456, null]);
+    expect([f(0.0123), f(0.00456), f(null)]).toEqual(['1.23e-2', '4.56e-3', '—']);
+  });
+  it('keeps plain notation when every value is 0.01 or more (or zero)', () => {
+    const f = fmtSmallRow([0.0123, 0.5, 0]);
+    expect([f(0.0123), f(0.5), f(0)]).toEqual(['0.0123', '0.5', '0']);
   });
 });

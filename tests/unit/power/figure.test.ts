@@ -41,9 +41,11 @@ describe('warnings under the figure', () => {
   it('prints each note below the caption and grows the figure by a line per note, keeping the plot', () => {
     const plain = powerCurveSvg([series('A', (n) => n / 250)]);
     const noted = powerCurveSvg([series('A', (n) => n / 250)], { notes: ['Pooled McNemar test assumes independent pairs.'] });
-    expect(plain).toContain('viewBox="0 0 650 420"');
-    expect(noted).toContain('viewBox="0 0 650 435"');
-    expect(noted).toContain('height="4.35in"');
+    const height = (svg: string) => Number(/viewBox="0 0 650 ([\d.]+)"/.exec(svg)![1]);
+    // the plain figure already has its wrapped caption and the caution below the plot
+    expect(height(plain)).toBeGreaterThan(420);
+    expect(height(noted)).toBe(height(plain) + 15);
+    expect(noted).toContain(`height="${(height(plain) + 15) / 100}in"`);
     expect(noted).toContain('>Pooled McNemar test assumes independent pairs.</text>');
     expect(legendBox(noted)).toEqual(legendBox(plain));
   });

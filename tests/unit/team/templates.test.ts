@@ -30,7 +30,7 @@ describe('the invitation message', () => {
     expect(message.subject).toContain('Bonus <timing>');
     expect(message.text).toContain('as editor');
     expect(message.text).toContain('http://127.0.0.1:3000/invitations/tok');
-    expect(message.text).toContain('9 December 2026');
+    expect(message.text).toContain('9 Dec 2026'); // the app's one date format (lib/shared/format.ts)
   });
 
   it('escapes the study name in the HTML part', () => {
