@@ -9,7 +9,15 @@ export default defineConfig({
     projects: [
       {
         extends: true,
-        test: { name: 'unit', include: ['tests/unit/**/*.test.ts', 'tests/property/**/*.test.ts'], environment: 'node', setupFiles: ['tests/support/seeded-properties.ts'] },
+        test: {
+          name: 'unit',
+          include: ['tests/unit/**/*.test.ts', 'tests/property/**/*.test.ts'],
+          environment: 'node',
+          setupFiles: ['tests/support/seeded-properties.ts'],
+          // Seeded property sweeps and 40-digit references can take several seconds on a busy 2-core
+          // machine; a timeout is a hang detector here, never a speed check (speed lives in bench/).
+          testTimeout: 30_000,
+        },
       },
       {
         extends: true,

@@ -1,6 +1,6 @@
 import type { Sequelize } from 'sequelize';
 import { contentHash } from '../../lib/shared/canonical-json';
-import { analyseStudy, ANALYSIS_ENGINE_VERSION, choiceProbability, createRandom, discountFactor, priorPoints, resultsParagraph, serveParticipant, type BankItem, type ParticipantData } from '../../lib/design';
+import { analyseStudy, ANALYSIS_ENGINE_VERSION, choiceProbability, designChoiceModel, createRandom, discountFactor, priorPoints, resultsParagraph, serveParticipant, type BankItem, type ParticipantData } from '../../lib/design';
 import { bankFor } from '../../lib/shared/item-bank-plan';
 import { participantData, type StoredAnswer } from '../../lib/shared/results/participant-data';
 import { storeAnalysis } from '../../lib/shared/results/stored-analysis';
@@ -104,7 +104,7 @@ export async function seed(sequelize: Sequelize): Promise<void> {
       data.push(participantData({ participantId, calibrationItems: bank.items, responses, served, answers }));
     }
     const settings = { exclusions: DEFAULT_EXCLUSIONS, alternative: 'greater' as const, alpha: 0.05, zoneModel: 'bic' as const };
-    const analysis = analyseStudy(data, { model: content.spec.model, choice: { sensitivity: 10, lapse: 0 }, ...settings });
+    const analysis = analyseStudy(data, { model: content.spec.model, choice: designChoiceModel(content.spec), ...settings });
     const software = `Switchback ${packageJson.version} (analysis engine ${ANALYSIS_ENGINE_VERSION})`;
     const paragraph = resultsParagraph(analysis, { designLabel: `${content.spec.name}, frozen version ${version.number}`, designHash: version.hash, analysisLabel: `${ANALYSIS_NAME}, version 1`, software });
     await Analysis.create(

@@ -3,7 +3,7 @@ import { db } from '@/db';
 import { Analysis, User } from '@/db/models';
 import { ConflictError, NotFoundError, ValidationError } from '@/lib/server/errors';
 import { figurePng } from '@/lib/server/figures/png';
-import { analyseStudy, ANALYSIS_ENGINE_VERSION, DesignInputError, resultsParagraph, type ModelId } from '@/lib/design';
+import { analyseStudy, ANALYSIS_ENGINE_VERSION, designChoiceModel, DesignInputError, resultsParagraph, type ModelId } from '@/lib/design';
 import { recordsToCsv } from '@/lib/shared/csv';
 import { patternsSvg, zonesSvg } from '@/lib/shared/figures/results-figures';
 import { storeAnalysis, type StoredAnalysis } from '@/lib/shared/results/stored-analysis';
@@ -17,9 +17,6 @@ import { parseEntityId } from '@/lib/server/route-ids';
 
 /** "Switchback 0.1.0 (analysis engine 1)": the software every saved analysis cites. */
 export const ANALYSIS_SOFTWARE = `Switchback ${packageJson.version} (analysis engine ${ANALYSIS_ENGINE_VERSION})`;
-
-/** The choice model serving estimates with (estimateRates' default γ = 10, no lapse); the analysis holds it fixed too. */
-const SERVING_CHOICE = { sensitivity: 10, lapse: 0 } as const;
 
 export type AnalysisDto = {
   id: number;
@@ -58,7 +55,8 @@ export async function createAnalysis(actorId: number, studyId: number, input: An
   const settings = { exclusions: input.exclusions, alternative: input.alternative, alpha: input.alpha, zoneModel: input.zoneModel };
   let analysis;
   try {
-    analysis = analyseStudy(data, { model: content.spec.model, choice: SERVING_CHOICE, exclusions: input.exclusions, alternative: input.alternative, alpha: input.alpha, zoneModel: input.zoneModel as ModelId | 'aic' | 'bic' });
+    // The frozen design's own γ, the one the probe-items API served estimates with: the refit holds it fixed.
+    analysis = analyseStudy(data, { model: content.spec.model, choice: designChoiceModel(content.spec), exclusions: input.exclusions, alternative: input.alternative, alpha: input.alpha, zoneModel: input.zoneModel as ModelId | 'aic' | 'bic' });
   } catch (error) {
     if (error instanceof DesignInputError) throw new ValidationError([{ path: error.field, message: error.message }], 'The analysis cannot be run with these settings.');
     throw error;
