@@ -7,6 +7,7 @@ import { Table, Td, Th } from '@/components/ui/table';
 import { analysisExportUrl, type AnalysisDto } from '@/lib/client/results';
 import { patternsSvg, zonesSvg } from '@/lib/shared/figures/results-figures';
 import { ROLE_LABELS, SOURCE_LABELS, type StoredAnalysis } from '@/lib/shared/results/stored-analysis';
+import { formatDateTime } from '@/lib/shared/format';
 
 const PATTERNS = ['LL', 'LS', 'SL', 'SS'] as const;
 const RULE_LABELS: Record<string, string> = {
@@ -39,7 +40,7 @@ export function AnalysisView({ studyId, analysis }: { studyId: number; analysis:
     <div className="space-y-6" data-testid="analysis-view">
       <Card title={`${analysis.label}`} actions={<span className="text-xs text-ink-soft">design {analysis.designVersion.name}, version {analysis.designVersion.number} · {analysis.designVersion.hash.slice(0, 12)}</span>}>
         <p className="text-sm">
-          N = {r.participantsAnalysed} of {r.participantsTotal} participants after exclusions. {analysis.software}; saved {new Date(analysis.createdAt).toLocaleString('en-GB')}
+          N = {r.participantsAnalysed} of {r.participantsTotal} participants after exclusions. {analysis.software}; saved {formatDateTime(analysis.createdAt)}
           {analysis.createdBy ? ` by ${analysis.createdBy}` : ''}.
         </p>
         <div className="mt-2 flex flex-wrap gap-2" data-testid="analysis-downloads">

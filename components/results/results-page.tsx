@@ -7,6 +7,7 @@ import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { useStudyContext } from '@/components/studies/study-context';
 import { useVersions } from '@/lib/client/planner';
+import { formatDate } from '@/lib/shared/format';
 import { useAnalyses, useAnalysis, type AnalysisDto } from '@/lib/client/results';
 import type { StoredAnalysis } from '@/lib/shared/results/stored-analysis';
 import { AnalysisView } from './analysis-view';
@@ -20,9 +21,11 @@ export function ResultsPage() {
   const analyses = useAnalyses(study.id);
   const [chosenVersion, setVersionId] = useState<number | null>(null);
   const [chosenAnalysis, setSelected] = useState<number | null>(null);
-  // until someone picks, the newest version and the newest analysis are shown
-  const versionId = chosenVersion ?? versions.data?.[0]?.id ?? null;
+  // until someone picks, the newest analysis is shown, and a new analysis starts from the version
+  // that one analysed (a newer frozen version usually has no participants yet), else the newest version
   const selected = chosenAnalysis ?? analyses.data?.[0]?.id ?? null;
+  const analysedVersion = analyses.data?.find((a) => a.id === selected)?.designVersion.id;
+  const versionId = chosenVersion ?? analysedVersion ?? versions.data?.[0]?.id ?? null;
   const analysis = useAnalysis(study.id, selected);
 
   return (
@@ -33,7 +36,7 @@ export function ResultsPage() {
             <SelectField label="Analysis" value={selected ?? ''} onChange={(e) => setSelected(Number(e.target.value))}>
               {analyses.data.map((a: AnalysisDto) => (
                 <option key={a.id} value={a.id}>
-                  {a.label} — design version {a.designVersion.number} ({new Date(a.createdAt).toLocaleDateString('en-GB')})
+                  {a.label} — design version {a.designVersion.number} ({formatDate(a.createdAt)})
                 </option>
               ))}
             </SelectField>
