@@ -4,6 +4,7 @@ import * as threads from 'node:worker_threads';
 import type { Worker } from 'node:worker_threads';
 import type { ParticipantData, ParticipantRefit, RefitOptions } from '@/lib/design';
 import { powerEnv } from '@/lib/server/env';
+import { workerMessage } from '../worker-message';
 
 /** Default worker count: ANALYSIS_WORKERS if set, else the machine's available parallelism (at most 8). */
 export function defaultRefitWorkers(): number {
@@ -37,13 +38,13 @@ export async function runRefits(participants: readonly ParticipantData[], option
   let next = 0;
   let requestId = 0;
   try {
-    await Promise.all(workers.map((w) => listen<{ ready?: boolean }>(w, (m) => m?.ready === true)));
+    await Promise.all(workers.map((w) => workerMessage<{ ready?: boolean }>(w, (m) => m?.ready === true, 'refit worker')));
     await Promise.all(
       workers.map(async (worker) => {
         while (next < chunks.length) {
           const [from, to] = chunks[next++];
           const id = ++requestId;
-          const reply = listen<{ id: number; refits?: ParticipantRefit[]; error?: string }>(worker, (m) => m?.id === id);
+          const reply = workerMessage<{ id: number; refits?: ParticipantRefit[]; error?: string }>(worker, (m) => m?.id === id, 'refit worker');
           worker.postMessage({ id, participants: participants.slice(from, to), options: refit });
           const answer = await reply;
           if (answer.error !== undefined || !answer.refits) throw new Error(`refit worker: ${answer.error}`);
@@ -55,31 +56,4 @@ export async function runRefits(participants: readonly ParticipantData[], option
     await Promise.all(workers.map((w) => w.terminate()));
   }
   return out;
-}
-
-/** Resolves with the first message that `accept`s; rejects when the worker fails or stops first. */
-function listen<T>(worker: Worker, accept: (message: T) => boolean): Promise<T> {
-  return new Promise((resolve, reject) => {
-    const onMessage = (message: T) => {
-      if (!accept(message)) return;
-      cleanup();
-      resolve(message);
-    };
-    const onError = (error: Error) => {
-      cleanup();
-      reject(error);
-    };
-    const onExit = (code: number) => {
-      cleanup();
-      reject(new Error(`refit worker stopped (exit code ${code})`));
-    };
-    const cleanup = () => {
-      worker.off('message', onMessage);
-      worker.off('error', onError);
-      worker.off('exit', onExit);
-    };
-    worker.on('message', onMessage);
-    worker.on('error', onError);
-    worker.on('exit', onExit);
-  });
 }

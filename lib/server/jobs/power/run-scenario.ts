@@ -4,6 +4,7 @@ import * as threads from 'node:worker_threads';
 import type { Worker } from 'node:worker_threads';
 import { mergeTallies } from '@/lib/design/power/tally';
 import { powerEnv } from '@/lib/server/env';
+import { workerMessage } from '../worker-message';
 import type { PowerScenario, PowerTally } from '@/lib/design/power/types';
 
 export type RunScenarioOptions = {
@@ -100,58 +101,16 @@ export async function runScenarios(scenarios: readonly PowerScenario[], options:
 }
 
 /** Resolves when a worker has loaded the engine and listens; rejects if it fails to start. */
-function ready(worker: Worker): Promise<void> {
-  return new Promise((resolve, reject) => {
-    const onMessage = (message: { ready?: boolean }) => {
-      if (!message?.ready) return;
-      cleanup();
-      resolve();
-    };
-    const onError = (error: Error) => {
-      cleanup();
-      reject(error);
-    };
-    const onExit = (code: number) => {
-      cleanup();
-      reject(new Error(`power worker stopped while starting (exit code ${code})`));
-    };
-    const cleanup = () => {
-      worker.off('message', onMessage);
-      worker.off('error', onError);
-      worker.off('exit', onExit);
-    };
-    worker.on('message', onMessage);
-    worker.on('error', onError);
-    worker.on('exit', onExit);
-  });
+async function ready(worker: Worker): Promise<void> {
+  await workerMessage<{ ready?: boolean }>(worker, (message) => message?.ready === true, 'power worker (while starting)');
 }
 
 type Reply = { id: number; tally: PowerTally; longestCalibrationDelay: number | null; error?: undefined } | { id: number; error: string };
 
-function ask(worker: Worker, request: { id: number; key: string; index: number; scenario: PowerScenario; from: number; to: number }) {
-  return new Promise<{ tally: PowerTally; longestCalibrationDelay: number | null }>((resolve, reject) => {
-    const onMessage = (reply: Reply) => {
-      if (reply.id !== request.id) return;
-      cleanup();
-      if (reply.error !== undefined) reject(new Error(`power worker: ${reply.error}`));
-      else resolve({ tally: reply.tally, longestCalibrationDelay: reply.longestCalibrationDelay });
-    };
-    const onError = (error: Error) => {
-      cleanup();
-      reject(error);
-    };
-    const onExit = (code: number) => {
-      cleanup();
-      reject(new Error(`power worker stopped (exit code ${code})`));
-    };
-    const cleanup = () => {
-      worker.off('message', onMessage);
-      worker.off('error', onError);
-      worker.off('exit', onExit);
-    };
-    worker.on('message', onMessage);
-    worker.on('error', onError);
-    worker.on('exit', onExit);
-    worker.postMessage(request);
-  });
+async function ask(worker: Worker, request: { id: number; key: string; index: number; scenario: PowerScenario; from: number; to: number }) {
+  const reply = workerMessage<Reply>(worker, (message) => message.id === request.id, 'power worker');
+  worker.postMessage(request);
+  const answer = await reply;
+  if (answer.error !== undefined) throw new Error(`power worker: ${answer.error}`);
+  return { tally: answer.tally, longestCalibrationDelay: answer.longestCalibrationDelay };
 }
