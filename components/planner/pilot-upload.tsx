@@ -1,7 +1,7 @@
 'use client';
 
 import { useState } from 'react';
-import { Notice } from '@/components/ui/notice';
+import { Notice, ProblemNotice, type Problem } from '@/components/ui/notice';
 import { ApiClientError } from '@/lib/client/api';
 import { useFitPilot, type PilotFitDto } from '@/lib/client/planner';
 import { MODEL_CHOICES, PILOT_MAX_BYTES } from '@/lib/shared/validations/planner';
@@ -14,7 +14,7 @@ import { MODEL_LABELS } from './labels';
  */
 export function PilotUpload({ studyId, onFitted }: { studyId: number; onFitted: (fit: PilotFitDto, fileName: string) => void }) {
   const fit = useFitPilot(studyId);
-  const [problem, setProblem] = useState<{ message: string; issues: Array<{ path: string; message: string }> } | null>(null);
+  const [problem, setProblem] = useState<Problem | null>(null);
   const [done, setDone] = useState<string | null>(null);
   const [model, setModel] = useState<(typeof MODEL_CHOICES)[number]>('hyperbolic');
 
@@ -59,20 +59,7 @@ export function PilotUpload({ studyId, onFitted }: { studyId: number; onFitted: 
       </label>
       {fit.isPending ? <p className="text-sm text-ink-soft">Fitting…</p> : null}
       {done ? <Notice>{done}</Notice> : null}
-      {problem ? (
-        <Notice tone="error" title="The pilot file was not used">
-          <p>{problem.message}</p>
-          {problem.issues.length ? (
-            <ul className="mt-1 list-disc pl-5" data-testid="pilot-issues">
-              {problem.issues.map((i, n) => (
-                <li key={n}>
-                  {i.path} — {i.message}
-                </li>
-              ))}
-            </ul>
-          ) : null}
-        </Notice>
-      ) : null}
+      {problem ? <ProblemNotice title="The pilot file was not used" problem={problem} testId="pilot-issues" /> : null}
     </div>
   );
 }

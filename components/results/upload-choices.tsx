@@ -1,7 +1,7 @@
 'use client';
 
 import { useState } from 'react';
-import { Notice } from '@/components/ui/notice';
+import { Notice, ProblemNotice, type Problem } from '@/components/ui/notice';
 import { ApiClientError } from '@/lib/client/api';
 import { useUploadChoices, type UploadReport } from '@/lib/client/results';
 import { CHOICES_MAX_BYTES } from '@/lib/shared/results/choices-csv';
@@ -9,7 +9,7 @@ import { CHOICES_MAX_BYTES } from '@/lib/shared/results/choices-csv';
 /** Upload observed stage-2 choices (long format CSV); the report says what was recorded, or every problem with its line. */
 export function UploadChoices({ studyId }: { studyId: number }) {
   const upload = useUploadChoices(studyId);
-  const [problem, setProblem] = useState<{ message: string; issues: Array<{ path: string; message: string }> } | null>(null);
+  const [problem, setProblem] = useState<Problem | null>(null);
   const [report, setReport] = useState<(UploadReport & { file: string }) | null>(null);
 
   async function onFile(file: File | undefined) {
@@ -49,20 +49,7 @@ export function UploadChoices({ studyId }: { studyId: number }) {
           ))}
         </Notice>
       ) : null}
-      {problem ? (
-        <Notice tone="error" title="Nothing was imported">
-          <p>{problem.message}</p>
-          {problem.issues.length ? (
-            <ul className="mt-1 list-disc pl-5" data-testid="upload-issues">
-              {problem.issues.map((i, n) => (
-                <li key={n}>
-                  {i.path} — {i.message}
-                </li>
-              ))}
-            </ul>
-          ) : null}
-        </Notice>
-      ) : null}
+      {problem ? <ProblemNotice title="Nothing was imported" problem={problem} testId="upload-issues" /> : null}
     </div>
   );
 }

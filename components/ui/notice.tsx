@@ -15,3 +15,24 @@ export function Notice({ tone = 'info', title, children }: { tone?: keyof typeof
     </div>
   );
 }
+
+/** A refused request or file: its message and, when there are any, every issue with its field or line. */
+export type Problem = { message: string; issues: Array<{ path: string; message: string }> };
+
+/** The error notice for a `Problem`: the message, then a list of the issues (`testId` names the list). */
+export function ProblemNotice({ title, problem, testId }: { title: string; problem: Problem; testId: string }) {
+  return (
+    <Notice tone="error" title={title}>
+      <p>{problem.message}</p>
+      {problem.issues.length ? (
+        <ul className="mt-1 list-disc pl-5" data-testid={testId}>
+          {problem.issues.map((i, n) => (
+            <li key={n}>
+              {i.path} — {i.message}
+            </li>
+          ))}
+        </ul>
+      ) : null}
+    </Notice>
+  );
+}
