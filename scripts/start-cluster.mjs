@@ -3,7 +3,8 @@
 // go to the shared queue, the session API's rate limit and key revocation are shared), and N queue
 // workers (`npm run worker`). Ctrl-C stops them all, the Redis and the app's MariaDB included.
 //
-//   npm run start:cluster [-- --workers N] [-- --threads T]   (N workers of T threads; default 1 of all cores)
+//   npm run start:cluster [-- --workers N] [-- --threads T] [-- --dev]   (N workers of T threads; default
+//   1 of all cores; --dev runs the app as `npm run dev` does)
 //
 // With REDIS_URL already set, that Redis is used and left running. Workers on other machines join by
 // running `REDIS_URL=redis://<this machine>:<port> npm run worker` (see README, "Several machines").
@@ -16,7 +17,7 @@ import { spawnNode, spawnNpx, stopChild, waitForExit } from './system.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const log = (message) => console.log(`[switchback cluster] ${message}`);
-const { values: flags } = parseArgs({ options: { workers: { type: 'string', default: '1' }, threads: { type: 'string' } } });
+const { values: flags } = parseArgs({ options: { workers: { type: 'string', default: '1' }, threads: { type: 'string' }, dev: { type: 'boolean', default: false } } });
 const workerCount = Number.parseInt(flags.workers, 10);
 if (!Number.isInteger(workerCount) || workerCount < 0 || workerCount > 32) {
   console.error('--workers must be a whole number from 0 to 32');
@@ -56,7 +57,7 @@ async function main() {
     workers.push(worker);
   }
   log(`${workerCount} queue worker${workerCount === 1 ? '' : 's'} of ${threads} thread${threads === '1' ? '' : 's'} on ${REDIS_URL}`);
-  app = spawnNode(['scripts/start.mjs'], { env, cwd: ROOT });
+  app = spawnNode(['scripts/start.mjs', ...(flags.dev ? ['--dev'] : [])], { env, cwd: ROOT });
   const code = await waitForExit(app);
   app = null;
   if (!shuttingDown) {
