@@ -11,9 +11,9 @@ export type AnswerSource = 'api' | 'page' | 'upload';
 
 /**
  * One participant's run through both blocks of a frozen version, once Switchback knows of it
- * (calibration block fetched for them, session page opened, stage-2 answers received).
- * A participant served through the probe-items API alone has a `participants` row and no
- * session row until their first stage-2 answer: the hot path writes one statement.
+ * (calibration block fetched for them, consent on the session page, calibration answers scored by
+ * the probe-items API, stage-2 answers received). Participants served by a batch upload have a
+ * `participants` row and no session row.
  */
 export class ParticipantSession extends Model<InferAttributes<ParticipantSession>, InferCreationAttributes<ParticipantSession>> {
   declare id: CreationOptional<number>;

@@ -45,6 +45,9 @@ async function currentItem(page: Page) {
   return page.getByTestId('choice-step').getAttribute('data-item-id');
 }
 
+/** The item on screen now, or 'done' when there is none (the completion step). */
+const itemOrDone = (page: Page) => page.getByTestId('choice-step').getAttribute('data-item-id', { timeout: 500 }).catch(() => 'done');
+
 test('a participant runs the session page from the link to the completion code and the redirect, resuming after a reload', async ({ page, browser }) => {
   test.setTimeout(240_000);
   panel = createServer((req, res) => {
@@ -118,7 +121,7 @@ test('a participant runs the session page from the link to the completion code a
       if (await done.isVisible()) break;
       const item = await currentItem(participant);
       await participant.locator(`button[data-option="${item?.startsWith('check-') || clicks % 3 === 0 ? 'sooner' : 'later'}"]:not([disabled])`).click();
-      await expect.poll(() => participant.getByTestId('choice-step').getAttribute('data-item-id').catch(() => 'done')).not.toBe(item);
+      await expect.poll(() => itemOrDone(participant)).not.toBe(item);
       clicks++;
       expect(clicks).toBeLessThan(200);
     }
@@ -171,7 +174,7 @@ test('a preview runs the link without any record, and a paused link tells partic
       if (await done.isVisible()) break;
       const item = await page.getByTestId('choice-step').getAttribute('data-item-id');
       await page.locator(`button[data-option="${item?.startsWith('check-') ? 'sooner' : 'later'}"]:not([disabled])`).click();
-      await expect.poll(() => page.getByTestId('choice-step').getAttribute('data-item-id').catch(() => 'done')).not.toBe(item);
+      await expect.poll(() => itemOrDone(page)).not.toBe(item);
       clicks++;
       expect(clicks).toBeLessThan(200);
     }

@@ -1,11 +1,11 @@
 import { Participant } from '@/db/models';
 import { db, rawQuery } from '@/db';
-import { ConflictError, UnauthorizedError, ValidationError } from '@/lib/server/errors';
+import { ConflictError, ValidationError } from '@/lib/server/errors';
 import { contentHash } from '@/lib/shared/canonical-json';
 import { recordsToCsv, toCsv } from '@/lib/shared/csv';
 import { ItemBankInputError, serveParticipant, type ServedItems } from '@/lib/design';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
-import { markApiKeyRevoked, type CachedKey } from './api-keys';
+import { markApiKeyRevoked, RevokedKeyError, type CachedKey } from './api-keys';
 import { bankOrInvalid } from './item-bank';
 
 /** Who serves: a key (the probe-items API), an operator (a batch), or a participant on the session page. */
@@ -72,7 +72,7 @@ export async function serveProbeItemsJson(
     if (result.affectedRows === 0 && by.source === 'api') {
       // revoked (or deleted with its study) after this process cached it
       markApiKeyRevoked(by.key);
-      throw new UnauthorizedError('This API key is unknown or has been revoked.');
+      throw new RevokedKeyError(by.key);
     }
     return json;
   } catch (error) {
