@@ -7,7 +7,7 @@ import { Card } from '@/components/ui/card';
 import { Notice } from '@/components/ui/notice';
 import { QueryState } from '@/components/ui/query-state';
 import { useStudyContext } from '@/components/studies/study-context';
-import { useFrozenVersions } from '@/lib/client/item-bank';
+import { useFrozenVersions, type FrozenVersionDto } from '@/lib/client/item-bank';
 import { useSessionLinks, useSetSessionLinkStatus, type SessionLinkDto } from '@/lib/client/session-page';
 import { formatDateTime } from '@/lib/shared/format';
 import { NewLinkForm } from './new-link-form';
@@ -31,13 +31,13 @@ export function SessionLinksPage() {
         </QueryState>
       </Card>
       <QueryState query={links} label="Loading links…">
-        {links.data?.length ? links.data.map((link) => <LinkCard key={link.id} studyId={study.id} link={link} />) : <p className="text-sm text-ink-soft">No participant links yet.</p>}
+        {links.data?.length ? links.data.map((link) => <LinkCard key={link.id} studyId={study.id} link={link} version={versions.data?.find((v) => v.id === link.designVersionId)} />) : <p className="text-sm text-ink-soft">No participant links yet.</p>}
       </QueryState>
     </div>
   );
 }
 
-function LinkCard({ studyId, link }: { studyId: number; link: SessionLinkDto }) {
+function LinkCard({ studyId, link, version }: { studyId: number; link: SessionLinkDto; version: FrozenVersionDto | undefined }) {
   const setStatus = useSetSessionLinkStatus(studyId);
   const [copied, setCopied] = useState(false);
   const url = `${typeof window === 'undefined' ? '' : window.location.origin}${link.path}?${link.participantParam}=PARTICIPANT_ID`;
@@ -57,7 +57,7 @@ function LinkCard({ studyId, link }: { studyId: number; link: SessionLinkDto }) 
           <dt className="text-ink-soft">Title</dt>
           <dd>{link.title}</dd>
           <dt className="text-ink-soft">Version</dt>
-          <dd>#{link.designVersionId}</dd>
+          <dd>{version ? `${version.designName} · v${version.number} · ${version.hash.slice(0, 12)}` : `#${link.designVersionId}`}</dd>
           <dt className="text-ink-soft">Completion code</dt>
           <dd className="font-mono">{link.completionCode}</dd>
           <dt className="text-ink-soft">Redirect</dt>
