@@ -57,7 +57,15 @@ export function SessionRunner({ driver, preview = false }: { driver: PageDriver;
   useEffect(() => {
     // from a timer, not the effect's body: the load sets state when its reply comes
     const timer = setTimeout(() => void run(driver.load), 0);
-    return () => clearTimeout(timer);
+    // a tab brought back to the front asks where the session is now (another tab may have moved it on)
+    const onVisible = () => {
+      if (document.visibilityState === 'visible') void run(driver.load);
+    };
+    document.addEventListener('visibilitychange', onVisible);
+    return () => {
+      clearTimeout(timer);
+      document.removeEventListener('visibilitychange', onVisible);
+    };
   }, [driver, run]);
 
   const choose = useCallback(
