@@ -9,7 +9,7 @@ import { sharedRedis } from '@/lib/server/redis';
  * Settings: PROBE_API_BURST (default 200) and PROBE_API_PER_SECOND (default 100).
  */
 export class KeyRateLimiter {
-  private readonly buckets = new Map<number, { tokens: number; at: number }>();
+  private readonly buckets = new Map<number | string, { tokens: number; at: number }>();
 
   constructor(
     public capacity: number,
@@ -19,8 +19,8 @@ export class KeyRateLimiter {
     public readonly name = 'probe',
   ) {}
 
-  /** Takes one token for `keyId` in this process: 0 when allowed, else the seconds to wait (for Retry-After). */
-  take(keyId: number): number {
+  /** Takes one token for `keyId` (a key id, or any other name of a caller) in this process: 0 when allowed, else the seconds to wait (for Retry-After). */
+  take(keyId: number | string): number {
     const t = this.now();
     const bucket = this.buckets.get(keyId) ?? { tokens: this.capacity, at: t };
     bucket.tokens = Math.min(this.capacity, bucket.tokens + ((t - bucket.at) / 1000) * this.perSecond);
@@ -37,7 +37,7 @@ export class KeyRateLimiter {
    * Takes one token for `keyId` from the bucket every app process shares when REDIS_URL is set
    * (the same arithmetic as take, done atomically in Redis on Redis's clock), else from this process's.
    */
-  async takeShared(keyId: number): Promise<number> {
+  async takeShared(keyId: number | string): Promise<number> {
     const redis = sharedRedis('request');
     if (!redis) return this.take(keyId);
     const ttlMs = Math.ceil((this.capacity / Math.max(this.perSecond, 1e-6)) * 1000) + 1000;
