@@ -120,6 +120,17 @@ test('a participant runs the session page from the link to the completion code a
     await second.close();
     expect(await answersSoFar()).toBe(5);
 
+    // a lost connection: the answer waits, is sent again when the connection is back, and is recorded once
+    const offlineItem = await currentItem(participant);
+    await context.setOffline(true);
+    await participant.locator('button[data-option="later"]:not([disabled])').click();
+    await expect(participant.getByText('The connection was lost')).toBeVisible();
+    expect(await answersSoFar()).toBe(5);
+    await context.setOffline(false);
+    await expect.poll(() => currentItem(participant), { timeout: 20_000 }).not.toBe(offlineItem);
+    await expect(participant.getByText('The connection was lost')).toHaveCount(0);
+    expect(await answersSoFar()).toBe(6);
+
     // the phone: no sideways scrolling at 375 px
     await participant.setViewportSize({ width: 375, height: 740 });
     await currentItem(participant);
