@@ -11,6 +11,8 @@ import { ParticipantSession, Stage2Answer } from './session';
 // account security: address confirmation and signed-out sessions
 import { EmailConfirmationToken, EndedSession } from './account';
 import { Analysis } from './analysis';
+// real rewards: reward settings per version, the payout ledger, participants' payment details
+import { Payout, PaymentDetail, RewardSettings } from './payout';
 
 export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
 export { ApiKey, Participant };
@@ -19,6 +21,7 @@ export { PowerRun };
 export { ParticipantSession, Stage2Answer };
 export { EmailConfirmationToken, EndedSession };
 export { Analysis };
+export { Payout, PaymentDetail, RewardSettings };
 
 /**
  * Registers every model and association on one Sequelize instance. A new model is added here
@@ -44,6 +47,9 @@ export function registerModels(sequelize: Sequelize): void {
   ParticipantSession.register(sequelize);
   Stage2Answer.register(sequelize);
   Analysis.register(sequelize);
+  RewardSettings.register(sequelize);
+  Payout.register(sequelize);
+  PaymentDetail.register(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });
