@@ -4,14 +4,13 @@ import { DesignVersion, PaymentDetail, Payout, RewardSettings } from '@/db/model
 import type { PayoutStatus } from '@/db/models/payout';
 import { DesignInputError, formatMinorUnits, toMinorUnits } from '@/lib/design';
 import { toCsv } from '@/lib/shared/csv';
+import { REWARD_CAUTION } from '@/lib/shared/rewards';
 import type { PayoutsQuery, RewardSettingsInput } from '@/lib/shared/validations/payouts';
 import { ConflictError, NotFoundError, ValidationError } from '@/lib/server/errors';
 import { recordAudit } from './audit';
 import { holdReason } from './payouts-draw';
 
-/** Shown with the settings, the ledger and every export. */
-export const REWARD_CAUTION =
-  'Real rewards must follow the payment and deception rules your ethics board approved; Switchback records the draw and the payments, it does not approve them. The paid choice is one hypothetical-looking choice made real, not an assessment of the participant.';
+export { REWARD_CAUTION };
 
 /** One frozen version's real-reward settings, amounts as exact decimal text of minor units. */
 export type RewardSettingsDto = {
@@ -78,7 +77,7 @@ export async function saveRewardSettings(actorId: number, studyId: number, versi
     const existing = await RewardSettings.findOne({ where: { designVersionId: versionId }, transaction, lock: transaction.LOCK.UPDATE });
     if (existing) await existing.update(values, { transaction });
     else await RewardSettings.create({ studyId, designVersionId: versionId, ...values }, { transaction });
-    await recordAudit({ actorId, studyId, action: 'rewards.settings', details: { versionId, enabled: input.enabled, blocks: input.blocks, currency, capMinor: values.capMinor, approvalThresholdMinor: values.approvalThresholdMinor } }, transaction);
+    await recordAudit({ actorId, studyId, action: 'rewards.settings', details: { designVersionId: versionId, enabled: input.enabled, blocks: input.blocks, currency, capMinor: values.capMinor, approvalThresholdMinor: values.approvalThresholdMinor } }, transaction);
   });
   return (await listRewardSettings(studyId)).find((s) => s.designVersionId === versionId)!;
 }
