@@ -28,4 +28,5 @@ export { checkDelay, checkInteger, checkLateDelay, checkModel, checkRatio, MIN_S
 export * from './power';
 export * from './item-bank';
 export * from './analysis';
+export * from './adaptive';
 export * from './incentive';
