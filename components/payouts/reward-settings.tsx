@@ -80,7 +80,7 @@ export function RewardSettingsCard() {
         {query.data?.versions.length === 0 ? <p className="text-sm">Freeze a design first: real rewards are set per frozen version.</p> : null}
         <ul className="space-y-3">
           {query.data?.versions.map((v) => (
-            <VersionSettings key={`${v.designVersionId}:${v.updatedAt}`} studyId={study.id} settings={v} canEdit={can('owner')} />
+            <VersionSettings key={v.designVersionId} studyId={study.id} settings={v} canEdit={can('owner')} />
           ))}
         </ul>
       </QueryState>
