@@ -147,7 +147,7 @@ export function PayoutLedger() {
                     <Td className="whitespace-nowrap">{formatDate(p.dueDate)}</Td>
                     <Td>
                       <Status payout={p} />
-                      {p.needsApproval ? <span className="block text-xs text-ink-soft">{p.approvedAt ? 'approved' : 'needs approval'}</span> : null}
+                      {p.needsApproval && p.status !== 'cancelled' ? <span className="block text-xs text-ink-soft">{p.approvedAt ? 'approved' : 'needs approval'}</span> : null}
                     </Td>
                     <Td className="max-w-xs text-xs [overflow-wrap:anywhere]">
                       {p.reason ?? ''}
