@@ -11,6 +11,8 @@ import { ParticipantSession, Stage2Answer } from './session';
 // account security: address confirmation and signed-out sessions
 import { EmailConfirmationToken, EndedSession } from './account';
 import { Analysis } from './analysis';
+// session page (issue 13): participant links
+import { SessionLink } from './session-link';
 // real rewards: reward settings per version, the payout ledger, participants' payment details
 import { Payout, PaymentDetail, RewardSettings } from './payout';
 
@@ -21,6 +23,7 @@ export { PowerRun };
 export { ParticipantSession, Stage2Answer };
 export { EmailConfirmationToken, EndedSession };
 export { Analysis };
+export { SessionLink };
 export { Payout, PaymentDetail, RewardSettings };
 
 /**
@@ -47,6 +50,7 @@ export function registerModels(sequelize: Sequelize): void {
   ParticipantSession.register(sequelize);
   Stage2Answer.register(sequelize);
   Analysis.register(sequelize);
+  SessionLink.register(sequelize);
   RewardSettings.register(sequelize);
   Payout.register(sequelize);
   PaymentDetail.register(sequelize);
