@@ -17,6 +17,10 @@ import { PUT as rewardSettingsRoute } from '@/app/api/studies/[id]/rewards/[vers
 import { GET as ledgerRoute } from '@/app/api/studies/[id]/payouts/route';
 import { POST as approveRoute } from '@/app/api/studies/[id]/payouts/approve/route';
 import { POST as cancelRoute } from '@/app/api/studies/[id]/payouts/cancel/route';
+import { GET as pageGet, POST as pagePost } from '@/app/api/session-page/[slug]/route';
+import { POST as linksPost } from '@/app/api/studies/[id]/session-links/route';
+import { pageRateLimiter } from '@/lib/server/http/session-page-route';
+import type { PageState } from '@/lib/shared/session-page';
 import { addDays, drawIncentive, eligibleChoices, toMinorUnits } from '@/lib/design';
 import { sendDailySummaries, sendDuePayouts } from '@/lib/server/services/payouts-scheduler';
 import { startFakePayments, type FakePayments } from '@/scripts/fake-payments.mjs';
@@ -369,5 +373,57 @@ describe('bad input names the field', () => {
     expect(badEmail.body.issues[0].path).toBe('email');
     const settings = await call(rewardsRoute as never, s.team.operator, 'GET', `/api/studies/${s.id}/rewards`, { id: s.id });
     expect(settings.body.versions[0]).toMatchObject({ designVersionId: s.version.id, enabled: true, currency: 'EUR', cap: null });
+  });
+});
+
+describe('the session page', () => {
+  it('shows the drawn payment on the completion screen and takes the address for the reward link there', async () => {
+    pageRateLimiter.reset();
+    const s = await setUp('Payouts: session page');
+    const created = await linksPost(
+      await requestAs(s.team.operator, 'POST', `/api/studies/${s.id}/session-links`, {
+        json: { designVersionId: s.version.id, name: 'Paid wave', title: 'Choices about money and time', consentText: 'You agree to take part.', instructions: 'Choose the option you prefer.', completionCode: 'HARBOUR-7', redirectUrl: null },
+      }),
+      ctx({ id: s.id }),
+    );
+    expect(created.status).toBe(201);
+    const slug = ((await created.json()) as { link: { path: string } }).link.path.replace('/s/', '');
+    const post = async (body: unknown, cookie: string | null) => {
+      const response = await pagePost(await requestAs(null, 'POST', `/api/session-page/${slug}`, { body: JSON.stringify(body), headers: cookie ? { cookie } : {} }), ctx({ slug }));
+      const setCookie = response.headers.get('set-cookie');
+      return { status: response.status, body: (await response.json()) as PageState, cookie: setCookie ? setCookie.split(';')[0]! : cookie };
+    };
+    const participantId = 'PG-pay';
+    let r = await post({ action: 'consent', participantId, agree: true }, null);
+    const cookie = r.cookie;
+    r = await post({ action: 'begin', participantId }, cookie);
+    // The payment details are refused before the session is complete.
+    expect((await post({ action: 'payment-details', participantId, email: 'early@example.test' }, cookie)).status).toBe(409);
+    for (let n = 0; n < 200 && r.body.step.kind === 'choice'; n++) {
+      const step = r.body.step;
+      r = await post({ action: 'answer', participantId, itemId: step.choice.itemId, chosen: n % 2 ? 'later' : 'sooner', responseTimeMs: 800, sideShown: 'left' }, cookie);
+      expect(r.status).toBe(200);
+    }
+    expect(r.body.step.kind).toBe('complete');
+    const completion = (r.body.step as Extract<PageState['step'], { kind: 'complete' }>).completion;
+    expect(completion.code).toBe('HARBOUR-7');
+    expect(completion.reward?.message).toMatch(/^One of your choices was drawn and is paid as you chose it: EUR \d+\.\d{2}, due /);
+    expect(completion.reward?.needsDetails).toBe(true);
+    const payout = (await Payout.findOne({ where: { studyId: s.study.id, participantId } }))!;
+    expect(payout.status).toBe('held');
+    expect(completion.reward?.dueDate).toBe(payout.dueDate);
+
+    const bad = await post({ action: 'payment-details', participantId, email: 'nope' }, cookie);
+    expect(bad.status).toBe(422);
+    const saved = await post({ action: 'payment-details', participantId, email: 'pg-pay@example.test' }, cookie);
+    expect(saved.status).toBe(200);
+    const after = (saved.body.step as Extract<PageState['step'], { kind: 'complete' }>).completion.reward;
+    expect(after?.needsDetails).toBe(false);
+    expect((await payout.reload()).status).toBe('scheduled');
+    // A reload shows the same draw; still one payout.
+    const again = await pageGet(await requestAs(null, 'GET', `/api/session-page/${slug}?participantId=${participantId}`, { headers: { cookie: cookie! } }), ctx({ slug }));
+    const state = (await again.json()) as PageState;
+    expect(state.step.kind === 'complete' && state.step.completion.reward?.amount).toBe(after?.amount);
+    expect(await Payout.count({ where: { studyId: s.study.id } })).toBe(1);
   });
 });

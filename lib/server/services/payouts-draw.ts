@@ -19,6 +19,8 @@ export type RewardPromise = {
   /** YYYY-MM-DD */
   dueDate: string;
   status: PayoutStatus;
+  /** held until an e-mail address for the reward link arrives */
+  needsDetails: boolean;
   /** a sentence for the participant */
   message: string;
 };
@@ -36,7 +38,8 @@ function promiseOf(p: Payout): RewardPromise {
   const amountMinor = Number(p.amountMinor);
   const amount = formatMinorUnits({ minor: amountMinor, currency: p.currency });
   const when = p.delayDays === 0 ? `today (${formatDate(p.dueDate)})` : `on ${formatDate(p.dueDate)}`;
-  const wait = p.status === 'held' && p.reason?.includes('payment details') ? ' Send the address for your reward link to receive it.' : '';
+  const needsDetails = p.status === 'held' && (p.reason?.includes('payment details') ?? false);
+  const wait = needsDetails ? ' Send the address for your reward link to receive it.' : '';
   return {
     itemId: p.itemId,
     chosen: p.chosen,
@@ -45,6 +48,7 @@ function promiseOf(p: Payout): RewardPromise {
     currency: p.currency,
     dueDate: p.dueDate,
     status: p.status,
+    needsDetails,
     message: `One of your choices was drawn and is paid as you chose it: ${p.currency} ${amount}, due ${when}.${wait}`,
   };
 }
