@@ -382,7 +382,7 @@ describe('the session page', () => {
     const s = await setUp('Payouts: session page');
     const created = await linksPost(
       await requestAs(s.team.operator, 'POST', `/api/studies/${s.id}/session-links`, {
-        json: { designVersionId: s.version.id, name: 'Paid wave', title: 'Choices about money and time', consentText: 'You agree to take part.', instructions: 'Choose the option you prefer.', completionCode: 'HARBOUR-7', redirectUrl: null },
+        json: { designVersionId: s.version.id, name: 'Paid wave', title: 'Choices about money and time', consentText: 'You agree to take part.', instructions: 'Choose the option you prefer.', completionCode: 'HARBOUR-7' },
       }),
       ctx({ id: s.id }),
     );
