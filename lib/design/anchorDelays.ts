@@ -135,9 +135,12 @@ function placeAnchor(edge: number, bound: number): AnchorPair {
   let reachesTarget = false;
   const atBound = excess(bound);
   if (atBound >= 0) {
-    const lo = sSide < 0 ? bound : edge;
-    const hi = sSide < 0 ? edge : bound;
-    t = rootOfExcess(lo, hi, sSide < 0 ? atBound : excess(lo), sSide < 0 ? excess(hi) : atBound);
+    // At the zone edge the clarity is 0 in exact arithmetic; in a zone only a few ulps wide
+    // (S/L a hair below 1) rounding can leave it at or above the target there already, and then
+    // the edge itself is the closest delay as clear as the target.
+    const atEdge = excess(edge);
+    if (atEdge < 0) t = sSide < 0 ? rootOfExcess(bound, edge, atBound, atEdge) : rootOfExcess(edge, bound, atEdge, atBound);
+    else t = edge;
     reachesTarget = true;
   }
   gapsAt(t);

@@ -9,11 +9,17 @@ import { GET as getSummary } from '@/app/api/studies/[id]/designs/[designId]/sum
 import { POST as freeze } from '@/app/api/studies/[id]/designs/[designId]/freeze/route';
 import { GET as preview } from '@/app/api/studies/[id]/item-bank/[versionId]/route';
 import { POST as startRun } from '@/app/api/studies/[id]/power-runs/route';
-import { POST as cancelRun } from '@/app/api/studies/[id]/power-runs/[runId]/cancel/route';
+import { GET as getRun } from '@/app/api/studies/[id]/power-runs/[runId]/route';
 import { defaultSpec } from '@/lib/shared/planner/design-form-values';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
 
 beforeAll(migrateUp);
+
+type Requester = (method: string, path: string, json?: unknown) => ReturnType<typeof requestAs>;
+
+async function readRun(as: Requester, id: string, runId: string): Promise<{ status: string; message?: string | null }> {
+  return ((await (await getRun(await as('GET', `/power-runs/${runId}`), ctx({ id, runId }))).json()) as { run: { status: string; message?: string | null } }).run;
+}
 
 const prior = { medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.6 };
 const TINY = [Number.MIN_VALUE, 1e-300];
@@ -36,7 +42,7 @@ const CASES: Array<{ label: string; prior?: Partial<typeof prior>; spec?: Record
 
 describe('schema-accepted extremes through the endpoints', () => {
   for (const c of CASES) {
-    it(`${c.label}: 2xx or 4xx, never 5xx`, async () => {
+    it(`${c.label}: 2xx or 4xx, never 5xx, and a started run finishes`, async () => {
       const { study, team } = await makeStudyWithTeam(`Extremes ${c.label}`);
       const id = String(study.id);
       const as = (method: string, path: string, json?: unknown) => requestAs(team.editor, method, `/api/studies/${id}${path}`, json === undefined ? {} : { json });
@@ -65,8 +71,15 @@ describe('schema-accepted extremes through the endpoints', () => {
           );
           statuses.power = run.status;
           if (run.status < 300) {
+            // A start that was accepted must end in a finished run, not one that fails in the worker.
             const runId = String(((await run.json()) as { run: { id: number } }).run.id);
-            await cancelRun(await as('POST', `/power-runs/${runId}/cancel`), ctx({ id, runId }));
+            const deadline = Date.now() + 90_000;
+            let stored = await readRun(as, id, runId);
+            while ((stored.status === 'queued' || stored.status === 'running') && Date.now() < deadline) {
+              await new Promise((resolve) => setTimeout(resolve, 150));
+              stored = await readRun(as, id, runId);
+            }
+            expect(stored.status, `${c.label}: ${stored.message ?? ''}`).toBe('finished');
           }
         }
       }

@@ -62,6 +62,18 @@ describe('anchor delays', () => {
     expect(a.soon).toBeNull();
   });
 
+  it('places anchors in a zone only a few ulps wide (S/L a hair below 1, equal rates) without a root-finder error', () => {
+    // Rounding can leave the clarity at the zone edge at or above the target: the edge is then the anchor.
+    for (const kSmall of [0.00012, 0.000144, 0.00020736, 0.02]) {
+      const anchors = anchorDelays({ model: { id: 'hyperbolic' }, ratio: 0.9999999999999999, soonDelay: 14, kSmall, kLarge: kSmall });
+      for (const side of [anchors?.late, anchors?.soon]) {
+        if (!side) continue;
+        expect(Number.isFinite(side.lateDelay)).toBe(true);
+        expect(side.lateDelay).toBeGreaterThan(14);
+      }
+    }
+  });
+
   it('is null when the zone is empty', () => {
     expect(anchorDelays({ ...base, kSmall: 0.01 })).toBeNull();
   });

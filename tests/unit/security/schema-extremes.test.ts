@@ -160,3 +160,43 @@ describe('schema-accepted extremes never crash a power simulation', { timeout: 6
     });
   }
 });
+
+// A run the start accepted must finish: the start builds the simulator (its DesignInputError is
+// the 422), so any throw from run() afterwards is a run the user sees only as failed.
+describe('a power run of a frozen design at its field extremes either is refused at the start or runs', { timeout: 120_000 }, () => {
+  // The planner's defaults (four probes, two anchors of each kind) per model and mode.
+  const runBases = MODEL_CHOICES.flatMap((id) =>
+    (['personalised', 'population'] as const).map((mode) =>
+      design(
+        { mode, model: { id, ...(id === 'hyperboloid' || id === 'power-delay' || id === 'exponential-power' ? { sensitivity: 0.8 } : {}), ...(id === 'quasi-hyperbolic' ? { presentBias: 0.8 } : {}) }, probePairs: 4, lateAnchors: 2, soonAnchors: 2, calibration: { itemsPerMagnitude: 10, minDelay: 7, maxDelay: 365 }, choiceSensitivity: 10 },
+        { correlation: 0.6 },
+      ),
+    ),
+  );
+  const truthOf = (content: FrozenDesign) => ({ model: content.spec.model, prior: { medianSmall: 0.02, medianLarge: 0.008, sdLogSmall: 0.8, sdLogLarge: 0.8, correlation: 0.6 }, gamma: 10, lapse: 0.02 });
+  for (const [field, values] of Object.entries(DESIGN_FIELDS)) {
+    it(`${field}`, () => {
+      const failures: string[] = [];
+      for (const base of runBases) {
+        for (const value of values) {
+          const parsedDesign = frozenDesignSchema.safeParse(withField(base, field, value));
+          if (!parsedDesign.success) continue;
+          const run = powerRunSpecSchema.parse({ designVersionId: 1, truth: truthOf(parsedDesign.data), calibration: 'simulated', test: { kind: 'mcnemar', alpha: 0.05, alternative: 'greater' }, sampleSizes: [5], replications: 10, seed: 1 });
+          let simulator: ReturnType<typeof createPowerSimulator>;
+          try {
+            simulator = createPowerSimulator(buildScenario(run, parsedDesign.data));
+          } catch (error) {
+            if (!(error instanceof DesignInputError)) failures.push(`${field}=${value} (${base.spec.model.id}, ${base.spec.mode}) start: ${(error as Error).message}`);
+            continue;
+          }
+          try {
+            simulator.run(0, 10);
+          } catch (error) {
+            failures.push(`${field}=${value} (${base.spec.model.id}, ${base.spec.mode}) run: ${(error as Error).message}`);
+          }
+        }
+      }
+      expect(failures).toEqual([]);
+    });
+  }
+});
