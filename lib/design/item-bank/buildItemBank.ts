@@ -3,6 +3,7 @@ import { createRandom } from '../random';
 import { extrapolationWarning, type ExtrapolationWarning } from '../extrapolationWarning';
 import { assembleBlock } from './assembleBlock';
 import { calibrationBlock, type CalibrationRounding } from './calibrationBlock';
+import { delayLevels, PROBE_REACH_QUANTILE } from './calibrationPlan';
 import { pairDelays, type PairDelays } from './pairDelays';
 import { pairItems, type PairRoundingEntry } from './pairItems';
 import { amountUnit } from './rounding';
@@ -65,7 +66,7 @@ export function buildItemBank(design: BankDesign, options: PresentationOptions &
   const set = spec.mode === 'population' ? 'shared' : 'fallback';
   const pairs = pairItems(design, delays, rates, { set, amountUnit: unit, delayUnit });
   const cover = Math.max(...pairs.items.filter((i) => i.view === 'far').map((i) => i.laterDelay));
-  const calibration = calibrationBlock(design, { amountUnit: unit, delayUnit, coverDelay: cover });
+  const calibration = calibrationBlock(design, { amountUnit: unit, delayUnit, coverDelay: cover, soonDelay: point.soonDelay });
   const random = createRandom({ seed });
   const common = { random, minGap, currency: spec.currency, delayUnit };
   const calBlock = assembleBlock(calibration.items, common);
@@ -74,6 +75,12 @@ export function buildItemBank(design: BankDesign, options: PresentationOptions &
   if (delays.omitted.lateAnchors || delays.omitted.soonAnchors) {
     notes.push(
       `${delays.omitted.lateAnchors} late and ${delays.omitted.soonAnchors} soon anchor(s) did not fit (no room below the zone, or beyond the ${spec.lateDelayLimit}-day limit).`,
+    );
+  }
+  if (calibration.probeReach !== null) {
+    notes.push(
+      `Calibration delays span the probes: later delays in ${delayLevels(spec.calibration.itemsPerMagnitude)} log-spaced levels up to ${Math.ceil(calibration.probeReach)} days, ` +
+        `the longest probe late delay of ${Math.round(PROBE_REACH_QUANTILE * 100)} % of participants drawn from the prior.`,
     );
   }
   if (probeBlock.gap < minGap) notes.push(`The probe block is too small for a gap of ${minGap}; the two views of each pair are at least ${probeBlock.gap} item(s) apart.`);

@@ -1,4 +1,5 @@
 import type { CalibrationItem } from '../calibrationItems';
+import { optimiseLateDelay } from '../optimiseLateDelay';
 import { designChoiceModel } from '../designChoiceModel';
 import { estimateRates, type Choice, type EstimateFlag, type RateEstimate } from '../estimateRates';
 import { extrapolationWarning, type ExtrapolationWarning } from '../extrapolationWarning';
@@ -8,6 +9,7 @@ import type { ItemBank } from './buildItemBank';
 import { ItemBankInputError } from './ItemBankInputError';
 import { pairDelays } from './pairDelays';
 import { pairItems, type PairRoundingEntry } from './pairItems';
+import { fitStageOne, withProbeModel } from './stageOneFit';
 import type { BankDesign, BankItem, ChosenOption, LocatePoint } from './types';
 
 /** Why a participant gets the fallback set instead of personalised items. */
@@ -24,7 +26,17 @@ export type RateSummary = {
 /** What a participant is served: estimates, flag, warnings and the probe block in presentation order. */
 export type ServedItems = {
   participantId: string;
-  estimates: { kSmall: RateSummary; kLarge: RateSummary; choiceSensitivity: number };
+  estimates: {
+    kSmall: RateSummary;
+    kLarge: RateSummary;
+    choiceSensitivity: number;
+    /**
+     * present when the design's stage 1 estimates delay sensitivity (calibration.fit): the
+     * model, its k, K and s (s with standard error of ln s and Wald interval), from which the
+     * personal probes were built; kSmall and kLarge above stay the design model's estimates
+     */
+    stageOne?: { model: string; kSmall: number; kLarge: number; sensitivity: number; standardErrorLog: number | null; interval: { lower: number; upper: number } | null };
+  };
   /** null when the items are personalised; else why the fallback set was served */
   flag: ServeFlag | null;
   itemSet: 'personal' | 'fallback' | 'shared';
@@ -45,7 +57,9 @@ const FALLBACK_FLAGS: readonly EstimateFlag[] = ['non-monotone', 'all-sooner', '
  * 2. kSmall and kLarge are estimated by maximum likelihood (estimateRates) under the design's one
  *    choice model (designChoiceModel: the design's γ, no lapse).
  * 3. Personalised designs: probe and anchor pairs at the estimates (pairDelays around `locate`'s
- *    point). Fallback (documented): a participant whose small or large estimate is flagged
+ *    point). A design whose stage 1 estimates delay sensitivity (calibration.fit) fits k, K and
+ *    s jointly under that model (fitStageOne) and builds the pairs under it: the soon delay
+ *    `locate` chooses, the late delay with the largest gap product at (k, K, s). Fallback (documented): a participant whose small or large estimate is flagged
  *    non-monotone, all-sooner or all-later, or whose estimates have no reversal zone within the
  *    limits, gets the bank's design-point set (built at the prior medians) and the flag.
  *    Population designs always serve the shared set.
@@ -70,24 +84,39 @@ export function serveParticipant(
     targetRate: Number.NaN, // not read by estimateRates, which computes each tie rate itself
   }));
   const fit = estimateRates(calibration.map((i) => choices.get(i.id)!), fitItems, design.spec.model, designChoiceModel(design.spec));
-  const rates = { kSmall: fit.small.rate, kLarge: fit.large.rate };
+  let rates = { kSmall: fit.small.rate, kLarge: fit.large.rate };
   let flag: ServeFlag | null = (FALLBACK_FLAGS.find((f) => fit.small.flags.includes(f) || fit.large.flags.includes(f)) as ServeFlag | undefined) ?? null;
   let delays = null;
+  let probeDesign = design;
+  let stageOne: ServedItems['estimates']['stageOne'];
   if (design.spec.mode === 'personalised' && flag === null) {
-    const point = request.locate(rates);
-    delays = point && pairDelays(design, point, rates);
+    const joint = fitStageOne(
+      design,
+      fitItems.map((item, i) => ({ ...item, later: choices.get(calibration[i].id) === 'LL' })),
+      designChoiceModel(design.spec),
+    );
+    let point = request.locate(rates);
+    if (joint) {
+      probeDesign = withProbeModel(design, joint.model);
+      rates = joint.rates;
+      stageOne = { model: joint.model.id, ...rates, sensitivity: joint.sensitivity.value, standardErrorLog: joint.sensitivity.standardErrorLog, interval: joint.sensitivity.interval };
+      const d = point?.soonDelay ?? bank.designPoint.soonDelay;
+      const optimum = optimiseLateDelay({ model: joint.model, ratio: design.spec.ratio, soonDelay: d, ...rates });
+      point = optimum && { soonDelay: d, lateDelay: optimum.lateDelay };
+    }
+    delays = point && pairDelays(probeDesign, point, rates);
     if (!delays) flag = 'no-zone';
   }
   const itemSet = design.spec.mode === 'population' ? 'shared' : delays ? 'personal' : 'fallback';
   const pairs = delays
-    ? pairItems(design, delays, rates, { set: 'personal', amountUnit: bank.amountUnit, delayUnit: bank.delayUnit })
+    ? pairItems(probeDesign, delays, rates, { set: 'personal', amountUnit: bank.amountUnit, delayUnit: bank.delayUnit })
     : pairItems(design, bank.delays, bank.designPoint, { set: itemSet, amountUnit: bank.amountUnit, delayUnit: bank.delayUnit });
   const random = createRandom({ seed: participantSeed(bank.seed, request.participantId) });
   const block = assembleBlock(pairs.items, { random, minGap: bank.minGap, currency: design.spec.currency, delayUnit: bank.delayUnit });
   const check = request.responses['check-calibration'];
   return {
     participantId: request.participantId,
-    estimates: { kSmall: summary(fit.small), kLarge: summary(fit.large), choiceSensitivity: fit.sensitivity },
+    estimates: { kSmall: summary(fit.small), kLarge: summary(fit.large), choiceSensitivity: fit.sensitivity, ...(stageOne ? { stageOne } : {}) },
     flag,
     itemSet,
     extrapolation: extrapolationWarning({

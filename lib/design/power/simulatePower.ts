@@ -107,18 +107,15 @@ function simulateReplicate(
     const s = range ? range.low + (range.high - range.low) * random.uniform() : modelS;
     let probes = fallback;
     if (personal) {
-      let kHat = kTrue;
-      let KHat = KTrue;
-      let useFallback = false;
+      const kHat = kTrue;
+      const KHat = KTrue;
+      let own: ProbeSet | null;
       if (calibration) {
         const small = calibration.answer(0, kTrue, s, random);
         const large = calibration.answer(1, KTrue, s, random);
-        kHat = small.rate;
-        KHat = large.rate;
         if (small.flagged || large.flagged) flagged++;
-        useFallback = small.fallback || large.fallback;
-      }
-      const own = useFallback ? null : probeSet(design, kHat, KHat);
+        own = small.fallback || large.fallback ? null : calibration.probeSet(small, large);
+      } else own = probeSet(design, kHat, KHat);
       if (own) probes = own;
       else fallbacks++;
     }
