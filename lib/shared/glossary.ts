@@ -161,6 +161,34 @@ export const GLOSSARY: GlossaryEntry[] = [
     sources: [HERE],
     group: 'Pairs and blocks',
   },
+  // calibration that covers the probes (issue 15)
+  {
+    id: 'calibration-spanning-probes',
+    term: 'Calibration delays spanning the probes',
+    aliases: ['span-probes', 'spanning calibration', 'stage-1 model'],
+    short: 'The calibration block’s later delays reach the late delays the probes will use across the prior, in a few log-spaced levels, each asking across the rates.',
+    body:
+      'Rates estimated on short delays misplace the zone at long ones when true delay sensitivity is below 1. Spanning the probes puts calibration questions where the probes go; with several delay levels a stage-1 model with delay sensitivity s (hyperboloid, power-delay or exponential-power) can estimate s with k and K, and the probes are built under that model. With one delay per rate (the default block), s and k cannot be told apart.',
+    formulas: [
+      'longest calibration delay = max(set longest, 95 % quantile over the prior of a person’s longest probe late delay)',
+      'delay levels: D_j = D_max·(D_min/D_max)^(j/(m−1)), m = 3 from 9 items per reward size, else 2',
+      'stage 1 with s: (k̂, K̂, ŝ) = argmax Σ ln P(choice | k or K, s), one s for both reward sizes',
+    ],
+    sources: [HERE, 'Myerson, J., & Green, L. (1995). Discounting of delayed rewards: Models of individual choice. Journal of the Experimental Analysis of Behavior, 64(3), 263–276.'],
+    group: 'Pairs and blocks',
+  },
+  {
+    id: 'delay-sensitivity',
+    term: 'Delay sensitivity s',
+    aliases: ['delay sensitivity', 's'],
+    short: 'The exponent on delay in the hyperboloid, power-delay and exponential-power models; below 1, long delays are discounted less steeply than the model with s = 1 predicts.',
+    formulas: ['f(D) = (1 + kD)^(−s), 1/(1 + k·D^s), exp(−k·D^s)'],
+    sources: [
+      'Myerson, J., & Green, L. (1995). Discounting of delayed rewards: Models of individual choice. Journal of the Experimental Analysis of Behavior, 64(3), 263–276.',
+      'Ebert, J. E. J., & Prelec, D. (2007). The fragility of time: Time-insensitivity and valuation of the near and far future. Management Science, 53(9), 1423–1438.',
+    ],
+    group: 'Estimation and choice noise',
+  },
   {
     id: 'frozen-design',
     term: 'Frozen design',

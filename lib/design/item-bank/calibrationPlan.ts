@@ -108,3 +108,29 @@ function quantile(values: number[], q: number): number {
 export function delayLevels(itemsPerMagnitude: number): number {
   return itemsPerMagnitude >= 9 ? 3 : 2;
 }
+
+const FIT_NAMES: Record<Exclude<StageOneFit, 'design-model'>, string> = {
+  hyperboloid: 'hyperboloid (Myerson & Green 1995)',
+  'power-delay': 'power-delay hyperbola (Rachlin 2006)',
+  'exponential-power': 'exponential with delay sensitivity (Ebert & Prelec 2007)',
+};
+
+/**
+ * The calibration options of a design in words, for method paragraphs and export headers: where
+ * the later delays go and which model stage 1 fits.
+ *
+ * @example describeCalibration({ calibration: { itemsPerMagnitude: 10, minDelay: 1, maxDelay: 365 } }) // 'later delays from 1 to 365 days (widened to the design point's pairs); stage 1 fits the design model with its delay sensitivity fixed'
+ */
+export function describeCalibration(spec: { calibration: BankDesign['spec']['calibration'] }): string {
+  const c = spec.calibration;
+  const placement =
+    (c.placement ?? 'range') === 'span-probes'
+      ? `later delays from ${c.minDelay} days up to the late delays the probes will use (the longest probe late delay of ${Math.round(PROBE_REACH_QUANTILE * 100)} % of participants drawn from the prior, at least ${c.maxDelay} days), in ${delayLevels(c.itemsPerMagnitude)} log-spaced levels each asking across the rates`
+      : `later delays from ${c.minDelay} to ${c.maxDelay} days (widened to the design point's pairs)`;
+  const fit = c.fit ?? 'design-model';
+  const stage =
+    fit === 'design-model'
+      ? 'stage 1 fits the design model with its delay sensitivity fixed'
+      : `stage 1 fits the ${FIT_NAMES[fit]} by maximum likelihood, estimating one delay sensitivity s with both rates, and the probes are built under that model at the estimates`;
+  return `${placement}; ${stage}`;
+}

@@ -12,6 +12,8 @@ export { calibrationBlock, type CalibrationRounding } from './calibrationBlock';
 export {
   calibrationPlacement,
   delayLevels,
+  describeCalibration,
+  REACH_SENSITIVITY,
   probeReach,
   stageOneFit,
   stageOneModel,

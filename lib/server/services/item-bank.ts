@@ -2,7 +2,7 @@ import { Design, DesignVersion } from '@/db/models';
 import { db } from '@/db';
 import { NotFoundError, ValidationError } from '@/lib/server/errors';
 import { recordsToCsv } from '@/lib/shared/csv';
-import { CHOICE_SENSITIVITY_UNIT, DesignInputError, designChoiceModel, type BankItem } from '@/lib/design';
+import { CHOICE_SENSITIVITY_UNIT, DesignInputError, describeCalibration, designChoiceModel, type BankItem } from '@/lib/design';
 import type { Study } from '@/db/models';
 import { exportOptionsSchema, type ExportOptions } from '@/lib/shared/validations/item-bank';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
@@ -81,6 +81,8 @@ export function previewItemBank(study: Study, version: DesignVersion, options: E
       /** the id an API key bound to the same settings reports; send it with calibration answers so a mismatch is refused */
       itemBankId: itemBankId(version.hash, presentationOf(version.hash, { seed, delayUnit: bank.delayUnit, minGap: bank.minGap })),
       choiceModel: { ...designChoiceModel(version.content.spec), unit: CHOICE_SENSITIVITY_UNIT },
+      /** where the calibration delays go and which model stage 1 fits (describeCalibration) */
+      calibration: describeCalibration(version.content.spec),
     },
     designPoint: bank.designPoint,
     probeRule:
@@ -148,6 +150,7 @@ export async function exportItemBank(actorId: number, study: Study, version: Des
       `Switchback item bank · study ${study.id} "${study.name}"`,
       `design version ${version.number} · hash ${version.hash} · seed ${seed} · item bank ${preview.header.itemBankId} (gap ${options.minGap})`,
       `choice model: logistic, sensitivity γ = ${preview.header.choiceModel.sensitivity} ${CHOICE_SENSITIVITY_UNIT}, no lapse (rate estimates use it)`,
+      `calibration: ${preview.header.calibration}`,
       `mode ${preview.header.mode} · currency ${preview.header.currency} · amounts rounded to ${preview.header.amountUnit} · delays in whole ${preview.header.delayUnit} (a month is 30 days)`,
       preview.probeRule ?? 'Population design: every participant runs these items.',
     ]);

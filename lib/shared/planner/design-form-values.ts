@@ -8,8 +8,9 @@ import { DEFAULT_CHOICE_SENSITIVITY } from './types';
  * loses nothing. `toSpec` keeps only what the chosen options use; the zod issue paths of the
  * spec are the same as the form's field names.
  */
-export type DesignFormValues = Omit<DesignSpec, 'model' | 'soonDelay' | 'choiceSensitivity'> & {
+export type DesignFormValues = Omit<DesignSpec, 'model' | 'soonDelay' | 'choiceSensitivity' | 'calibration'> & {
   model: { id: DesignSpec['model']['id']; sensitivity: number; presentBias: number };
+  calibration: Required<DesignSpec['calibration']>;
   soonDelay: { mode: 'fixed' | 'optimised'; days: number; min: number; max: number };
   choiceSensitivity: number;
 };
@@ -22,7 +23,15 @@ export function toSpec(v: DesignFormValues): DesignSpec {
   if (USES_S.has(v.model.id)) model.sensitivity = v.model.sensitivity;
   if (v.model.id === 'quasi-hyperbolic') model.presentBias = v.model.presentBias;
   const soonDelay: DesignSpec['soonDelay'] = v.soonDelay.mode === 'fixed' ? { mode: 'fixed', days: v.soonDelay.days } : { mode: 'optimised', min: v.soonDelay.min, max: v.soonDelay.max };
-  return { ...v, model, soonDelay, choiceSensitivity: v.choiceSensitivity };
+  // the defaults are left out, so a design that does not use the options keeps the spec (and hash) it had before them
+  const { placement, fit, ...calibration } = v.calibration;
+  return {
+    ...v,
+    model,
+    soonDelay,
+    choiceSensitivity: v.choiceSensitivity,
+    calibration: { ...calibration, ...(placement !== 'range' ? { placement } : {}), ...(fit !== 'design-model' ? { fit } : {}) },
+  };
 }
 
 /** Form values for a stored spec, with defaults for the controls the spec does not use. */
@@ -33,6 +42,7 @@ export function toForm(spec: DesignSpec): DesignFormValues {
     model: { id: spec.model.id, sensitivity: spec.model.sensitivity ?? 1, presentBias: spec.model.presentBias ?? 0.9 },
     soonDelay: soon.mode === 'fixed' ? { mode: 'fixed', days: soon.days, min: Math.max(1, Math.min(soon.days, 7)), max: Math.max(soon.days, 60) } : { mode: 'optimised', days: soon.min, min: soon.min, max: soon.max },
     choiceSensitivity: spec.choiceSensitivity ?? DEFAULT_CHOICE_SENSITIVITY,
+    calibration: { ...spec.calibration, placement: spec.calibration.placement ?? 'range', fit: spec.calibration.fit ?? 'design-model' },
   };
 }
 
