@@ -100,6 +100,7 @@ export function NewRunForm() {
       },
       calibration: current.calibration,
       stress: stressOf(current),
+      ...(current.compareCalibration === 'on' ? { compareCalibration: true } : {}),
       test: { kind: current.test, alpha: Number(current.alpha), alternative: current.alternative },
       sampleSizes: sizes ?? [],
       replications: Number(current.replications),
@@ -192,6 +193,14 @@ export function NewRunForm() {
             );
           })}
         </div>
+        <label className="flex items-start gap-2 text-sm">
+          <input type="checkbox" className="mt-1" checked={current.compareCalibration === 'on'} onChange={(e) => setValues({ ...current, compareCalibration: e.target.checked ? 'on' : '' })} />
+          <span>
+            Also simulate the other calibration under every truth: calibration delays spanning the probes with delay sensitivity estimated in stage 1 (or, for a design that already does so, the
+            plain calibration block), to see what it buys when s is below 1.
+          </span>
+        </label>
+        {err('compareCalibration') ? <p role="alert" className="text-xs text-danger-700">{err('compareCalibration')}</p> : null}
       </fieldset>
       <fieldset className="space-y-3">
         <legend className="text-sm font-semibold">Test and simulation</legend>

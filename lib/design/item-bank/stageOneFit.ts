@@ -14,6 +14,8 @@ export type StageOneSensitivityFit = {
   /** the stage-1 model with the estimated s: the probes' model */
   model: ModelSpec;
   sensitivity: ParameterEstimate;
+  /** the maximised log-likelihood */
+  logLikelihood: number;
   converged: boolean;
 };
 
@@ -43,6 +45,7 @@ export function fitStageOne(design: BankDesign, answers: readonly AnsweredCalibr
     rates: { kSmall: fit.parameters.kSmall, kLarge: fit.parameters.kLarge },
     model: { id: model.id, sensitivity: fit.parameters.sensitivity },
     sensitivity: fit.shape!,
+    logLikelihood: fit.logLikelihood,
     converged: fit.converged,
   };
 }

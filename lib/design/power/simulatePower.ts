@@ -31,7 +31,9 @@ export type PowerSimulator = {
  * Per participant: true rates from the truth's prior (priorPoints); in a personalised design
  * with a simulated calibration block, calibration choices from the truth and rates
  * re-estimated under the design's model (with 'known' rates the true rates stand in for the
- * estimates); the probe block built from those rates (probeSet). As the item bank serves
+ * estimates), or, for a design whose stage 1 estimates delay sensitivity, k, K and s under the
+ * stage-1 model (CalibrationModel, docs/mathematics.md "Stage 1 with delay sensitivity"); the
+ * probe block built from those estimates (probeSet). As the item bank serves
  * them, a population design, a participant flagged all-sooner, all-later or non-monotone, or
  * one with no zone at the estimates gets the fallback set built at the design prior's
  * medians. Every pair's two choices come from the truth: P(LL far) = choice(γ, ε, A) and
