@@ -67,13 +67,13 @@ export type StressResult = { stress: StressTruth; label: string; summary: PowerS
  * The design's own calibration next to its other one (calibrationVariant), truth by truth (the
  * assumed truth first, then the stress truths in order).
  */
-export type CalibrationComparison = {
+export type RunCalibrationComparison = {
   own: string;
   other: string;
   rows: Array<{ truth: string; own: PowerSummary; other: PowerSummary }>;
 };
 
-export type PowerRunResult = { summary: PowerSummary; methodText: string; software: string; soonDelay: number; stress: StressResult[]; calibrationComparison?: CalibrationComparison };
+export type PowerRunResult = { summary: PowerSummary; methodText: string; software: string; soonDelay: number; stress: StressResult[]; calibrationComparison?: RunCalibrationComparison };
 
 /**
  * What a finished run stores as its result: the summary under the assumed truth, one per
@@ -101,7 +101,7 @@ export function runResult(
     stressed,
   );
   const truths = 1 + stress.length;
-  let calibrationComparison: CalibrationComparison | undefined;
+  let calibrationComparison: RunCalibrationComparison | undefined;
   let comparisonText = '';
   if (scenarios.length === 2 * truths) {
     const summaries = scenarios.map((scenario, i) => (i === 0 ? summary : i < truths ? stressed[i - 1].summary : summarisePower(scenario, outcomes[i].tally, outcomes[i].longestCalibrationDelay)));
@@ -116,7 +116,7 @@ export function runResult(
 }
 
 /** The comparison of calibrations in one paragraph: power and probes inside the true zone at the largest N under each truth. */
-function comparisonParagraph(c: CalibrationComparison): string {
+function comparisonParagraph(c: RunCalibrationComparison): string {
   const at = (s: PowerSummary) => s.points[s.points.length - 1];
   const n = at(c.rows[0].own).n;
   const rows = c.rows.map(

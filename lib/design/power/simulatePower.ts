@@ -109,15 +109,13 @@ function simulateReplicate(
     const s = range ? range.low + (range.high - range.low) * random.uniform() : modelS;
     let probes = fallback;
     if (personal) {
-      const kHat = kTrue;
-      const KHat = KTrue;
       let own: ProbeSet | null;
       if (calibration) {
         const small = calibration.answer(0, kTrue, s, random);
         const large = calibration.answer(1, KTrue, s, random);
         if (small.flagged || large.flagged) flagged++;
         own = small.fallback || large.fallback ? null : calibration.probeSet(small, large);
-      } else own = probeSet(design, kHat, KHat);
+      } else own = probeSet(design, kTrue, KTrue); // 'known': the true rates stand in for the estimates
       if (own) probes = own;
       else fallbacks++;
     }
