@@ -61,7 +61,7 @@ export function methodText(
       ? 'The design is a population design: every participant meets the same pairs, built at the late delay with the largest gap product for the prior median rates; no calibration block is simulated.'
       : scenario.calibration === 'simulated'
         ? `Each simulated participant first answers the design's calibration block (${spec.calibration.itemsPerMagnitude} items per magnitude; ${describeCalibration(spec)}; as the item bank exports it); choices follow the truth, ` +
-          `the rates are re-estimated by maximum likelihood under the stage-1 model and the design's choice model (γ = ${num(designChoiceModel(spec).sensitivity)} per unit of each item's later amount, no lapse), as the probe-items API estimates them` +
+          `the rates are re-estimated by maximum likelihood under the stage-1 model and its choice model (γ = ${num(designChoiceModel(spec).sensitivity)} per unit of each item's later amount, no lapse), as the probe-items API estimates them` +
           `${stageOneModel(spec) ? ' (in the simulation the delay sensitivity is located on a grid of 17 values from 0.3 to 1.3, refined by a parabola)' : ''}, ` +
           `and the participant's probe block is built from these estimates.`
         : 'Calibration is not simulated: each participant’s probe block is built from their true rates (the rates are treated as known).'
