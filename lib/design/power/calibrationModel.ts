@@ -4,7 +4,6 @@ import { discountAt } from '../discountFactor';
 import { calibrationBlock } from '../item-bank/calibrationBlock';
 import { stageOneModel } from '../item-bank/calibrationPlan';
 import { amountUnit } from '../item-bank/rounding';
-import { optimiseLateDelay } from '../optimiseLateDelay';
 import type { SeededRandom } from '../random';
 import { FastRateEstimator } from './fastRateEstimate';
 import { probeSet, type ProbeSet } from './probeSet';
@@ -29,17 +28,16 @@ const CACHE_LIMIT = 1_000_000;
 
 /**
  * What the simulated calibration of one design shares between the truths of a run: the block,
- * the estimators and the memo of estimates and probe sets by response vector. None of it depends
- * on the truth (estimates and probes are functions of the answers and the design), so the assumed
- * truth and every stress truth reuse it: a response vector met under one truth is estimated and
- * its probes built once.
+ * the estimators and the memo of estimates by response vector. None of it depends
+ * on the truth (an estimate is a function of the answers and the design), so the assumed truth and
+ * every stress truth reuse it: a response vector met under one truth is estimated once. (Probe sets
+ * are not memoised: pairs of response vectors rarely repeat, and a memo of them cost more time in
+ * memory than it saved.)
  */
 class CalibrationCore {
   readonly longestDelay: number;
   readonly blocks: [Block, Block];
   readonly caches: [Map<number, CalibrationEstimate>, Map<number, CalibrationEstimate>] = [new Map(), new Map()];
-  private readonly probes = new Map<number, Map<number, ProbeSet | null>>();
-  private probeCount = 0;
   private readonly design: PowerDesign;
 
   constructor(design: PowerDesign, coverDelay: number) {
@@ -68,30 +66,11 @@ class CalibrationCore {
    * (k̂, K̂, ŝ) with the late delay of the largest gap product at the design's soon delay.
    */
   probeSet(small: CalibrationEstimate, large: CalibrationEstimate): ProbeSet | null {
-    let row = this.probes.get(small.key);
-    if (row === undefined) {
-      row = new Map();
-      if (this.probeCount < CACHE_LIMIT) this.probes.set(small.key, row);
-    }
-    let set = row.get(large.key);
-    if (set === undefined) {
-      set = this.build(small, large);
-      if (this.probeCount < CACHE_LIMIT) {
-        row.set(large.key, set);
-        this.probeCount++;
-      }
-    }
-    return set;
-  }
-
-  private build(small: CalibrationEstimate, large: CalibrationEstimate): ProbeSet | null {
     const { design } = this;
     if (small.profile === null || large.profile === null) return probeSet(design, small.rate, large.rate);
     const joint = jointSensitivityEstimate(small.profile, large.profile);
     const model = { id: stageOneModel(design.spec)!.id, sensitivity: joint.sensitivity };
-    const probeDesign = { ...design, spec: { ...design.spec, model } };
-    const optimum = optimiseLateDelay({ model, ratio: design.spec.ratio, soonDelay: design.soonDelay, kSmall: joint.kSmall, kLarge: joint.kLarge });
-    return optimum && probeSet(probeDesign, joint.kSmall, joint.kLarge, { soonDelay: design.soonDelay, lateDelay: optimum.lateDelay });
+    return probeSet({ ...design, spec: { ...design.spec, model } }, joint.kSmall, joint.kLarge);
   }
 }
 
@@ -120,9 +99,9 @@ function coreFor(design: PowerDesign, coverDelay: number): CalibrationCore {
  * amount, as estimateRates uses); with a stage-1 fit that estimates delay sensitivity, the
  * profile over s as well (SensitivityProfile).
  *
- * Estimates depend only on a magnitude's response vector, and probe sets only on the two
- * vectors, so they are memoised by them, across the truths of a run too (CalibrationCore): an
- * exact cache of a deterministic function, which keeps results identical with or without it.
+ * Estimates depend only on a magnitude's response vector, so they are memoised by it, across the
+ * truths of a run too (CalibrationCore): an exact cache of a deterministic function, which keeps
+ * results identical with or without it.
  */
 export class CalibrationModel {
   readonly longestDelay: number;
