@@ -1,4 +1,3 @@
-import { probabilityLarger } from '../choiceProbability';
 import { designChoiceModel } from '../designChoiceModel';
 import { discountAt } from '../discountFactor';
 import { calibrationBlock } from '../item-bank/calibrationBlock';
@@ -6,6 +5,7 @@ import { stageOneModel } from '../item-bank/calibrationPlan';
 import { amountUnit } from '../item-bank/rounding';
 import type { SeededRandom } from '../random';
 import { FastRateEstimator } from './fastRateEstimate';
+import { LargerChoice } from './largerChoice';
 import { probeSet, type ProbeSet } from './probeSet';
 import { jointSensitivityEstimate, SensitivityProfile } from './sensitivityProfile';
 import type { PowerDesign, PowerScenario } from './types';
@@ -107,12 +107,14 @@ export class CalibrationModel {
   readonly longestDelay: number;
   private readonly core: CalibrationCore;
   private readonly bits = new Uint8Array(200);
+  private readonly choice: LargerChoice;
 
   constructor(
     private readonly scenario: PowerScenario,
     coverDelay: number,
   ) {
     this.core = coreFor(scenario.design, coverDelay);
+    this.choice = new LargerChoice(scenario.truth.gamma, scenario.truth.lapse);
     this.longestDelay = this.core.longestDelay;
   }
 
@@ -128,7 +130,7 @@ export class CalibrationModel {
     let key = 1; // a leading 1 keeps the bits readable
     for (let i = 0; i < block.count; i++) {
       const gap = bias * discountAt(truth.model.id, trueRate, s, beta, block.laterDelay[i]) - block.soonerShare[i];
-      const later = random.uniform() < probabilityLarger(truth.gamma, truth.lapse, gap) ? 1 : 0;
+      const later = this.choice.larger(random.uniform(), gap) ? 1 : 0;
       this.bits[i] = later;
       key = key * 2 + later;
     }
