@@ -8,6 +8,7 @@ import { ApiKey, Participant } from './item-bank';
 import { Invitation, NoticeSetting, PasswordResetToken } from './team';
 import { PowerRun } from './power';
 import { ParticipantSession, Stage2Answer } from './session';
+import { AdaptiveCalibrationAnswer } from './adaptive-calibration';
 // account security: address confirmation and signed-out sessions
 import { EmailConfirmationToken, EndedSession } from './account';
 import { Analysis } from './analysis';
@@ -19,6 +20,7 @@ export { PowerRun };
 export { ParticipantSession, Stage2Answer };
 export { EmailConfirmationToken, EndedSession };
 export { Analysis };
+export { AdaptiveCalibrationAnswer };
 
 /**
  * Registers every model and association on one Sequelize instance. A new model is added here
@@ -44,6 +46,7 @@ export function registerModels(sequelize: Sequelize): void {
   ParticipantSession.register(sequelize);
   Stage2Answer.register(sequelize);
   Analysis.register(sequelize);
+  AdaptiveCalibrationAnswer.register(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });
