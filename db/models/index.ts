@@ -12,6 +12,8 @@ import { AdaptiveCalibrationAnswer } from './adaptive-calibration';
 // account security: address confirmation and signed-out sessions
 import { EmailConfirmationToken, EndedSession } from './account';
 import { Analysis } from './analysis';
+// session page (issue 13): participant links
+import { SessionLink } from './session-link';
 
 export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
 export { ApiKey, Participant };
@@ -21,6 +23,7 @@ export { ParticipantSession, Stage2Answer };
 export { EmailConfirmationToken, EndedSession };
 export { Analysis };
 export { AdaptiveCalibrationAnswer };
+export { SessionLink };
 
 /**
  * Registers every model and association on one Sequelize instance. A new model is added here
@@ -47,6 +50,7 @@ export function registerModels(sequelize: Sequelize): void {
   Stage2Answer.register(sequelize);
   Analysis.register(sequelize);
   AdaptiveCalibrationAnswer.register(sequelize);
+  SessionLink.register(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });
