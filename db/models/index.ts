@@ -14,6 +14,8 @@ import { EmailConfirmationToken, EndedSession } from './account';
 import { Analysis } from './analysis';
 // session page (issue 13): participant links
 import { SessionLink } from './session-link';
+// real rewards: reward settings per version, the payout ledger, participants' payment details
+import { Payout, PaymentDetail, RewardSettings } from './payout';
 
 export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
 export { ApiKey, Participant };
@@ -24,6 +26,7 @@ export { EmailConfirmationToken, EndedSession };
 export { Analysis };
 export { AdaptiveCalibrationAnswer };
 export { SessionLink };
+export { Payout, PaymentDetail, RewardSettings };
 
 /**
  * Registers every model and association on one Sequelize instance. A new model is added here
@@ -51,6 +54,9 @@ export function registerModels(sequelize: Sequelize): void {
   Analysis.register(sequelize);
   AdaptiveCalibrationAnswer.register(sequelize);
   SessionLink.register(sequelize);
+  RewardSettings.register(sequelize);
+  Payout.register(sequelize);
+  PaymentDetail.register(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });
