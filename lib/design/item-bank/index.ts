@@ -27,3 +27,5 @@ export {
 export { fitStageOne, withProbeModel, type AnsweredCalibrationItem, type StageOneSensitivityFit } from './stageOneFit';
 export { buildItemBank, DEFAULT_MIN_GAP, type ItemBank, type RoundingReport } from './buildItemBank';
 export { serveParticipant, participantSeed, type RateSummary, type ServeFlag, type ServedItems } from './serveParticipant';
+export { adaptiveBlock, adaptiveEngine, type AdaptiveBlock } from './adaptiveBlock';
+export { nextCalibrationItem, type CalibrationAnswer, type CalibrationStep } from './nextCalibrationItem';

@@ -55,7 +55,9 @@ export type BankDesign = {
       itemsPerMagnitude: number;
       minDelay: number;
       maxDelay: number;
-      /** where the later delays go (calibrationPlan); absent: 'range' */
+      /** adaptive calibration (adaptive design optimisation); absent: the fixed block */
+      adaptive?: { maxItems: number; targetSd: number };
+      /** where the fixed block's later delays go (calibrationPlan); absent: 'range' */
       placement?: 'range' | 'span-probes';
       /** the model stage 1 fits (calibrationPlan); absent: 'design-model' */
       fit?: 'design-model' | 'hyperboloid' | 'power-delay' | 'exponential-power';

@@ -16,10 +16,10 @@ export type CalibrationEstimate = {
   flagged: boolean;
   /** a flag for which the participant is served the fallback set (all-sooner, all-later, non-monotone) */
   fallback: boolean;
-  /** the magnitude's response vector as a number (a leading 1, then one bit per item, 1 = later) */
-  key: number;
-  /** the profile over delay sensitivity (SensitivityProfile) when stage 1 estimates s; else null */
-  profile: Float64Array | null;
+  /** the magnitude's response vector as a number (a leading 1, then one bit per item, 1 = later); absent from adaptive calibration */
+  key?: number;
+  /** the profile over delay sensitivity (SensitivityProfile) when stage 1 estimates s; else null or absent */
+  profile?: Float64Array | null;
 };
 
 type Block = { count: number; soonerShare: Float64Array; laterDelay: Float64Array; estimator: FastRateEstimator; profile: SensitivityProfile | null };
@@ -67,7 +67,7 @@ class CalibrationCore {
    */
   probeSet(small: CalibrationEstimate, large: CalibrationEstimate): ProbeSet | null {
     const { design } = this;
-    if (small.profile === null || large.profile === null) return probeSet(design, small.rate, large.rate);
+    if (!small.profile || !large.profile) return probeSet(design, small.rate, large.rate);
     const joint = jointSensitivityEstimate(small.profile, large.profile);
     const model = { id: stageOneModel(design.spec)!.id, sensitivity: joint.sensitivity };
     return probeSet({ ...design, spec: { ...design.spec, model } }, joint.kSmall, joint.kLarge);
@@ -148,6 +148,11 @@ export class CalibrationModel {
       if (cache.size < CACHE_LIMIT) cache.set(key, estimate);
     }
     return estimate;
+  }
+
+  /** Both magnitudes' estimates, small first (answer for each in turn, so the draws keep their order). */
+  answerBoth(kTrue: number, KTrue: number, s: number, random: SeededRandom): [CalibrationEstimate, CalibrationEstimate] {
+    return [this.answer(0, kTrue, s, random), this.answer(1, KTrue, s, random)];
   }
 
   /** The participant's probe set from the two magnitudes' estimates (CalibrationCore.probeSet). */

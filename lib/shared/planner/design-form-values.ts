@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { designSpecSchema, type DesignSpec } from '@/lib/shared/validations/planner';
+import { DEFAULT_ADAPTIVE_STOP } from '@/lib/design';
 import { DEFAULT_CHOICE_SENSITIVITY } from './types';
 
 /**
@@ -10,7 +11,11 @@ import { DEFAULT_CHOICE_SENSITIVITY } from './types';
  */
 export type DesignFormValues = Omit<DesignSpec, 'model' | 'soonDelay' | 'choiceSensitivity' | 'calibration'> & {
   model: { id: DesignSpec['model']['id']; sensitivity: number; presentBias: number };
-  calibration: Required<DesignSpec['calibration']>;
+  calibration: Omit<DesignSpec['calibration'], 'adaptive' | 'placement' | 'fit'> & {
+    adaptive: { enabled: boolean; maxItems: number; targetSd: number };
+    placement: NonNullable<DesignSpec['calibration']['placement']>;
+    fit: NonNullable<DesignSpec['calibration']['fit']>;
+  };
   soonDelay: { mode: 'fixed' | 'optimised'; days: number; min: number; max: number };
   choiceSensitivity: number;
 };
@@ -24,14 +29,14 @@ export function toSpec(v: DesignFormValues): DesignSpec {
   if (v.model.id === 'quasi-hyperbolic') model.presentBias = v.model.presentBias;
   const soonDelay: DesignSpec['soonDelay'] = v.soonDelay.mode === 'fixed' ? { mode: 'fixed', days: v.soonDelay.days } : { mode: 'optimised', min: v.soonDelay.min, max: v.soonDelay.max };
   // the defaults are left out, so a design that does not use the options keeps the spec (and hash) it had before them
-  const { placement, fit, ...calibration } = v.calibration;
-  return {
-    ...v,
-    model,
-    soonDelay,
-    choiceSensitivity: v.choiceSensitivity,
-    calibration: { ...calibration, ...(placement !== 'range' ? { placement } : {}), ...(fit !== 'design-model' ? { fit } : {}) },
+  const { adaptive, placement, fit, ...fixedBlock } = v.calibration;
+  const calibration: DesignSpec['calibration'] = {
+    ...fixedBlock,
+    ...(adaptive.enabled ? { adaptive: { maxItems: adaptive.maxItems, targetSd: adaptive.targetSd } } : {}),
+    ...(placement !== 'range' ? { placement } : {}),
+    ...(fit !== 'design-model' ? { fit } : {}),
   };
+  return { ...v, model, soonDelay, calibration, choiceSensitivity: v.choiceSensitivity };
 }
 
 /** Form values for a stored spec, with defaults for the controls the spec does not use. */
@@ -42,7 +47,12 @@ export function toForm(spec: DesignSpec): DesignFormValues {
     model: { id: spec.model.id, sensitivity: spec.model.sensitivity ?? 1, presentBias: spec.model.presentBias ?? 0.9 },
     soonDelay: soon.mode === 'fixed' ? { mode: 'fixed', days: soon.days, min: Math.max(1, Math.min(soon.days, 7)), max: Math.max(soon.days, 60) } : { mode: 'optimised', days: soon.min, min: soon.min, max: soon.max },
     choiceSensitivity: spec.choiceSensitivity ?? DEFAULT_CHOICE_SENSITIVITY,
-    calibration: { ...spec.calibration, placement: spec.calibration.placement ?? 'range', fit: spec.calibration.fit ?? 'design-model' },
+    calibration: {
+      ...spec.calibration,
+      adaptive: spec.calibration.adaptive ? { enabled: true, ...spec.calibration.adaptive } : { enabled: false, ...DEFAULT_ADAPTIVE_STOP },
+      placement: spec.calibration.placement ?? 'range',
+      fit: spec.calibration.fit ?? 'design-model',
+    },
   };
 }
 
