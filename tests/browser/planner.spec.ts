@@ -95,9 +95,8 @@ test('the demo editor creates a prior and two designs, compares them and freezes
   // freeze the first one, then comment
   await page.goto(`${base}/designs`);
   await page.getByRole('link', { name: first }).click();
-  // with an unsaved edit, freezing is refused (it would store the saved draft without the edit);
-  // wait for the design's background refetch first, which resets the form underneath the edit
-  await page.waitForLoadState('networkidle');
+  // with an unsaved edit, freezing is refused (it would store the saved draft without the edit),
+  // also when the edit is typed before the design's background refetch lands
   const name = page.getByLabel('Design name');
   await name.fill(`${first} (edited)`);
   await page.getByRole('button', { name: 'Freeze this design…' }).click();
