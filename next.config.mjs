@@ -1,7 +1,8 @@
 /** @type {import('next').NextConfig} */
 const nextConfig = {
-  // The database driver and ORM load optional native pieces at run time; bundling them breaks that.
-  serverExternalPackages: ['sequelize', 'mariadb', '@resvg/resvg-js', 'smtp-server', 'mailparser', 'nodemailer'],
+  // The database driver and ORM load optional native pieces at run time, and the thread pool and job
+  // queue start their own worker files and Lua scripts from their package folders: bundling breaks that.
+  serverExternalPackages: ['sequelize', 'mariadb', '@resvg/resvg-js', 'smtp-server', 'mailparser', 'nodemailer', 'piscina', 'bullmq', 'ioredis'],
   // Separate build folders let several servers of one checkout run side by side (e.g. NEXT_DIST_DIR=.next-dev).
   distDir: process.env.NEXT_DIST_DIR || '.next',
   poweredByHeader: false,

@@ -3,8 +3,10 @@ import { runCoreBench } from './core';
 import { runPowerBench } from './power';
 import { runPlannerBench } from './planner';
 import { runAnalysisBench } from './analysis';
+import { runAdaptiveBench } from './adaptive';
 
 await runCoreBench();
 await runPlannerBench();
 await runPowerBench();
 await runAnalysisBench();
+await runAdaptiveBench();

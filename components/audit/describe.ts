@@ -26,6 +26,9 @@ const LABELS: Record<string, string> = {
   'power-run.start': 'Power run started',
   'power-run.cancel': 'Power run cancelled',
   'power-run.restart': 'Power run restarted',
+  // session page (issue 13)
+  'session-link.create': 'Participant link created',
+  'session-link.status': 'Participant link opened, paused or closed',
 };
 
 /** A readable label for an audit action; actions of other features show as written (e.g. "design.freeze"). */

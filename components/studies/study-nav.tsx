@@ -15,6 +15,8 @@ export const studySections: Array<{ segment: string; label: string; minRole: Rol
   { segment: 'item-bank', label: 'Item bank', minRole: 'operator' },
   { segment: 'api', label: 'API', minRole: 'viewer' },
   { segment: 'participants', label: 'Participants', minRole: 'viewer' },
+  // Session page (issue 13): participant links, their status and a preview.
+  { segment: 'session-links', label: 'Session links', minRole: 'operator' },
   // Results (issue 14): observed against expected patterns, tests, models, zone diagnosis.
   { segment: 'results', label: 'Results', minRole: 'viewer' },
   { segment: 'team', label: 'Team', minRole: 'viewer' },

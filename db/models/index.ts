@@ -11,6 +11,8 @@ import { ParticipantSession, Stage2Answer } from './session';
 // account security: address confirmation and signed-out sessions
 import { EmailConfirmationToken, EndedSession } from './account';
 import { Analysis } from './analysis';
+// session page (issue 13): participant links
+import { SessionLink } from './session-link';
 
 export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
 export { ApiKey, Participant };
@@ -19,6 +21,7 @@ export { PowerRun };
 export { ParticipantSession, Stage2Answer };
 export { EmailConfirmationToken, EndedSession };
 export { Analysis };
+export { SessionLink };
 
 /**
  * Registers every model and association on one Sequelize instance. A new model is added here
@@ -44,6 +47,7 @@ export function registerModels(sequelize: Sequelize): void {
   ParticipantSession.register(sequelize);
   Stage2Answer.register(sequelize);
   Analysis.register(sequelize);
+  SessionLink.register(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });

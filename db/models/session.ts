@@ -11,9 +11,9 @@ export type AnswerSource = 'api' | 'page' | 'upload';
 
 /**
  * One participant's run through both blocks of a frozen version, once Switchback knows of it
- * (calibration block fetched for them, session page opened, stage-2 answers received).
- * A participant served through the probe-items API alone has a `participants` row and no
- * session row until their first stage-2 answer: the hot path writes one statement.
+ * (calibration block fetched for them, consent on the session page, calibration answers scored by
+ * the probe-items API, stage-2 answers received). Participants served by a batch upload have a
+ * `participants` row and no session row.
  */
 export class ParticipantSession extends Model<InferAttributes<ParticipantSession>, InferCreationAttributes<ParticipantSession>> {
   declare id: CreationOptional<number>;
@@ -32,6 +32,10 @@ export class ParticipantSession extends Model<InferAttributes<ParticipantSession
   declare lastActivityAt: Date;
   /** SHA-256 of the session token handed to a browser session (null for server-key sessions) */
   declare tokenHash: CreationOptional<string | null>;
+  /** session page (migration 0013): the participant link, when consent was given and the instructions read */
+  declare sessionLinkId: CreationOptional<number | null>;
+  declare consentedAt: CreationOptional<Date | null>;
+  declare instructionsReadAt: CreationOptional<Date | null>;
 
   static register(sequelize: Sequelize) {
     ParticipantSession.init(
@@ -50,6 +54,9 @@ export class ParticipantSession extends Model<InferAttributes<ParticipantSession
         completedAt: { type: DataTypes.DATE, allowNull: true },
         lastActivityAt: { type: DataTypes.DATE, allowNull: false },
         tokenHash: { type: DataTypes.CHAR(64), allowNull: true },
+        sessionLinkId: { ...OPTIONAL_FK },
+        consentedAt: { type: DataTypes.DATE, allowNull: true },
+        instructionsReadAt: { type: DataTypes.DATE, allowNull: true },
       },
       { sequelize, tableName: 'participant_sessions', timestamps: false },
     );

@@ -1,8 +1,8 @@
 import { discountAfter, discountAt } from './discountFactor';
 import { DesignInputError } from './DesignInputError';
-import { findRoot } from './findRoot';
+import { findRoot, lastIterate, zeroin } from './findRoot';
 import { optimiseLateDelay } from './optimiseLateDelay';
-import type { ModelId, PairInput } from './types';
+import type { LateDelayOptimum, ModelId, PairInput } from './types';
 
 export type AnchorOptions = {
   /**
@@ -58,46 +58,97 @@ export function anchorDelays(input: PairInput, options: AnchorOptions = {}): Anc
     throw new DesignInputError('target', 'a finite number greater than 0', options.target);
   }
   if (optimum === null) return null;
-  const target = options.target ?? optimum.gapProduct;
+  return anchorsAround(input, optimum, maxFactor, options.target ?? optimum.gapProduct);
+}
+
+/**
+ * anchorDelays for a validated input whose optimiseLateDelay result is already at hand (the item
+ * bank's pairDelays computes it first): the same numbers, without solving the optimum twice.
+ */
+export function anchorsAround(input: PairInput, optimum: LateDelayOptimum, maxFactor: number, target: number): Anchors {
   const { model, ratio: x, soonDelay: d, kSmall: k, kLarge: K } = input;
   const s = model.sensitivity ?? 1;
   const beta = model.presentBias ?? 1;
   const farSoon = x * discountAt(model.id, k, s, beta, d);
-  const gaps = (t: number) => gapsAt(model.id, s, beta, x, d, K, farSoon, t);
   const lnSpan = Math.log(maxFactor);
   let late: AnchorPair | null = null;
   if (optimum.lower > d) {
     const edge = Math.log(optimum.lower - d);
-    late = placeAnchor(gaps, edge, edge - lnSpan, d, target, -1);
+    setSearch(model.id, s, beta, x, d, K, farSoon, target, -1);
+    late = placeAnchor(edge, edge - lnSpan);
   }
   let soon: AnchorPair | null = null;
   if (Number.isFinite(optimum.upper) && optimum.upper * maxFactor < Number.MAX_VALUE) {
     const edge = Math.log(optimum.upper - d);
-    soon = placeAnchor(gaps, edge, edge + lnSpan, d, target, 1);
+    setSearch(model.id, s, beta, x, d, K, farSoon, target, 1);
+    soon = placeAnchor(edge, edge + lnSpan);
   }
   return { target, probe: optimum.gapProduct, late, soon };
 }
 
-type Gaps = { far: number; near: number };
+// The anchor being searched for, in module state rather than closures: the search runs for every
+// simulated participant of a power run, and a closure made per call costs more than the arithmetic
+// (more still where a transpiler wraps each one to keep its name). Searches never nest.
+let sId: ModelId = 'hyperbolic';
+let sS = 1;
+let sBeta = 1;
+let sX = 0;
+let sD = 0;
+let sK = 0;
+let sFarSoon = 0;
+let sTarget = 0;
+let sSide = -1;
+let gFar = 0;
+let gNear = 0;
 
-function gapsAt(id: ModelId, s: number, beta: number, x: number, d: number, K: number, farSoon: number, t: number): Gaps {
-  const e = Math.exp(t);
-  return { far: discountAt(id, K, s, beta, d + e) - farSoon, near: x - discountAfter(id, K, s, beta, e) };
+function setSearch(id: ModelId, s: number, beta: number, x: number, d: number, K: number, farSoon: number, target: number, side: -1 | 1): void {
+  sId = id;
+  sS = s;
+  sBeta = beta;
+  sX = x;
+  sD = d;
+  sK = K;
+  sFarSoon = farSoon;
+  sTarget = target;
+  sSide = side;
 }
 
-function placeAnchor(gaps: (t: number) => Gaps, edge: number, bound: number, d: number, target: number, side: -1 | 1): AnchorPair {
-  const clarity = (t: number) => {
-    const g = gaps(t);
-    return side < 0 ? g.far * -g.near : -g.far * g.near;
-  };
-  const excess = (t: number) => clarity(t) - target;
+/** The far-view and near-view gaps at t = ln(D − d), into gFar and gNear. */
+function gapsAt(t: number): void {
+  const e = Math.exp(t);
+  gFar = discountAt(sId, sK, sS, sBeta, sD + e) - sFarSoon;
+  gNear = sX - discountAfter(sId, sK, sS, sBeta, e);
+}
+
+/** Anchor clarity at the gaps last computed: A·(−B) for a late anchor, (−A)·B for a soon one. */
+function clarity(): number {
+  return sSide < 0 ? gFar * -gNear : -gFar * gNear;
+}
+
+function excess(t: number): number {
+  gapsAt(t);
+  return clarity() - sTarget;
+}
+
+function placeAnchor(edge: number, bound: number): AnchorPair {
   let t = bound;
   let reachesTarget = false;
-  if (excess(bound) >= 0) {
-    const [lo, hi] = side < 0 ? [bound, edge] : [edge, bound];
-    t = findRoot(excess, { lower: lo, upper: hi, tolerance: 1e-12 }).root;
+  const atBound = excess(bound);
+  if (atBound >= 0) {
+    const lo = sSide < 0 ? bound : edge;
+    const hi = sSide < 0 ? edge : bound;
+    t = rootOfExcess(lo, hi, sSide < 0 ? atBound : excess(lo), sSide < 0 ? excess(hi) : atBound);
     reachesTarget = true;
   }
-  const g = gaps(t);
-  return { lateDelay: d + Math.exp(t), far: g.far, near: g.near, clarity: clarity(t), reachesTarget };
+  gapsAt(t);
+  return { lateDelay: sD + Math.exp(t), far: gFar, near: gNear, clarity: clarity(), reachesTarget };
+}
+
+/** findRoot(excess, { lower, upper, tolerance: 1e-12 }).root, with the ends' values already at hand. */
+function rootOfExcess(lower: number, upper: number, fl: number, fu: number): number {
+  if (!(Number.isFinite(lower) && Number.isFinite(upper) && upper > lower && ((fl <= 0 && fu >= 0) || (fl >= 0 && fu <= 0)))) {
+    return findRoot(excess, { lower, upper, tolerance: 1e-12 }).root; // reports the bad bracket
+  }
+  const root = zeroin(excess, lower, upper, fl, fu, 1e-12, 200);
+  return Number.isNaN(root) ? lastIterate() : root;
 }

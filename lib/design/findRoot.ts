@@ -40,6 +40,11 @@ export function findRoot(f: (x: number) => number, options: RootOptions): RootRe
 
 let lastPoint = NaN;
 
+/** The last iterate of the latest zeroin call that ran out of iterations. */
+export function lastIterate(): number {
+  return lastPoint;
+}
+
 /**
  * Unchecked Brent–Dekker iteration on a bracket [a, b] with f(a)·f(b) ≤ 0.
  * Returns NaN when maxIterations runs out (the last iterate is kept in `lastPoint`).

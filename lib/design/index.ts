@@ -28,3 +28,4 @@ export { checkDelay, checkInteger, checkLateDelay, checkModel, checkRatio, MIN_S
 export * from './power';
 export * from './item-bank';
 export * from './analysis';
+export * from './adaptive';

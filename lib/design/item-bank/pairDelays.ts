@@ -1,5 +1,7 @@
-import { anchorDelays } from '../anchorDelays';
+import { anchorsAround } from '../anchorDelays';
+import { optimiseLateDelay } from '../optimiseLateDelay';
 import { reversalZone } from '../reversalZone';
+import type { LateDelayOptimum } from '../types';
 import type { BankDesign, DesignPoint, RatePair } from './types';
 
 /** Late delays (days, unrounded) of the probe and anchor pairs for one set of rates. */
@@ -25,6 +27,14 @@ export type PairDelays = {
  * @returns null when the rates have no reversal zone at the point's soon delay, or the zone starts beyond the limit
  */
 export function pairDelays(design: BankDesign, point: DesignPoint, rates: RatePair): PairDelays | null {
+  return pairDelaysAround(design, point, rates);
+}
+
+/**
+ * pairDelays, for callers that already hold optimiseLateDelay's result for these rates at the
+ * point's soon delay (the power simulation's probe sets): the same delays without solving it twice.
+ */
+export function pairDelaysAround(design: BankDesign, point: DesignPoint, rates: RatePair, known?: LateDelayOptimum | null): PairDelays | null {
   const { spec } = design;
   const d = point.soonDelay;
   const input = { model: spec.model, ratio: spec.ratio, soonDelay: d, kSmall: rates.kSmall, kLarge: rates.kLarge };
@@ -36,16 +46,14 @@ export function pairDelays(design: BankDesign, point: DesignPoint, rates: RatePa
   const tUp = Number.isFinite(zone.upper) ? Math.log(Math.min(zone.upper, limit) - d) : tMain + 1;
   const half = 0.5 * Math.max(0, Math.min(tMain - tLow, tUp - tMain));
   const n = spec.probePairs;
-  const probes = Array.from({ length: n }, (_, i) => d + Math.exp(n === 1 ? tMain : tMain + half * ((2 * i) / (n - 1) - 1)));
+  const probes: number[] = [];
+  for (let i = 0; i < n; i++) probes.push(d + Math.exp(n === 1 ? tMain : tMain + half * ((2 * i) / (n - 1) - 1)));
 
-  const anchors = anchorDelays(input);
-  const steps = (first: number | undefined, edge: number, count: number, direction: -1 | 1) => {
-    if (first === undefined || count === 0) return [];
-    const step = Math.abs(Math.log(first - d) - Math.log(edge - d));
-    return Array.from({ length: count }, (_, j) => d + Math.exp(Math.log(first - d) + direction * j * step)).filter((D) => D <= limit);
-  };
-  const lateAnchors = zone.lower > d ? steps(anchors?.late?.lateDelay, zone.lower, spec.lateAnchors, -1) : [];
-  const soonAnchors = Number.isFinite(zone.upper) ? steps(anchors?.soon?.lateDelay, zone.upper, spec.soonAnchors, 1) : [];
+  // anchorDelays(input) with its defaults, reusing the caller's optimum when it has one
+  const optimum = known === undefined ? optimiseLateDelay(input) : known;
+  const anchors = optimum === null ? null : anchorsAround(input, optimum, 4, optimum.gapProduct);
+  const lateAnchors = zone.lower > d ? steps(anchors?.late?.lateDelay, zone.lower, spec.lateAnchors, -1, d, limit) : [];
+  const soonAnchors = Number.isFinite(zone.upper) ? steps(anchors?.soon?.lateDelay, zone.upper, spec.soonAnchors, 1, d, limit) : [];
   return {
     soonDelay: d,
     zone,
@@ -54,4 +62,16 @@ export function pairDelays(design: BankDesign, point: DesignPoint, rates: RatePa
     soonAnchors,
     omitted: { lateAnchors: spec.lateAnchors - lateAnchors.length, soonAnchors: spec.soonAnchors - soonAnchors.length },
   };
+}
+
+/** `count` anchors from the first one outwards, each one step in ln(D − d) further from the zone; those past the limit left out. */
+function steps(first: number | undefined, edge: number, count: number, direction: -1 | 1, d: number, limit: number): number[] {
+  const delays: number[] = [];
+  if (first === undefined || count === 0) return delays;
+  const step = Math.abs(Math.log(first - d) - Math.log(edge - d));
+  for (let j = 0; j < count; j++) {
+    const D = d + Math.exp(Math.log(first - d) + direction * j * step);
+    if (D <= limit) delays.push(D);
+  }
+  return delays;
 }

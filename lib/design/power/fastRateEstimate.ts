@@ -3,7 +3,7 @@ import { discountAt } from '../discountFactor';
 import { DesignInputError } from '../DesignInputError';
 import { zeroin } from '../findRoot';
 import { indifferenceRate } from '../indifferenceRate';
-import type { ModelSpec } from '../types';
+import type { ModelId, ModelSpec } from '../types';
 
 const LOG_K_MIN = Math.log(1e-6);
 const LOG_K_MAX = Math.log(10);
@@ -33,6 +33,8 @@ export class FastRateEstimator {
   private readonly table: Float64Array; // [grid][item][later? 1 : 0]
   private readonly order: Int32Array; // items by ascending tie rate
   private readonly later: Uint8Array;
+  /** score as a function value for the root finder, made once (not per fit) */
+  private readonly scoreAt = (lnK: number): number => this.score(lnK);
 
   constructor(
     private readonly model: ModelSpec,
@@ -65,26 +67,6 @@ export class FastRateEstimator {
     return discountAt(m.id, k, m.sensitivity ?? 1, m.presentBias ?? 1, this.delay[i]) - this.share[i];
   }
 
-  /** d gap/d ln k of item i at rate k. */
-  private slope(k: number, i: number): number {
-    const m = this.model;
-    const s = m.sensitivity ?? 1;
-    const D = this.delay[i];
-    const f = discountAt(m.id, k, s, m.presentBias ?? 1, D);
-    switch (m.id) {
-      case 'hyperbolic':
-        return -k * D * f * f;
-      case 'hyperboloid':
-        return (-s * k * D * f) / (1 + k * D);
-      case 'power-delay':
-        return -k * Math.pow(D, s) * f * f;
-      case 'exponential-power':
-        return -k * Math.pow(D, s) * f;
-      default: // exponential, quasi-hyperbolic (D > 0)
-        return -k * D * f;
-    }
-  }
-
   private logLikelihood(lnK: number): number {
     const k = Math.exp(lnK);
     let sum = 0;
@@ -96,13 +78,19 @@ export class FastRateEstimator {
     const k = Math.exp(lnK);
     const g = this.gamma;
     const e = this.lapse;
+    const m = this.model;
+    const s = m.sensitivity ?? 1;
+    const beta = m.presentBias ?? 1;
     let sum = 0;
     for (let i = 0; i < this.n; i++) {
-      const z = g * this.gap(k, i);
+      // gap(k, i) and slope(k, i) share the discount factor: computed once here, the same number
+      const D = this.delay[i];
+      const f = discountAt(m.id, k, s, beta, D);
+      const z = g * (f - this.share[i]);
       const p = z >= 0 ? 1 / (1 + Math.exp(-z)) : Math.exp(z) / (1 + Math.exp(z));
       const density = (1 - e) * g * p * (1 - p);
       const w = this.later[i] === 1 ? density / (0.5 * e + (1 - e) * p) : -density / (0.5 * e + (1 - e) * (1 - p));
-      sum += w * this.slope(k, i);
+      sum += w * slopeAt(m.id, k, s, D, f);
     }
     return sum;
   }
@@ -146,7 +134,7 @@ export class FastRateEstimator {
     const sHigh = this.score(upper);
     if (sLow > 0 && sHigh < 0) {
       // the score changes sign inside the cells: its root is the interior maximum
-      const root = zeroin((t) => this.score(t), lower, upper, sLow, sHigh, 1e-10, 100);
+      const root = zeroin(this.scoreAt, lower, upper, sLow, sHigh, 1e-10, 100);
       if (!Number.isNaN(root)) return root;
     }
     // no sign change: the likelihood is largest at an end of the cells (as estimateRates compares them)
@@ -163,5 +151,21 @@ export class FastRateEstimator {
       if (agree > best) best = agree;
     }
     return best / n;
+  }
+}
+
+/** d f/d ln k at rate k and delay D > 0, given f = f_k(D): the slope of an item's gap. */
+function slopeAt(id: ModelId, k: number, s: number, D: number, f: number): number {
+  switch (id) {
+    case 'hyperbolic':
+      return -k * D * f * f;
+    case 'hyperboloid':
+      return (-s * k * D * f) / (1 + k * D);
+    case 'power-delay':
+      return -k * Math.pow(D, s) * f * f;
+    case 'exponential-power':
+      return -k * Math.pow(D, s) * f;
+    default: // exponential, quasi-hyperbolic (D > 0)
+      return -k * D * f;
   }
 }

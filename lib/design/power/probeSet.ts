@@ -1,5 +1,5 @@
-import { pairDelays } from '../item-bank/pairDelays';
-import { optimiseLateDelay } from '../optimiseLateDelay';
+import { pairDelaysAround } from '../item-bank/pairDelays';
+import { optimiseLateDelay, type LateDelayOptimum } from '../optimiseLateDelay';
 import type { PowerDesign } from './types';
 
 /** Late delays (days) of one participant's probe block, per pair role. */
@@ -17,12 +17,13 @@ export function probeSet(design: PowerDesign, kSmall: number, kLarge: number, po
   const d = point?.soonDelay ?? design.soonDelay;
   const rates = { kSmall, kLarge };
   let lateDelay = point?.lateDelay;
+  let optimum: LateDelayOptimum | null | undefined;
   if (lateDelay === undefined) {
-    const optimum = optimiseLateDelay({ model: spec.model, ratio: spec.ratio, soonDelay: d, ...rates });
+    optimum = optimiseLateDelay({ model: spec.model, ratio: spec.ratio, soonDelay: d, ...rates });
     if (optimum === null) return null;
     lateDelay = optimum.lateDelay;
   }
-  const delays = pairDelays(design, { soonDelay: d, lateDelay }, rates);
+  const delays = pairDelaysAround(design, { soonDelay: d, lateDelay }, rates, optimum);
   if (delays === null) return null;
   return { probe: delays.probes, lateAnchor: delays.lateAnchors, soonAnchor: delays.soonAnchors };
 }

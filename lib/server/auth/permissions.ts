@@ -71,4 +71,10 @@ export const apiPermissions: Record<string, Partial<Record<Method, Access>>> = {
   '/api/v1/studies/[id]/stage2-answers': { POST: 'api-key' },
   '/api/studies/[id]/item-bank/[versionId]/starter': { GET: 'operator' },
   '/api/studies/[id]/sessions': { GET: 'viewer', PATCH: 'operator' },
+  // Session page (issue 13): operators manage participant links and preview them; participants
+  // use the page's own API without an account (rate-limited, session token in an httpOnly cookie).
+  '/api/studies/[id]/session-links': { GET: 'operator', POST: 'operator' },
+  '/api/studies/[id]/session-links/[linkId]': { PATCH: 'operator' },
+  '/api/studies/[id]/session-links/[linkId]/preview': { POST: 'operator' },
+  '/api/session-page/[slug]': { GET: 'public', POST: 'public' },
 };

@@ -7,7 +7,7 @@ import { probeApiEnv } from '@/lib/server/env';
  * Settings: PROBE_API_BURST (default 200) and PROBE_API_PER_SECOND (default 100).
  */
 export class KeyRateLimiter {
-  private readonly buckets = new Map<number, { tokens: number; at: number }>();
+  private readonly buckets = new Map<number | string, { tokens: number; at: number }>();
 
   constructor(
     public capacity: number,
@@ -15,8 +15,8 @@ export class KeyRateLimiter {
     private readonly now: () => number = () => Date.now(),
   ) {}
 
-  /** Takes one token for `keyId`: 0 when allowed, else the seconds to wait (for Retry-After). */
-  take(keyId: number): number {
+  /** Takes one token for `keyId` (a key id, or any other name of a caller): 0 when allowed, else the seconds to wait (for Retry-After). */
+  take(keyId: number | string): number {
     const t = this.now();
     const bucket = this.buckets.get(keyId) ?? { tokens: this.capacity, at: t };
     bucket.tokens = Math.min(this.capacity, bucket.tokens + ((t - bucket.at) / 1000) * this.perSecond);

@@ -2,7 +2,7 @@ import { ApiError, ForbiddenError, ValidationError } from '@/lib/server/errors';
 import { errorReply, jsonReply, type PlainReply } from '@/lib/server/http/error-reply';
 import { parseJsonText } from '@/lib/server/http/read-json';
 import { createRandom, participantSeed, shuffle } from '@/lib/design';
-import { requireApiKey, type CachedKey } from '@/lib/server/services/api-keys';
+import { RevokedKeyError, requireApiKey, type CachedKey } from '@/lib/server/services/api-keys';
 import { bankOrInvalid, frozenVersionById, type FrozenVersionRef } from '@/lib/server/services/item-bank';
 import { itemBankId, presentationOf, type Presentation } from '@/lib/server/services/item-bank-id';
 import { KeyRateLimiter, probeRateLimiter } from '@/lib/server/http/key-rate-limit';
@@ -66,6 +66,8 @@ export async function sessionEndpoint(call: SessionCall, run: (key: CachedKey) =
     reply = wait > 0 ? jsonReply(429, { error: `Too many requests for this key; retry in ${wait} s.` }, { 'Retry-After': String(wait) }) : await run(key);
   } catch (error) {
     reply = errorReply(error);
+    // a revoked key of this study: its own origins may read the 401 (no other active key may list them)
+    if (error instanceof RevokedKeyError && error.key.studyId === studyId) key = error.key;
   }
   return withCors(reply, studyId < 0 ? null : studyId, call.origin ?? null, key);
 }

@@ -138,6 +138,17 @@ export function markApiKeyRevoked(key: CachedKey): void {
 }
 
 /**
+ * 401 for a key that was recognised but has been revoked. It carries the key, so the reply can
+ * still carry the CORS headers of the origins that key listed: the page that holds it can read
+ * why it is refused instead of seeing an opaque network error.
+ */
+export class RevokedKeyError extends UnauthorizedError {
+  constructor(readonly key: CachedKey) {
+    super('This API key is unknown or has been revoked.');
+  }
+}
+
+/**
  * The API key sent in an Authorization header value (`Bearer <key>`, null when the header is
  * missing) for `studyId`. Missing, unknown or revoked → 401; a valid key of another study → 404
  * (the study does not leak).
@@ -165,7 +176,8 @@ export async function requireApiKey(authorization: string | null, studyId: numbe
       keyCache.set(hash, { key, expires: now + KEY_CACHE_MS });
     }
   }
-  if (!key || key.revoked) throw new UnauthorizedError('This API key is unknown or has been revoked.');
+  if (!key) throw new UnauthorizedError('This API key is unknown or has been revoked.');
+  if (key.revoked) throw new RevokedKeyError(key);
   if (key.studyId !== studyId) throw new NotFoundError('Study not found.');
   if (now - (lastUsedWritten.get(key.id) ?? 0) > LAST_USED_EVERY_MS) {
     lastUsedWritten.set(key.id, now);

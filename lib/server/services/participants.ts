@@ -1,13 +1,14 @@
 import { Participant } from '@/db/models';
 import { rawQuery } from '@/db';
-import { ConflictError, UnauthorizedError, ValidationError } from '@/lib/server/errors';
+import { ConflictError, ValidationError } from '@/lib/server/errors';
 import { contentHash } from '@/lib/shared/canonical-json';
 import { ItemBankInputError, serveParticipant, type ServedItems } from '@/lib/design';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
-import { markApiKeyRevoked, type CachedKey } from './api-keys';
+import { markApiKeyRevoked, RevokedKeyError, type CachedKey } from './api-keys';
 import { bankOrInvalid } from './item-bank';
 
-export type ServeSource = { source: 'api'; key: CachedKey } | { source: 'batch'; userId: number };
+/** Who serves: a key (the probe-items API), an operator (a batch), or a participant on the session page. */
+export type ServeSource = { source: 'api'; key: CachedKey } | { source: 'batch'; userId: number } | { source: 'page' };
 
 /** The reply of the probe-items API and what a participant record keeps. */
 export type ProbeItemsReply = ServedItems & { designHash: string; servedAt: string };
@@ -20,6 +21,7 @@ const COLUMNS = 'study_id, design_version_id, participant_id, responses_hash, re
 // through another process (whose cache still holds it) records nobody.
 const INSERT_VIA_KEY = `INSERT INTO participants (${COLUMNS}) SELECT ?, ?, ?, ?, ?, ?, ?, 'api', id, NULL, ? FROM api_keys WHERE id = ? AND revoked_at IS NULL`;
 const INSERT_BY_USER = `INSERT INTO participants (${COLUMNS}) VALUES (?, ?, ?, ?, ?, ?, ?, 'batch', NULL, ?, ?)`;
+const INSERT_BY_PAGE = `INSERT INTO participants (${COLUMNS}) VALUES (?, ?, ?, ?, ?, ?, ?, 'page', NULL, NULL, ?)`;
 const READ_BACK = 'SELECT responses_hash, design_version_id, result FROM participants WHERE study_id = ? AND participant_id = ?';
 const ER_DUP_ENTRY = 1062;
 
@@ -60,11 +62,16 @@ export async function serveProbeItemsJson(
   try {
     // Plain single statements on the driver: the probe API's hot path, where a model instance
     // or Sequelize's escaping of the 4 kB reply costs more than the query.
-    const result = by.source === 'api' ? await rawQuery(INSERT_VIA_KEY, [...row, sqlDate(servedAt), by.key.id]) : await rawQuery(INSERT_BY_USER, [...row, by.userId, sqlDate(servedAt)]);
+    const result =
+      by.source === 'api'
+        ? await rawQuery(INSERT_VIA_KEY, [...row, sqlDate(servedAt), by.key.id])
+        : by.source === 'batch'
+          ? await rawQuery(INSERT_BY_USER, [...row, by.userId, sqlDate(servedAt)])
+          : await rawQuery(INSERT_BY_PAGE, [...row, sqlDate(servedAt)]);
     if (result.affectedRows === 0 && by.source === 'api') {
       // revoked (or deleted with its study) after this process cached it
       markApiKeyRevoked(by.key);
-      throw new UnauthorizedError('This API key is unknown or has been revoked.');
+      throw new RevokedKeyError(by.key);
     }
     return json;
   } catch (error) {

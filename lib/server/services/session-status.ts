@@ -12,7 +12,7 @@ export const SESSION_STATUSES: readonly SessionStatus[] = ['started', 'calibrate
 
 /**
  * The status of one session. A participant with a `participants` row is at least `served`
- * (the probe-items API writes no session row); a session that is not completed and has had no
+ * (a batch upload writes no session row); a session that is not completed and has had no
  * activity for `idleMinutes` is `abandoned`.
  *
  * @example sessionState({ stored: 'started', served: false, lastActivityAt: new Date(0), idleMinutes: 60, now: new Date(3_600_001) }) === 'abandoned'

@@ -52,3 +52,21 @@ export async function startSession(key: CachedKey, version: FrozenVersionRef, pa
   await rawQuery(TOUCH_SESSION, [now, key.studyId, participantId]);
   return { sessionToken: null };
 }
+
+// The session row of a participant served through the probe-items API: created (or moved on to
+// 'served') when their calibration answers are scored, so the participants page and the session
+// page's counts see them from then on, not only after their first stage-2 answer.
+const SERVED_SESSION = `INSERT INTO participant_sessions
+  (study_id, design_version_id, participant_id, status, source, api_key_id, started_at, calibrated_at, served_at, last_activity_at)
+  VALUES (?, ?, ?, 'served', 'api', ?, ?, ?, ?, ?)
+  ON DUPLICATE KEY UPDATE
+    status = IF(status IN ('started', 'calibrated'), 'served', status),
+    calibrated_at = COALESCE(calibrated_at, VALUES(calibrated_at)),
+    served_at = COALESCE(served_at, VALUES(served_at)),
+    last_activity_at = VALUES(last_activity_at)`;
+
+/** Records that a key served a participant their stage-2 items (session status at least `served`). */
+export async function recordServedSession(key: CachedKey, version: FrozenVersionRef, participantId: string): Promise<void> {
+  const now = new Date();
+  await rawQuery(SERVED_SESSION, [key.studyId, version.id, participantId, key.id, now, now, now, now]);
+}

@@ -1,20 +1,19 @@
-import os from 'node:os';
-import path from 'node:path';
-import * as threads from 'node:worker_threads';
-import type { Worker } from 'node:worker_threads';
+import { randomUUID } from 'node:crypto';
+import { setMaxListeners } from 'node:events';
 import { mergeTallies } from '@/lib/design/power/tally';
 import { powerEnv } from '@/lib/server/env';
-import { workerMessage } from '../worker-message';
+import { createThreadPool, threadCount, threadError } from '../thread-pool';
 import type { PowerScenario, PowerTally } from '@/lib/design/power/types';
+import type { ChunkResult, ChunkTask } from './worker';
 
 export type RunScenarioOptions = {
   /** worker threads; default POWER_WORKERS or the machine's available parallelism, at most 8 */
   workers?: number;
-  /** replicates per chunk; default about 40 chunks per run, 10 to 250 replicates each */
+  /** replicates per chunk; default about 40 chunks per scenario, 10 to 250 replicates each */
   chunkSize?: number;
   /** called after every finished chunk with the replicates done so far */
   onProgress?: (completed: number) => void | Promise<void>;
-  /** checked before every chunk; true stops the run (the result is then null) */
+  /** checked before every chunk and after each; true stops the run (the result is then null) */
   shouldStop?: () => boolean;
 };
 
@@ -23,31 +22,45 @@ export type ScenarioOutcome = { tally: PowerTally; longestCalibrationDelay: numb
 /** Per scenario of a run (the assumed truth first, then each stress truth): its merged tally. */
 export type ScenariosOutcome = Array<{ tally: PowerTally; longestCalibrationDelay: number | null }> | null;
 
+/** One chunk of a run: replicates [from, to) of scenario `index`. */
+export type Chunk = { index: number; from: number; to: number };
+
 /** Default worker count: POWER_WORKERS if set, else os.availableParallelism() (at most 8). */
 export function defaultWorkerCount(): number {
-  const configured = powerEnv().POWER_WORKERS;
-  if (configured !== undefined) return configured;
-  return Math.max(1, Math.min(8, os.availableParallelism()));
+  return threadCount(powerEnv().POWER_WORKERS);
 }
 
 /**
- * The worker entry, resolved from the project root at run time (so no bundler has to trace
- * it): a plain .mjs file that registers tsx in its thread and imports the TypeScript worker.
+ * The chunks of a run, scenario by scenario, in replicate order. The same split serves the
+ * in-process pool and the queue, so both merge the same pieces.
  */
-export function workerEntry(): string {
-  // joined at run time so the bundler does not follow the worker into tsx and esbuild
-  const parts = [process.cwd(), 'lib', 'server', 'jobs', 'power', 'worker-bootstrap.mjs'];
-  return parts.join(path.sep);
+export function splitIntoChunks(scenarios: readonly PowerScenario[], chunkSize?: number): Chunk[] {
+  const chunks: Chunk[] = [];
+  scenarios.forEach((scenario, index) => {
+    const total = scenario.replications;
+    const size = chunkSize ?? Math.min(250, Math.max(10, Math.ceil(total / 40)));
+    for (let from = 0; from < total; from += size) chunks.push({ index, from, to: Math.min(total, from + size) });
+  });
+  return chunks;
 }
 
-/** The Worker constructor, taken at run time for the same reason. */
-const WorkerThread: typeof Worker = Reflect.get(threads, 'Worker');
+/**
+ * Merges the chunk results of a run (given in chunk order) into one outcome per scenario. Tallies
+ * are whole-number counts, so the merge is exact: the same for any number and speed of workers.
+ */
+export function mergeChunkResults(scenarioCount: number, chunks: readonly Chunk[], results: readonly ChunkResult[]): NonNullable<ScenariosOutcome> {
+  const tallies: PowerTally[][] = Array.from({ length: scenarioCount }, () => []);
+  const longest: Array<number | null> = Array.from({ length: scenarioCount }, () => null);
+  chunks.forEach((chunk, i) => {
+    tallies[chunk.index].push(results[i].tally);
+    longest[chunk.index] = results[i].longestCalibrationDelay; // a property of the scenario: every chunk reports the same
+  });
+  return tallies.map((parts, index) => ({ tally: mergeTallies(parts), longestCalibrationDelay: longest[index] }));
+}
 
 /**
- * Runs a scenario's replicates in chunks on worker threads (node:worker_threads, each loading
- * the engine source through tsx) and merges the chunk tallies. Chunks are handed out as workers free
- * up; tallies are whole-number counts, so the merged result is the same for any number of
- * workers. A thrown error in a worker rejects; shouldStop() ends the run early (null).
+ * Runs a scenario's replicates in chunks on a pool of worker threads and merges the chunk
+ * tallies (see runScenarios).
  */
 export async function runScenario(scenario: PowerScenario, options: RunScenarioOptions = {}): Promise<ScenarioOutcome> {
   const outcome = await runScenarios([scenario], options);
@@ -56,61 +69,45 @@ export async function runScenario(scenario: PowerScenario, options: RunScenarioO
 
 /**
  * Runs several scenarios of one run (the assumed truth and its stress truths) on one pool of
- * worker threads, chunk by chunk, so the threads start once; progress counts the replicates of
- * every scenario. Each scenario's tally is merged on its own.
+ * worker threads (piscina), chunk by chunk, so the threads start once; progress counts the
+ * replicates of every scenario. Chunks are handed out as threads free up and merged in chunk
+ * order. A thrown error in a thread rejects; shouldStop() ends the run early (null).
  */
 export async function runScenarios(scenarios: readonly PowerScenario[], options: RunScenarioOptions = {}): Promise<ScenariosOutcome> {
-  const chunks: Array<{ index: number; from: number; to: number }> = [];
-  scenarios.forEach((scenario, index) => {
-    const total = scenario.replications;
-    const chunkSize = options.chunkSize ?? Math.min(250, Math.max(10, Math.ceil(total / 40)));
-    for (let from = 0; from < total; from += chunkSize) chunks.push({ index, from, to: Math.min(total, from + chunkSize) });
-  });
-  const count = Math.max(1, Math.min(options.workers ?? defaultWorkerCount(), chunks.length));
-  const key = `${Date.now()}-${Math.random()}`;
-  const workers = Array.from({ length: count }, () => new WorkerThread(workerEntry()));
-  const tallies: PowerTally[][] = scenarios.map(() => []);
-  const longest: Array<number | null> = scenarios.map(() => null);
+  const chunks = splitIntoChunks(scenarios, options.chunkSize);
+  if (options.shouldStop?.()) return null;
+  const threads = Math.max(1, Math.min(options.workers ?? defaultWorkerCount(), chunks.length));
+  const pool = createThreadPool<ChunkTask, ChunkResult>('power', threads);
+  const key = randomUUID();
+  const abort = new AbortController();
+  setMaxListeners(chunks.length + 10, abort.signal); // every waiting chunk listens for the stop
+  const results: ChunkResult[] = new Array(chunks.length);
   let completed = 0;
-  let next = 0;
   let stopped = false;
-  let requestId = 0;
   try {
-    await Promise.all(workers.map(ready));
     await Promise.all(
-      workers.map(async (worker) => {
-        while (!stopped && next < chunks.length) {
-          if (options.shouldStop?.()) {
-            stopped = true;
-            break;
-          }
-          const { index, from, to } = chunks[next++];
-          const reply = await ask(worker, { id: ++requestId, key, index, scenario: scenarios[index], from, to });
-          tallies[index].push(reply.tally);
-          longest[index] = reply.longestCalibrationDelay;
-          completed += to - from;
-          await options.onProgress?.(completed);
+      chunks.map(async ({ index, from, to }, i) => {
+        let result: ChunkResult;
+        try {
+          result = await pool.run({ key, index, scenario: scenarios[index], from, to }, { signal: abort.signal });
+        } catch (error) {
+          if (stopped) return;
+          throw threadError('power', error);
         }
+        results[i] = result;
+        completed += to - from;
+        if (options.shouldStop?.()) {
+          stopped = true;
+          abort.abort(); // the chunks still waiting or running are dropped
+          return;
+        }
+        await options.onProgress?.(completed);
       }),
     );
   } finally {
-    await Promise.all(workers.map((w) => w.terminate()));
+    abort.abort();
+    await pool.destroy();
   }
   if (stopped || options.shouldStop?.()) return null;
-  return tallies.map((parts, index) => ({ tally: mergeTallies(parts), longestCalibrationDelay: longest[index] }));
-}
-
-/** Resolves when a worker has loaded the engine and listens; rejects if it fails to start. */
-async function ready(worker: Worker): Promise<void> {
-  await workerMessage<{ ready?: boolean }>(worker, (message) => message?.ready === true, 'power worker (while starting)');
-}
-
-type Reply = { id: number; tally: PowerTally; longestCalibrationDelay: number | null; error?: undefined } | { id: number; error: string };
-
-async function ask(worker: Worker, request: { id: number; key: string; index: number; scenario: PowerScenario; from: number; to: number }) {
-  const reply = workerMessage<Reply>(worker, (message) => message.id === request.id, 'power worker');
-  worker.postMessage(request);
-  const answer = await reply;
-  if (answer.error !== undefined) throw new Error(`power worker: ${answer.error}`);
-  return { tally: answer.tally, longestCalibrationDelay: answer.longestCalibrationDelay };
+  return mergeChunkResults(scenarios.length, chunks, results);
 }

@@ -1,5 +1,7 @@
-// Plain-JavaScript start of a power worker thread: registers tsx for this thread and loads the
-// TypeScript entry, so workers run the same engine source under next dev, next start and vitest.
+// Plain-JavaScript start of a power worker thread (the thread pool's entry): registers tsx for this
+// thread and re-exports the TypeScript task, so threads run the same engine source everywhere.
 import { tsImport } from 'tsx/esm/api';
 
-await tsImport('./worker.ts', import.meta.url);
+const entry = await tsImport('./worker.ts', import.meta.url);
+
+export default entry.runChunk;

@@ -1,29 +1,24 @@
-// Entry of a power worker thread, loaded through tsx (execArgv --import tsx) so the TypeScript
-// engine runs unbundled in any server mode. It keeps one prepared simulator per scenario of the
-// current run (assumed truth and stress truths), so the calibration caches grow across chunks.
-import { parentPort } from 'node:worker_threads';
+// The power task run in a worker thread (loaded through tsx by worker-bootstrap.mjs). A thread
+// keeps one prepared simulator per scenario of the current run (assumed truth and stress truths),
+// so the calibration caches grow across the chunks the thread is given.
 import { createPowerSimulator, type PowerSimulator } from '../../../design/power/simulatePower';
-import type { PowerScenario } from '../../../design/power/types';
+import type { PowerScenario, PowerTally } from '../../../design/power/types';
 
-type Request = { id: number; key: string; index: number; scenario: PowerScenario; from: number; to: number };
+/** One chunk of one scenario: replicates [from, to). `key` names the run (the simulator cache's key). */
+export type ChunkTask = { key: string; index: number; scenario: PowerScenario; from: number; to: number };
+export type ChunkResult = { tally: PowerTally; longestCalibrationDelay: number | null };
 
-// the run's simulators, one per scenario (the assumed truth and each stress truth)
+// the current run's simulators, one per scenario (the assumed truth and each stress truth)
 let current: { key: string; simulators: Map<number, PowerSimulator> } | null = null;
 
-parentPort?.on('message', (request: Request) => {
-  try {
-    if (!current || current.key !== request.key) current = { key: request.key, simulators: new Map() };
-    let simulator = current.simulators.get(request.index);
-    if (!simulator) {
-      simulator = createPowerSimulator(request.scenario);
-      current.simulators.set(request.index, simulator);
-    }
-    const tally = simulator.run(request.from, request.to);
-    parentPort?.postMessage({ id: request.id, tally, longestCalibrationDelay: simulator.longestCalibrationDelay });
-  } catch (error) {
-    parentPort?.postMessage({ id: request.id, error: error instanceof Error ? `${error.name}: ${error.message}` : String(error) });
+/** Runs replicates [from, to) of the task's scenario and returns their tally. */
+export function runChunk(task: ChunkTask): ChunkResult {
+  if (!current || current.key !== task.key) current = { key: task.key, simulators: new Map() };
+  let simulator = current.simulators.get(task.index);
+  if (!simulator) {
+    simulator = createPowerSimulator(task.scenario);
+    current.simulators.set(task.index, simulator);
   }
-});
-
-// tell the pool the listener is in place: messages sent while tsx was still loading this file could be missed
-parentPort?.postMessage({ ready: true });
+  const tally = simulator.run(task.from, task.to);
+  return { tally, longestCalibrationDelay: simulator.longestCalibrationDelay };
+}

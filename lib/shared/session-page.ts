@@ -1,0 +1,42 @@
+// What the session page's server tells the page to show next: the page draws whatever step it is
+// given and sends back what the participant did; the server alone decides the order of steps and
+// items (so a reload, a second tab or an adaptive choice of the next item needs no page logic).
+
+/** One option of a choice, as drawn on its side. */
+export type PageOption = { side: 'left' | 'right'; option: 'sooner' | 'later'; amount: string; when: string };
+
+/** A choice between a smaller-sooner and a larger-later reward. */
+export type PageChoice = {
+  itemId: string;
+  /** calibration (first block) or probe (second block); the page shows no break between them */
+  block: 'calibration' | 'probe';
+  question: string;
+  /** left option first */
+  options: [PageOption, PageOption];
+};
+
+/** The completion screen: code and, when the link has one, where to go next (with the participant id). */
+export type PageCompletion = { code: string; redirectUrl: string | null };
+
+export type PageStep =
+  | { kind: 'consent' }
+  | { kind: 'instructions' }
+  | { kind: 'choice'; choice: PageChoice; number: number; total: number }
+  | { kind: 'complete'; completion: PageCompletion }
+  | { kind: 'unavailable'; reason: 'paused' | 'closed' };
+
+/** What the page shows about its link (no team-internal names). */
+export type PageLink = { title: string; consentText: string; instructions: string; participantParam: string };
+
+/** Every reply of the session page's API: the link, whose session, and the step to show. */
+export type PageState = {
+  link: PageLink;
+  participantId: string;
+  step: PageStep;
+  /** set when the reply is not the step the page asked about (another tab moved on, a replay) */
+  notice?: string;
+  preview?: boolean;
+};
+
+/** The caution every session page carries. */
+export const PAGE_CAUTION = 'This is a research study about choices between rewards. It is not a test or an assessment of you, and there are no right or wrong answers.';
