@@ -1,6 +1,7 @@
 // Browser side of the planner benchmark: bundled by bench/planner.ts and run in Chromium. Times
 // one field change on the design page (recompute the summary, redraw both charts) and on the
-// prior page (recompute the picture, redraw the 2,000-point scatter and the densities).
+// prior page (recompute the picture, redraw the 2,000-point scatter and the densities), and the
+// design page's live power preview (S1 re-simulated on a Web Worker after a typed change).
 import { drawLineChart } from '@/components/charts/draw-line-chart';
 import { drawScatterChart } from '@/components/charts/draw-scatter-chart';
 import { gapChartSpec, valueChartSpec } from '@/components/planner/design-charts-spec';
@@ -10,6 +11,9 @@ import { priorView } from '@/lib/shared/planner/prior-view';
 import { computeDesignSummary } from '@/lib/shared/planner/summary';
 import { DEFAULT_CHOICE_SENSITIVITY } from '@/lib/shared/planner/types';
 import type { DesignSpec } from '@/lib/shared/validations/planner';
+import { defaultPreviewWorkers, PowerPreviewRunner } from '@/lib/client/power-preview-runner';
+import { PREVIEW_REPLICATIONS, type PreviewInput } from '@/lib/shared/power-preview';
+import { powerDesign } from '../tests/support/frozen-design';
 
 type Timing = { label: string; draws: number; runs: number; medianMs: number; p95Ms: number; maxMs: number };
 
@@ -66,3 +70,105 @@ function run(runs: number): Timing[] {
 }
 
 (window as unknown as { plannerBench: (runs: number) => Timing[] }).plannerBench = run;
+
+// ---- live power preview: a field change on the design page re-simulates S1's curve on a Web Worker ----
+
+type PreviewTiming = {
+  workers: number;
+  changes: number;
+  /** ms from the last keystroke of a change to the finished curve (debounce included) */
+  toCurveMs: number[];
+  /** ms the page's input handler took per keystroke */
+  handlerMaxMs: number;
+  /** Event Timing entries (input to next paint) of 16 ms or more, and their longest */
+  slowEvents: number;
+  slowestEventMs: number;
+  /** long tasks (over 50 ms) on the page's thread while previews ran */
+  longTasks: number;
+  /** longest gap between animation frames while previews ran, ms */
+  longestFrameGapMs: number;
+};
+
+function previewSetup(workerUrl: string): void {
+  const field = document.createElement('input');
+  field.id = 'ratio';
+  field.value = '0.82';
+  document.body.appendChild(field);
+  const design = powerDesign();
+  const inputFor = (ratio: number): PreviewInput => ({
+    content: { ...design, spec: { ...design.spec, ratio } },
+    test: { kind: 'mcnemar', alpha: 0.05, alternative: 'greater' },
+    sampleSizes: [20, 40, 60, 80, 100, 120, 140, 160, 180, 200],
+    replications: PREVIEW_REPLICATIONS,
+  });
+  const workers = defaultPreviewWorkers();
+  let lastInputAt = 0;
+  let finished: ((ms: number) => void) | null = null;
+  const runner = new PowerPreviewRunner({
+    createWorker: () => new Worker(workerUrl),
+    workers,
+    onChange: (state) => {
+      if (state.status === 'done' && finished) finished(performance.now() - lastInputAt);
+      if (state.status === 'error') throw new Error(state.error ?? 'preview failed');
+    },
+  });
+  const handlerMs: number[] = [];
+  field.addEventListener('input', () => {
+    const t0 = performance.now();
+    const ratio = Number(field.value);
+    runner.request(ratio > 0 && ratio < 1 ? inputFor(ratio) : null);
+    lastInputAt = t0;
+    handlerMs.push(performance.now() - t0);
+  });
+  const events: number[] = [];
+  const longTasks: number[] = [];
+  new PerformanceObserver((list) => list.getEntries().forEach((e) => events.push(e.duration))).observe({ type: 'event', durationThreshold: 16 } as PerformanceObserverInit);
+  new PerformanceObserver((list) => list.getEntries().forEach((e) => longTasks.push(e.duration))).observe({ type: 'longtask' });
+  let frameGap = 0;
+  let watching = false;
+  let lastFrame = 0;
+  const frame = (t: number) => {
+    if (watching && lastFrame > 0) frameGap = Math.max(frameGap, t - lastFrame);
+    lastFrame = t;
+    requestAnimationFrame(frame);
+  };
+  requestAnimationFrame(frame);
+  const toCurve: number[] = [];
+  const bench = {
+    /** the first preview (the page has just opened): starts the workers and warms them up */
+    warmUp: () => new Promise<number>((resolve) => {
+      finished = resolve;
+      lastInputAt = performance.now();
+      runner.request(inputFor(0.82));
+    }),
+    /** resolves when the change being typed has its curve */
+    nextCurve: () => {
+      watching = true;
+      return new Promise<number>((resolve) => {
+        finished = (ms) => {
+          toCurve.push(ms);
+          resolve(ms);
+        };
+      });
+    },
+    reset: () => {
+      events.length = 0;
+      longTasks.length = 0;
+      handlerMs.length = 0;
+      frameGap = 0;
+    },
+    result: (): PreviewTiming => ({
+      workers,
+      changes: toCurve.length,
+      toCurveMs: toCurve,
+      handlerMaxMs: Math.max(0, ...handlerMs),
+      slowEvents: events.length,
+      slowestEventMs: Math.max(0, ...events),
+      longTasks: longTasks.length,
+      longestFrameGapMs: frameGap,
+    }),
+  };
+  (window as unknown as { previewBench: typeof bench }).previewBench = bench;
+}
+
+(window as unknown as { previewSetup: typeof previewSetup }).previewSetup = previewSetup;

@@ -4,7 +4,7 @@
 // a simulated calibration block of 20 items per magnitude (1 to 365 days) re-estimated per
 // participant; γ = 10 per large amount, ε = 0.02; 4 probe pairs, 2 late and 2 soon anchors;
 // exact McNemar, one-sided, α = 0.05; N = 20, 40, …, 200; 2,000 replications; seed 1.
-// Target: the whole curve in 5 s or less on a 2-core machine.
+// Target: the whole curve in 1.5 s or less on a 2-core machine.
 // S1 + stress: the same with two stress truths added (delay sensitivity s ~ U(0.4, 0.9) per
 // participant, and choices half as sensitive, γ × 0.5): three curves, 6,000 replicates in all.
 // Target: the whole run in 5 s or less on a 2-core machine.
@@ -38,7 +38,7 @@ export async function runPowerBench(): Promise<void> {
   if (!outcome) throw new Error('S1 did not finish');
   const summary = summarisePower(S1, outcome.tally, outcome.longestCalibrationDelay);
   console.log(`\nPower simulation S1 (${S1.replications} replications, ${workers} worker threads, including their start-up)`);
-  console.log(`  whole curve: ${seconds.toFixed(2)} s (target ≤ 5 s)`);
+  console.log(`  whole curve: ${seconds.toFixed(2)} s (target ≤ 1.5 s)`);
   for (const p of summary.points) {
     console.log(`  N = ${String(p.n).padStart(3)}: power ${(100 * p.power).toFixed(1)} % (Wilson 95 % ${(100 * p.lower).toFixed(1)}–${(100 * p.upper).toFixed(1)} %), mean reversals ${p.meanReversals.toFixed(2)}`);
   }

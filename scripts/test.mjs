@@ -1,5 +1,5 @@
-// `npm test`: lint, typecheck, unit and integration tests against a private MariaDB (port 3308),
-// then browser tests against a production build on 127.0.0.1:$TEST_PORT (3100).
+// `npm test`: lint, typecheck, unit and integration tests against a private MariaDB (port 3308) and
+// a private Redis (TEST_REDIS_PORT, default 6380; for the scale-out tests, passed as TEST_REDIS_URL), then browser tests against a production build on 127.0.0.1:$TEST_PORT (3100).
 //
 //   node scripts/test.mjs                          everything, stopping at the first failure
 //   node scripts/test.mjs --only unit              vitest unit project (no database)
@@ -14,6 +14,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { parseArgs } from 'node:util';
 import { startDatabase, stopDatabase } from './mariadb.mjs';
+import { startRedis, stopRedis } from './redis.mjs';
 import { closingLines, countTests } from './test-report.mjs';
 import { ensureChromium, spawnNode, spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
 
@@ -93,6 +94,7 @@ async function main({ mode, extra }) {
   // rebuild each other's build (next.config.mjs reads NEXT_DIST_DIR).
   const base = { ...process.env, NEXT_DIST_DIR: TEST_DIST_DIR, NEXT_TELEMETRY_DISABLED: '1', PLAYWRIGHT_SKIP_BROWSER_DOWNLOAD: '1' };
   delete base.NODE_ENV; // each tool picks its own (vitest: test, next build/start: production)
+  delete base.REDIS_URL; // the tests choose per process whether the shared Redis is used (TEST_REDIS_URL)
   let env = base;
   let server = null;
   let services = null;
@@ -122,6 +124,12 @@ async function main({ mode, extra }) {
           BASE_URL: baseUrl,
           SWITCHBACK_TEST: '1',
         };
+      });
+      // The queue and shared-state tests start their worker and app processes against this one; the
+      // app itself gets no REDIS_URL here, so every other test runs the in-process default.
+      await step('test redis', async () => {
+        const { REDIS_URL } = await startRedis({ instance: 'test', log: say });
+        env = { ...env, TEST_REDIS_URL: REDIS_URL };
       });
       await step('local services', async () => {
         services = await startLocalServices(ROOT, env);
@@ -175,6 +183,7 @@ async function main({ mode, extra }) {
   } finally {
     if (server) await stopChild(server);
     if (services) await services.stop().catch((error) => say(`stopping local services failed: ${error.message}`));
+    if (needsDb) await stopRedis({ instance: 'test', log: say }).catch((error) => say(`stopping Redis failed: ${error.message}`));
     if (needsDb) await stopDatabase({ instance: 'test', log: say }).catch((error) => say(`stopping MariaDB failed: ${error.message}`));
   }
 }

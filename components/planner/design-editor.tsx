@@ -15,6 +15,7 @@ import { DesignCharts } from './design-charts';
 import { DesignFields } from './design-fields';
 import { DesignNumbers } from './design-numbers';
 import { EstimateCaution } from './estimate-caution';
+import { PowerPreview } from './power-preview';
 import { useLiveSummary } from './use-live-summary';
 import { useUnsavedWarning } from './use-unsaved-warning';
 
@@ -57,7 +58,8 @@ export function DesignEditor({
   useUnsavedWarning(dirty);
   useEffect(() => onDirtyChange?.(dirty), [dirty, onDirtyChange]);
   const parsed = designSpecSchema.safeParse(toSpec(values));
-  const prior = priors.find((p) => p.id === Number(values.priorSetId))?.values ?? null;
+  const priorSet = priors.find((p) => p.id === Number(values.priorSetId)) ?? null;
+  const prior = priorSet?.values ?? null;
   const live = useLiveSummary(parsed.success ? parsed.data : null, prior);
 
   const onSubmit = handleSubmit(async (spec) => {
@@ -115,6 +117,7 @@ export function DesignEditor({
             </div>
           ) : null}
         </Card>
+        <PowerPreview studyId={studyId} design={design} spec={parsed.success ? parsed.data : null} prior={priorSet} dirty={formState.isDirty} canRun={canEdit} />
         <EstimateCaution />
       </div>
     </div>

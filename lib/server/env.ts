@@ -139,3 +139,25 @@ export function configuredOrigin(): string | null {
   const url = parse(publicOriginSchema).NEXTAUTH_URL;
   return url ? new URL(url).origin : null;
 }
+
+// Scale-out (issue: several machines): REDIS_URL switches power runs onto the BullMQ queue that
+// `npm run worker` processes take chunks from, and moves the session API's per-key rate limit and key
+// revocation into Redis so every app process shares them. Unset: everything stays in-process.
+const queueSchema = z.object({
+  REDIS_URL: z.preprocess(
+    (v) => (typeof v === 'string' && v.trim() !== '' ? v.trim() : undefined),
+    z.string().regex(/^rediss?:\/\/\S+$/, 'REDIS_URL must look like redis://host:port (or rediss:// for TLS)').optional(),
+  ),
+  // how long a worker holds a chunk without renewing its lock before another worker takes it over
+  QUEUE_LOCK_MS: z.coerce.number().int().min(500).max(600_000).default(30_000),
+});
+
+/**
+ * The shared Redis (REDIS_URL, unset: none; everything stays in this process) and the queue's lock
+ * time (QUEUE_LOCK_MS, default 30 s: a worker that died mid-chunk has its chunk retried elsewhere
+ * after about this long). Read on every call, like the power-run caps.
+ */
+export function queueEnv(): { redisUrl: string | null; lockMs: number } {
+  const parsed = parse(queueSchema);
+  return { redisUrl: parsed.REDIS_URL ?? null, lockMs: parsed.QUEUE_LOCK_MS };
+}

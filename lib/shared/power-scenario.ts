@@ -28,8 +28,11 @@ export function resolveSoonDelay(content: FrozenDesign): number {
   return best;
 }
 
-/** The engine's scenario for a run spec and the frozen design it cites. */
-export function buildScenario(spec: PowerRunSpec, content: FrozenDesign): PowerScenario {
+/** What of a run spec the engine's scenario reads (a saved run's spec, or the design page's preview). */
+export type ScenarioSettings = Pick<PowerRunSpec, 'truth' | 'calibration' | 'test' | 'sampleSizes' | 'replications' | 'seed'>;
+
+/** The engine's scenario for a run spec and the frozen design it cites (or the draft a preview simulates). */
+export function buildScenario(spec: ScenarioSettings, content: FrozenDesign): PowerScenario {
   const { name: _name, ...prior } = content.prior;
   // the item bank's design point (population designs: the optimised shared pairs)
   const point = locateFor(content)({ kSmall: prior.medianSmall, kLarge: prior.medianLarge }) ?? undefined;

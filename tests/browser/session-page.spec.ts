@@ -105,6 +105,32 @@ test('a participant runs the session page from the link to the completion code a
     await expect(participant.getByTestId('choice-progress')).toHaveText(/^Question 5 of/);
     expect(await answersSoFar()).toBe(4);
 
+    // a second tab shares the session: it opens at the same item; after it answers, the first tab's
+    // click is refused and the first tab shows the item the session is really on
+    const second = await context.newPage();
+    await second.goto(link);
+    const shared = await currentItem(second);
+    expect(shared).toBe(await currentItem(participant));
+    await second.locator('button[data-option="later"]:not([disabled])').click();
+    await expect.poll(() => currentItem(second)).not.toBe(shared);
+    const moved = await currentItem(second);
+    await participant.locator('button[data-option="sooner"]:not([disabled])').click();
+    await expect(participant.getByText('This page had fallen behind')).toBeVisible();
+    expect(await currentItem(participant)).toBe(moved);
+    await second.close();
+    expect(await answersSoFar()).toBe(5);
+
+    // a lost connection: the answer waits, is sent again when the connection is back, and is recorded once
+    const offlineItem = await currentItem(participant);
+    await context.setOffline(true);
+    await participant.locator('button[data-option="later"]:not([disabled])').click();
+    await expect(participant.getByText('The connection was lost')).toBeVisible();
+    expect(await answersSoFar()).toBe(5);
+    await context.setOffline(false);
+    await expect.poll(() => currentItem(participant), { timeout: 20_000 }).not.toBe(offlineItem);
+    await expect(participant.getByText('The connection was lost')).toHaveCount(0);
+    expect(await answersSoFar()).toBe(6);
+
     // the phone: no sideways scrolling at 375 px
     await participant.setViewportSize({ width: 375, height: 740 });
     await currentItem(participant);

@@ -3,7 +3,8 @@
 // redirect), what lands in which table, every error status of the new routes, idempotent answers
 // (50 parallel submissions, one record), the session cookie, and a preview that stores nothing.
 import { beforeAll, describe, expect, it } from 'vitest';
-import { Participant, ParticipantSession, SessionLink, Stage2Answer } from '@/db/models';
+import { AuditEvent, Participant, ParticipantSession, SessionLink, Stage2Answer } from '@/db/models';
+import { loadStudyData } from '@/lib/server/services/observed-choices';
 import { GET as pageGet, POST as pagePost } from '@/app/api/session-page/[slug]/route';
 import { GET as linksGet, POST as linksPost } from '@/app/api/studies/[id]/session-links/route';
 import { PATCH as linkPatch } from '@/app/api/studies/[id]/session-links/[linkId]/route';
@@ -167,6 +168,32 @@ describe('the session page', () => {
     const mine = await listed();
     expect(mine.attentionFailures).toEqual([{ participantId: 'PN-FAIL', checks: ['calibration'] }]);
     expect(mine.counts).toMatchObject({ started: 1, served: 1 });
+    // the stage-2 check answered with its dominated (later) option too, then the block finished
+    while (state.step.kind === 'choice') state = (await api.post(answer(state, 'later'), other.cookie)).body;
+    const finished = await listed();
+    expect(finished.attentionFailures).toEqual([{ participantId: 'PN-FAIL', checks: ['calibration', 'stage 2'] }]);
+    expect(finished.counts).toMatchObject({ started: 1, served: 0, completed: 1 });
+    // the checks are no choices of the analysis: the participant's data holds pairs only
+    const data = await loadStudyData(s.study.id, s.version);
+    const failed = data.find((p) => p.participantId === 'PN-FAIL')!;
+    expect(failed.attentionCheck).toBe('failed');
+    expect(failed.pairs.flatMap((q) => [q.far.itemId, q.near.itemId]).some((id) => id.startsWith('check-'))).toBe(false);
+    expect(failed.calibration.some((c) => c.itemId.startsWith('check-'))).toBe(false);
+  });
+
+  it('records creating, pausing and closing a link in the audit trail', async () => {
+    const link = await createLink(s, s.team.operator, { name: 'Audited wave' });
+    for (const status of ['paused', 'closed']) {
+      const response = await linkPatch(await requestAs(s.team.owner, 'PATCH', `/api/studies/${s.study.id}/session-links/${link.id}`, { json: { status } }), ctx({ id: String(s.study.id), linkId: String(link.id) }));
+      expect(response.status).toBe(200);
+    }
+    const events = await AuditEvent.findAll({ where: { studyId: s.study.id }, order: [['id', 'ASC']] });
+    const mine = events.filter((e) => (e.details as { linkId?: number }).linkId === link.id).map((e) => [e.action, e.actorId, (e.details as { to?: string }).to ?? null]);
+    expect(mine).toEqual([
+      ['session-link.create', s.team.operator.id, null],
+      ['session-link.status', s.team.owner.id, 'paused'],
+      ['session-link.status', s.team.owner.id, 'closed'],
+    ]);
   });
 
   describe('error statuses', () => {

@@ -1,10 +1,10 @@
-import { probabilityLarger } from '../choiceProbability';
 import { designChoiceModel } from '../designChoiceModel';
 import { discountAt } from '../discountFactor';
 import { calibrationBlock } from '../item-bank/calibrationBlock';
 import { amountUnit } from '../item-bank/rounding';
 import type { SeededRandom } from '../random';
 import { FastRateEstimator } from './fastRateEstimate';
+import { LargerChoice } from './largerChoice';
 import type { PowerScenario } from './types';
 
 export type CalibrationEstimate = {
@@ -32,12 +32,14 @@ export class CalibrationModel {
   private readonly blocks: [Block, Block];
   private readonly caches: [Map<number, CalibrationEstimate>, Map<number, CalibrationEstimate>] = [new Map(), new Map()];
   private readonly bits = new Uint8Array(200);
+  private readonly choice: LargerChoice;
 
   constructor(
     private readonly scenario: PowerScenario,
     coverDelay: number,
   ) {
     const { design } = scenario;
+    this.choice = new LargerChoice(scenario.truth.gamma, scenario.truth.lapse);
     const choice = designChoiceModel(design.spec);
     const unit = amountUnit({ currency: design.spec.currency, largeAmount: design.spec.largeAmount, smallAmount: design.spec.ratio * design.spec.largeAmount });
     const items = calibrationBlock(design, { amountUnit: unit, delayUnit: 'days', coverDelay }).items.filter((item) => item.role === 'calibration');
@@ -66,7 +68,7 @@ export class CalibrationModel {
     let key = 1; // a leading 1 keeps the bits readable
     for (let i = 0; i < block.count; i++) {
       const gap = bias * discountAt(truth.model.id, trueRate, s, beta, block.laterDelay[i]) - block.soonerShare[i];
-      const later = random.uniform() < probabilityLarger(truth.gamma, truth.lapse, gap) ? 1 : 0;
+      const later = this.choice.larger(random.uniform(), gap) ? 1 : 0;
       this.bits[i] = later;
       key = key * 2 + later;
     }

@@ -31,6 +31,8 @@ export class FastRateEstimator {
   private readonly share: Float64Array;
   private readonly delay: Float64Array;
   private readonly table: Float64Array; // [grid][item][later? 1 : 0]
+  private readonly scoreTable: Float64Array; // score terms, laid out as table
+  private readonly gridValues = new Float64Array(GRID); // log-likelihood of the current answers per grid point
   private readonly order: Int32Array; // items by ascending tie rate
   private readonly later: Uint8Array;
   /** score as a function value for the root finder, made once (not per fit) */
@@ -58,6 +60,15 @@ export class FastRateEstimator {
         this.table[(g * this.n + i) * 2 + 1] = logChoiceProbability(gamma, lapse, gap, true);
       }
     }
+    // the score's terms at the grid points too: every fit starts from two of them
+    this.scoreTable = new Float64Array(GRID * this.n * 2);
+    for (let g = 0; g < GRID; g++) {
+      const k = Math.exp(LOG_K_MIN + g * STEP);
+      for (let i = 0; i < this.n; i++) {
+        this.scoreTable[(g * this.n + i) * 2] = this.scoreTerm(k, i, 0);
+        this.scoreTable[(g * this.n + i) * 2 + 1] = this.scoreTerm(k, i, 1);
+      }
+    }
     const ties = items.map((item) => indifferenceRate(model, item));
     this.order = Int32Array.from(ties.map((_, i) => i).sort((a, b) => ties[a] - ties[b]));
   }
@@ -67,31 +78,39 @@ export class FastRateEstimator {
     return discountAt(m.id, k, m.sensitivity ?? 1, m.presentBias ?? 1, this.delay[i]) - this.share[i];
   }
 
-  private logLikelihood(lnK: number): number {
+  private score(lnK: number): number {
     const k = Math.exp(lnK);
     let sum = 0;
-    for (let i = 0; i < this.n; i++) sum += logChoiceProbability(this.gamma, this.lapse, this.gap(k, i), this.later[i] === 1);
+    for (let i = 0; i < this.n; i++) sum += this.scoreTerm(k, i, this.later[i]);
     return sum;
   }
 
-  private score(lnK: number): number {
-    const k = Math.exp(lnK);
+  /** Item i's term of the score at rate k for an answer LL (later 1) or SS (0). */
+  private scoreTerm(k: number, i: number, later: number): number {
     const g = this.gamma;
     const e = this.lapse;
     const m = this.model;
     const s = m.sensitivity ?? 1;
-    const beta = m.presentBias ?? 1;
-    let sum = 0;
-    for (let i = 0; i < this.n; i++) {
-      // gap(k, i) and slope(k, i) share the discount factor: computed once here, the same number
-      const D = this.delay[i];
-      const f = discountAt(m.id, k, s, beta, D);
-      const z = g * (f - this.share[i]);
-      const p = z >= 0 ? 1 / (1 + Math.exp(-z)) : Math.exp(z) / (1 + Math.exp(z));
-      const density = (1 - e) * g * p * (1 - p);
-      const w = this.later[i] === 1 ? density / (0.5 * e + (1 - e) * p) : -density / (0.5 * e + (1 - e) * (1 - p));
-      sum += w * slopeAt(m.id, k, s, D, f);
+    const D = this.delay[i];
+    // the gap and its slope share the discount factor: computed once here
+    const f = discountAt(m.id, k, s, m.presentBias ?? 1, D);
+    const z = g * (f - this.share[i]);
+    let p: number;
+    if (z >= 0) p = 1 / (1 + Math.exp(-z));
+    else {
+      const ez = Math.exp(z);
+      p = ez / (1 + ez);
     }
+    const density = (1 - e) * g * p * (1 - p);
+    const w = later === 1 ? density / (0.5 * e + (1 - e) * p) : -density / (0.5 * e + (1 - e) * (1 - p));
+    return w * slopeAt(m.id, k, s, D, f);
+  }
+
+  /** The score at grid point g from the tabulated terms: the same sum, in the same order, as score(). */
+  private gridScore(g: number): number {
+    const base = g * this.n * 2;
+    let sum = 0;
+    for (let i = 0; i < this.n; i++) sum += this.scoreTable[base + i * 2 + this.later[i]];
     return sum;
   }
 
@@ -123,22 +142,27 @@ export class FastRateEstimator {
       let v = 0;
       const base = g * this.n * 2;
       for (let i = 0; i < this.n; i++) v += this.table[base + i * 2 + this.later[i]];
+      this.gridValues[g] = v;
       if (v > bestValue) {
         bestValue = v;
         best = g;
       }
     }
-    const lower = LOG_K_MIN + Math.max(0, best - 1) * STEP;
-    const upper = LOG_K_MIN + Math.min(GRID - 1, best + 1) * STEP;
-    const sLow = this.score(lower);
-    const sHigh = this.score(upper);
+    // the ends of the best cells are grid points, where score and log-likelihood are tabulated
+    // (the same k = exp(LOG_K_MIN + g·STEP), the same terms summed in the same order)
+    const gLow = Math.max(0, best - 1);
+    const gHigh = Math.min(GRID - 1, best + 1);
+    const lower = LOG_K_MIN + gLow * STEP;
+    const upper = LOG_K_MIN + gHigh * STEP;
+    const sLow = this.gridScore(gLow);
+    const sHigh = this.gridScore(gHigh);
     if (sLow > 0 && sHigh < 0) {
       // the score changes sign inside the cells: its root is the interior maximum
       const root = zeroin(this.scoreAt, lower, upper, sLow, sHigh, 1e-10, 100);
       if (!Number.isNaN(root)) return root;
     }
     // no sign change: the likelihood is largest at an end of the cells (as estimateRates compares them)
-    return this.logLikelihood(upper) > this.logLikelihood(lower) ? upper : lower;
+    return this.gridValues[gHigh] > this.gridValues[gLow] ? upper : lower;
   }
 
   private consistency(): number {

@@ -1,4 +1,3 @@
-import { probabilityLarger } from '../choiceProbability';
 import { discountAt } from '../discountFactor';
 import { DesignInputError } from '../DesignInputError';
 import { createRandom, type SeededRandom } from '../random';
@@ -6,6 +5,7 @@ import { priorPoints } from '../ratePrior';
 import { mcnemarExactTest, signTest } from './binomialTest';
 import { CalibrationModel } from './calibrationModel';
 import { checkScenario } from './checkScenario';
+import { LargerChoice } from './largerChoice';
 import { probeSet, type ProbeSet } from './probeSet';
 import { replicateSeed } from './replicateSeed';
 import { SignFlipDistribution } from './signFlipTest';
@@ -53,6 +53,7 @@ export function createPowerSimulator(scenario: PowerScenario): PowerSimulator {
   const pValues = new Map<number, number>();
   const nMax = scenario.sampleSizes[scenario.sampleSizes.length - 1];
   const signFlip = scenario.test.kind === 'sign-flip' ? new SignFlipDistribution(nMax * Math.max(design.spec.probePairs, fallback.probe.length)) : null;
+  const choice = new LargerChoice(scenario.truth.gamma, scenario.truth.lapse);
   return {
     longestCalibrationDelay: calibration ? calibration.longestDelay : null,
     run(from, to) {
@@ -61,7 +62,7 @@ export function createPowerSimulator(scenario: PowerScenario): PowerSimulator {
       }
       const tally = emptyTally(scenario.sampleSizes);
       for (let r = from; r < to; r++) {
-        simulateReplicate(scenario, createRandom({ seed: replicateSeed(scenario.seed, r) }), calibration, fallback, pValues, signFlip, tally);
+        simulateReplicate(scenario, createRandom({ seed: replicateSeed(scenario.seed, r) }), calibration, fallback, pValues, signFlip, choice, tally);
       }
       tally.replicates = to - from;
       return tally;
@@ -78,6 +79,7 @@ function simulateReplicate(
   fallback: ProbeSet,
   pValues: Map<number, number>,
   signFlip: SignFlipDistribution | null,
+  choice: LargerChoice,
   tally: PowerTally,
 ): void {
   signFlip?.reset();
@@ -136,8 +138,8 @@ function simulateReplicate(
         const D = delays[j];
         const far = bias * discountAt(id, KTrue, s, beta, D) - farSoon;
         const near = x - bias * discountAt(id, KTrue, s, beta, D - d);
-        const farSooner = random.uniform() >= probabilityLarger(truth.gamma, truth.lapse, far);
-        const nearSooner = random.uniform() < probabilityLarger(truth.gamma, truth.lapse, near);
+        const farSooner = !choice.larger(random.uniform(), far);
+        const nearSooner = choice.larger(random.uniform(), near);
         const pattern = (farSooner ? 2 : 0) + (nearSooner ? 1 : 0); // LL, LS, SL, SS
         patterns[role * 4 + pattern]++;
         if (role === 0) {

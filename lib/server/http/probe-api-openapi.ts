@@ -23,8 +23,8 @@ export function probeApiDocument(serverUrl: string) {
       version: '1.0.0',
       description:
         'Second-stage (probe block) items for a two-stage delay-discounting study, computed per participant from the calibration block. ' +
-        'Estimates describe hypothetical choices; they are not a clinical assessment. Rate limit: per key and per server process ' +
-        '(default a burst of 200, then 100 requests a second; browser keys: 120, then 30 a second); 429 carries Retry-After. ' +
+        'Estimates describe hypothetical choices; they are not a clinical assessment. Rate limit: per key, shared by every server process of an installation that sets REDIS_URL and per ' +
+        'server process otherwise (default a burst of 200, then 100 requests a second; browser keys: 120, then 30 a second); 429 carries Retry-After. ' +
         SESSION_TAG_TEXT,
     },
     servers: [{ url: serverUrl }],

@@ -35,7 +35,7 @@ export const CAUTION = 'Estimates describe hypothetical choices of this particip
  * Browser keys have a limiter of their own (BROWSER_API_BURST, default 120; BROWSER_API_PER_SECOND,
  * default 30): a key shipped in a public page should not be able to use a server key's budget.
  */
-export const browserRateLimiter = new KeyRateLimiter(probeApiEnv().BROWSER_API_BURST, probeApiEnv().BROWSER_API_PER_SECOND);
+export const browserRateLimiter = new KeyRateLimiter(probeApiEnv().BROWSER_API_BURST, probeApiEnv().BROWSER_API_PER_SECOND, undefined, 'browser');
 
 /** The study id segment as a number, -1 when it is not one (the key check then answers 404). */
 export function studyIdOf(raw: string): number {
@@ -50,7 +50,8 @@ export function keyPresentation(key: CachedKey, version: FrozenVersionRef): Pres
 /**
  * Runs a session endpoint: the key of the study (401/404), its origin rule (a browser key only
  * from its listed origins; any key refuses a browser origin it does not list: 403), its rate
- * limit (429 with Retry-After), then `run`. Every outcome, errors included, leaves with the CORS
+ * limit (429 with Retry-After; shared by every app process when REDIS_URL is set), then `run`.
+ * Every outcome, errors included, leaves with the CORS
  * headers that fit the request's origin.
  */
 export async function sessionEndpoint(call: SessionCall, run: (key: CachedKey) => Promise<PlainReply>): Promise<PlainReply> {
@@ -62,7 +63,7 @@ export async function sessionEndpoint(call: SessionCall, run: (key: CachedKey) =
     const origin = call.origin ? call.origin.toLowerCase() : null;
     if (key.kind === 'browser' && origin === null) throw new ForbiddenError('A browser key is used from a web page: this request carries no Origin.');
     if (origin !== null && !key.allowedOrigins.includes(origin)) throw new ForbiddenError(`This key may not be used from ${call.origin}; an operator can add the origin to the key's list.`);
-    const wait = (key.kind === 'browser' ? browserRateLimiter : probeRateLimiter).take(key.id);
+    const wait = await (key.kind === 'browser' ? browserRateLimiter : probeRateLimiter).takeShared(key.id);
     reply = wait > 0 ? jsonReply(429, { error: `Too many requests for this key; retry in ${wait} s.` }, { 'Retry-After': String(wait) }) : await run(key);
   } catch (error) {
     reply = errorReply(error);

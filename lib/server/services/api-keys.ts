@@ -7,6 +7,7 @@ import { recordAudit } from './audit';
 import { bankOrInvalid, loadVersion } from './item-bank';
 import { itemBankId, presentationOf } from './item-bank-id';
 import { decodeJson } from '@/db/json';
+import { sharedRedis } from '@/lib/server/redis';
 
 /** SHA-256 (hex) of a key's secret: the only form in which a key is stored. */
 export function hashSecret(secret: string): string {
@@ -72,8 +73,9 @@ export async function listApiKeys(studyId: number) {
 
 /**
  * Revokes a key. It is refused at once everywhere: this process drops it from its cache once
- * the revocation is committed, and every process's probe-items insert reads the key's revoked
- * state in the same statement (serveProbeItems), so a cached key cannot serve another participant.
+ * the revocation is committed, with REDIS_URL every app process reads the shared set of revoked
+ * keys on each request, and every process's probe-items insert reads the key's revoked state in
+ * the same statement (serveProbeItems), so a cached key cannot serve another participant.
  */
 export async function revokeApiKey(actorId: number, studyId: number, rawKeyId: string) {
   const id = Number(rawKeyId);
@@ -90,6 +92,7 @@ export async function revokeApiKey(actorId: number, studyId: number, rawKeyId: s
   });
   // After the commit: a lookup that read the row before it would otherwise cache it as active.
   forgetApiKey(key.secretHash);
+  await announceRevoked(key.id);
   forgetStudyOrigins(studyId);
   return apiKeyJson(key, null, null);
 }
@@ -130,6 +133,19 @@ const LAST_USED_EVERY_MS = 60_000;
 function forgetApiKey(secretHash: string): void {
   cache.generation++;
   keyCache.delete(secretHash);
+}
+
+// With REDIS_URL, app processes share the set of revoked key ids: a revocation through one process
+// is seen by the next request to any other, whose cache may still hold the key as active.
+const REVOKED_KEYS = 'switchback:api-keys:revoked';
+
+async function announceRevoked(keyId: number): Promise<void> {
+  await sharedRedis('request')?.sadd(REVOKED_KEYS, String(keyId));
+}
+
+async function revokedElsewhere(keyId: number): Promise<boolean> {
+  const redis = sharedRedis('request');
+  return redis ? (await redis.sismember(REVOKED_KEYS, String(keyId))) === 1 : false;
 }
 
 /** Marks a cached key revoked after the database refused it (revoked through another process). */
@@ -176,6 +192,7 @@ export async function requireApiKey(authorization: string | null, studyId: numbe
       keyCache.set(hash, { key, expires: now + KEY_CACHE_MS });
     }
   }
+  if (key && !key.revoked && (await revokedElsewhere(key.id))) key.revoked = true;
   if (!key) throw new UnauthorizedError('This API key is unknown or has been revoked.');
   if (key.revoked) throw new RevokedKeyError(key);
   if (key.studyId !== studyId) throw new NotFoundError('Study not found.');

@@ -5,8 +5,9 @@ import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerRunSpec } from '@/lib/shared/validations/power';
 import { notifyPowerRunFinished } from './notices';
 import { buildScenarios, runResult } from '@/lib/shared/power-scenario';
-import { powerRunLimits } from '@/lib/server/env';
+import { powerRunLimits, queueEnv } from '@/lib/server/env';
 import { runScenarios } from '@/lib/server/jobs/power/run-scenario';
+import { runScenariosOnQueue } from '@/lib/server/jobs/power/queue';
 import { decodeJson } from '@/db/json';
 
 type RunState = { cancel: boolean; studyId: number };
@@ -139,8 +140,12 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
     const scenarios = buildScenarios(spec, content);
     const total = scenarios.reduce((sum, s) => sum + s.replications, 0);
     let lastWrite = 0;
-    const outcomes = await runScenarios(scenarios, {
-      workers: options.workers,
+    // With REDIS_URL the chunks go to the shared queue (`npm run worker` processes take them) and
+    // this process only reads progress; without it they run on this process's threads.
+    const onQueue = queueEnv().redisUrl !== null;
+    const engine = onQueue ? runScenariosOnQueue : runScenarios;
+    const outcomes = await engine(scenarios, {
+      ...(onQueue ? { label: `run${runId}` } : { workers: options.workers }),
       shouldStop: () => state.cancel,
       onProgress: async (completed) => {
         const t = Date.now();

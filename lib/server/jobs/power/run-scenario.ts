@@ -71,7 +71,8 @@ export async function runScenario(scenario: PowerScenario, options: RunScenarioO
  * Runs several scenarios of one run (the assumed truth and its stress truths) on one pool of
  * worker threads (piscina), chunk by chunk, so the threads start once; progress counts the
  * replicates of every scenario. Chunks are handed out as threads free up and merged in chunk
- * order. A thrown error in a thread rejects; shouldStop() ends the run early (null).
+ * order. A thrown error in a thread rejects; shouldStop() (looked at after every chunk and every
+ * 100 ms) ends the run early, stopping the chunks in hand (null).
  */
 export async function runScenarios(scenarios: readonly PowerScenario[], options: RunScenarioOptions = {}): Promise<ScenariosOutcome> {
   const chunks = splitIntoChunks(scenarios, options.chunkSize);
@@ -84,6 +85,14 @@ export async function runScenarios(scenarios: readonly PowerScenario[], options:
   const results: ChunkResult[] = new Array(chunks.length);
   let completed = 0;
   let stopped = false;
+  // a stop is looked for between chunks and on a timer, so a cancel ends even a long chunk at once
+  const stop = () => {
+    stopped = true;
+    abort.abort(); // the chunks still waiting or running are dropped
+  };
+  const watch = setInterval(() => {
+    if (!stopped && options.shouldStop?.()) stop();
+  }, 100);
   try {
     await Promise.all(
       chunks.map(async ({ index, from, to }, i) => {
@@ -96,15 +105,13 @@ export async function runScenarios(scenarios: readonly PowerScenario[], options:
         }
         results[i] = result;
         completed += to - from;
-        if (options.shouldStop?.()) {
-          stopped = true;
-          abort.abort(); // the chunks still waiting or running are dropped
-          return;
-        }
+        if (stopped) return;
+        if (options.shouldStop?.()) return stop();
         await options.onProgress?.(completed);
       }),
     );
   } finally {
+    clearInterval(watch);
     abort.abort();
     await pool.destroy();
   }

@@ -1,0 +1,96 @@
+// Scale-out benchmark: S1 (bench/power.ts) with 20,000 replications run on the shared queue by one
+// worker process and by two (one thread each, each process starting its own thread), against a
+// private Redis (scripts/redis.mjs, instance `bench`, BENCH_REDIS_PORT 6382). The ratio of the two
+// times is the speed-up from the second worker: target ≥ 1.8 on a 2-core machine that nothing else
+// loads. Both runs must give the same tallies. Then the queue's overhead per chunk: 200 one-replicate
+// chunks through the queue against the same chunks on an in-process pool of one thread.
+// Skipped, with a note, when redis-server is not installed.
+import { spawn, type ChildProcess } from 'node:child_process';
+import os from 'node:os';
+import type { PowerScenario } from '@/lib/design/power';
+import { runScenariosOnQueue } from '@/lib/server/jobs/power/queue';
+import { runScenarios } from '@/lib/server/jobs/power/run-scenario';
+import { closeSharedRedis } from '@/lib/server/redis';
+import { S1 } from './power';
+// plain Node helpers of the start scripts (no types of their own)
+// @ts-expect-error -- scripts/redis.mjs is plain JavaScript
+import { redisServerBinary, startRedis, stopRedis } from '../scripts/redis.mjs';
+
+const LARGE: PowerScenario = { ...S1, replications: 20_000 };
+
+async function startWorkers(count: number, url: string): Promise<ChildProcess[]> {
+  const workers = Array.from({ length: count }, () =>
+    spawn(process.execPath, ['--import', 'tsx', 'lib/server/jobs/worker-process.ts', '--threads', '1'], { env: { ...process.env, REDIS_URL: url }, stdio: ['ignore', 'pipe', 'inherit'] }),
+  );
+  await Promise.all(
+    workers.map(
+      (w) =>
+        new Promise<void>((resolve, reject) => {
+          let text = '';
+          w.stdout!.on('data', (d) => {
+            text += d;
+            if (text.includes('taking power chunks')) resolve();
+          });
+          w.once('exit', (code) => reject(new Error(`a bench worker exited (${code}) before it was ready`)));
+        }),
+    ),
+  );
+  return workers;
+}
+
+async function stopWorkers(workers: ChildProcess[]): Promise<void> {
+  await Promise.all(workers.map((w) => new Promise<void>((resolve) => (w.exitCode !== null ? resolve() : (w.once('exit', () => resolve()), w.kill('SIGTERM'))))));
+}
+
+async function timedOnQueue(workerCount: number, url: string, scenario: PowerScenario, chunkSize?: number) {
+  const workers = await startWorkers(workerCount, url);
+  try {
+    const started = performance.now();
+    const outcome = await runScenariosOnQueue([scenario], { chunkSize, pollMs: 20 });
+    return { seconds: (performance.now() - started) / 1000, outcome };
+  } finally {
+    await stopWorkers(workers);
+  }
+}
+
+export async function runScaleBench(): Promise<void> {
+  console.log('\nScale-out: S1 with 20,000 replications on the shared queue (BullMQ over Redis)');
+  if (!redisServerBinary()) {
+    console.log('  skipped: redis-server is not installed (Debian package redis-server; `npm run start:cluster` installs it).');
+    return;
+  }
+  const { REDIS_URL } = await startRedis({ instance: 'bench', log: () => {} });
+  const before = process.env.REDIS_URL;
+  process.env.REDIS_URL = REDIS_URL;
+  try {
+    const load = os.loadavg()[0];
+    const one = await timedOnQueue(1, REDIS_URL, LARGE);
+    const two = await timedOnQueue(2, REDIS_URL, LARGE);
+    const same = JSON.stringify(one.outcome) === JSON.stringify(two.outcome);
+    console.log(`  1 worker process:  ${one.seconds.toFixed(1)} s`);
+    console.log(`  2 worker processes: ${two.seconds.toFixed(1)} s`);
+    console.log(`  ratio ${(one.seconds / two.seconds).toFixed(2)} (target ≥ 1.8 on an otherwise idle 2-core machine); identical tallies: ${same ? 'yes' : 'NO'}`);
+    console.log(`  load average at the start: ${load.toFixed(2)} on ${os.availableParallelism()} cores, ${os.loadavg()[0].toFixed(2)} at the end`);
+    if (!same) throw new Error('the one- and two-worker runs gave different tallies');
+
+    // overhead: one-replicate chunks, so their own work is small next to their handling; 200 chunks
+    // minus 1 chunk on each path takes the thread and worker start-up out of the difference
+    const tiny = (replications: number): PowerScenario => ({ ...S1, replications, sampleSizes: [20] });
+    const inProcess = async (replications: number) => {
+      const started = performance.now();
+      await runScenarios([tiny(replications)], { workers: 1, chunkSize: 1 });
+      return (performance.now() - started) / 1000;
+    };
+    const threadPerChunk = ((await inProcess(200)) - (await inProcess(1))) / 199;
+    const queuePerChunk = ((await timedOnQueue(1, REDIS_URL, tiny(200), 1)).seconds - (await timedOnQueue(1, REDIS_URL, tiny(1), 1)).seconds) / 199;
+    console.log(
+      `  queue overhead: ${((queuePerChunk - threadPerChunk) * 1000).toFixed(1)} ms per chunk ` +
+        `(a one-replicate chunk takes ${(queuePerChunk * 1000).toFixed(1)} ms through the queue, ${(threadPerChunk * 1000).toFixed(1)} ms on an in-process thread)`,
+    );
+  } finally {
+    if (before === undefined) delete process.env.REDIS_URL;
+    else process.env.REDIS_URL = before;
+    await closeSharedRedis();
+    await stopRedis({ instance: 'bench' });
+  }
+}

@@ -1,0 +1,86 @@
+// `npm run worker`: a process that takes power chunks from the shared queue (REDIS_URL) and runs
+// them on its own pool of worker threads, on this machine or any other that reaches the same Redis.
+// It needs no database: each chunk carries its whole scenario, and its tally goes back to Redis.
+//
+//   REDIS_URL=redis://host:port npm run worker [-- --threads N] [-- --verbose]
+//
+// Ctrl-C (or SIGTERM) finishes the chunks in hand and leaves; a worker killed outright has its
+// chunks taken over by another once their lock runs out (QUEUE_LOCK_MS).
+import { parseArgs } from 'node:util';
+import { Worker, type Job } from 'bullmq';
+import { queueEnv } from '@/lib/server/env';
+import { closeSharedRedis, sharedRedis } from '@/lib/server/redis';
+import { createThreadPool } from './thread-pool';
+import { defaultWorkerCount } from './power/run-scenario';
+import { POWER_QUEUE, RUN_KEYS_TTL_S, runKeys, type ChunkJob } from './power/queue';
+import type { ChunkResult, ChunkTask } from './power/worker';
+
+const { values: flags } = parseArgs({ options: { threads: { type: 'string' }, verbose: { type: 'boolean', default: false } } });
+const log = (message: string) => console.log(`[switchback worker ${process.pid}] ${message}`);
+
+const { redisUrl, lockMs } = queueEnv();
+const redis = sharedRedis('queue');
+if (!redisUrl || !redis) {
+  console.error('[switchback worker] REDIS_URL is not set: a worker takes power chunks from the shared Redis (see README, "Several machines").');
+  process.exit(2);
+}
+const threads = flags.threads ? Math.max(1, Math.min(16, Number.parseInt(flags.threads, 10) || 1)) : defaultWorkerCount();
+const pool = createThreadPool<ChunkTask, ChunkResult>('power', threads);
+
+/** Runs one chunk unless its run was cancelled; a cancel arriving mid-chunk stops the thread's task. */
+async function processChunk(job: Job<ChunkJob>): Promise<'done' | 'cancelled'> {
+  const { runKey, chunk, index, scenario, from, to } = job.data;
+  const keys = runKeys(runKey);
+  if ((await redis!.exists(keys.cancel)) || (await redis!.hexists(keys.results, String(chunk)))) return 'cancelled';
+  if (flags.verbose) log(`chunk ${chunk} of ${runKey} started`);
+  const abort = new AbortController();
+  const watch = setInterval(() => {
+    redis!.exists(keys.cancel).then(
+      (cancelled) => {
+        if (cancelled) abort.abort();
+      },
+      () => {}, // the next look retries
+    );
+  }, 250);
+  let result: ChunkResult;
+  try {
+    result = await pool.run({ key: runKey, index, scenario, from, to }, { signal: abort.signal });
+  } catch (error) {
+    if (abort.signal.aborted) return 'cancelled';
+    const text = error instanceof Error ? `${error.name}: ${error.message}` : String(error);
+    await redis!.set(keys.error, text, 'EX', RUN_KEYS_TTL_S, 'NX');
+    throw error;
+  } finally {
+    clearInterval(watch);
+  }
+  // first write wins: a chunk retried after its worker died is not stored (or counted) twice
+  await redis!.multi().hsetnx(keys.results, String(chunk), JSON.stringify(result)).expire(keys.results, RUN_KEYS_TTL_S).exec();
+  if (flags.verbose) log(`chunk ${chunk} of ${runKey} done`);
+  return 'done';
+}
+
+const worker = new Worker<ChunkJob>(POWER_QUEUE, processChunk, {
+  connection: redis,
+  concurrency: threads,
+  lockDuration: lockMs,
+  stalledInterval: Math.max(500, Math.round(lockMs / 2)),
+  // a chunk whose worker dies is handed on; past this many deaths the chunk fails the run
+  maxStalledCount: 5,
+});
+worker.on('failed', (job, error) => log(`chunk ${job?.data.chunk ?? '?'} failed: ${error.message}`));
+worker.on('error', (error) => log(`queue error: ${error.message}`));
+await worker.waitUntilReady();
+log(`taking power chunks from ${redisUrl.replace(/\/\/[^@/]*@/, '//…@')} on ${threads} thread${threads === 1 ? '' : 's'} (lock ${lockMs} ms)`);
+
+let closing = false;
+async function close(code: number) {
+  if (closing) return;
+  closing = true;
+  log('finishing the chunks in hand ...');
+  await worker.close();
+  await pool.destroy();
+  await closeSharedRedis();
+  process.exit(code);
+}
+process.on('SIGINT', () => void close(0));
+process.on('SIGTERM', () => void close(0));

@@ -1,0 +1,129 @@
+// Power runs over the shared queue (REDIS_URL): worker processes of their own take the chunks, and
+// the outcome must be exactly the in-process run's for the same seed (tallies are whole-number
+// counts merged in chunk order, so any other outcome means a chunk was lost or counted twice).
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { Queue } from 'bullmq';
+import { Redis } from 'ioredis';
+import { GET as getRun } from '@/app/api/studies/[id]/power-runs/[runId]/route';
+import { POST as startRun } from '@/app/api/studies/[id]/power-runs/route';
+import { AuditEvent, Design, DesignVersion, PriorSet } from '@/db/models';
+import { contentHash } from '@/lib/shared/canonical-json';
+import { buildScenario } from '@/lib/shared/power-scenario';
+import type { FrozenDesign } from '@/lib/shared/validations/planner';
+import type { PowerScenario } from '@/lib/design/power/types';
+import { runScenario } from '@/lib/server/jobs/power/run-scenario';
+import { POWER_QUEUE, runScenariosOnQueue } from '@/lib/server/jobs/power/queue';
+import { closeSharedRedis } from '@/lib/server/redis';
+import { POWER_PRIOR, powerDesign } from '../support/frozen-design';
+import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
+import { startQueueWorker, testRedisUrl, type Child } from '../support/processes';
+
+const content: FrozenDesign = powerDesign({ lateDelayLimit: 3650, calibration: { itemsPerMagnitude: 10, minDelay: 1, maxDelay: 365 } });
+const spec = {
+  label: 'As the design assumes',
+  truth: { model: { id: 'hyperbolic' as const }, prior: POWER_PRIOR, gamma: 10, lapse: 0.02 },
+  calibration: 'simulated' as const,
+  test: { kind: 'mcnemar' as const, alpha: 0.05, alternative: 'greater' as const },
+  sampleSizes: [5, 10, 20, 40],
+  replications: 240,
+  seed: 7,
+};
+const scenario: PowerScenario = buildScenario({ ...spec, designVersionId: 1 } as never, content);
+
+let workers: Child[] = [];
+let inProcess: Awaited<ReturnType<typeof runScenario>>;
+
+beforeAll(async () => {
+  process.env.REDIS_URL = testRedisUrl();
+  inProcess = await runScenario(scenario, { workers: 1 });
+});
+afterEach(async () => {
+  await Promise.all(workers.map((w) => w.stop()));
+  workers = [];
+});
+afterAll(async () => {
+  delete process.env.REDIS_URL;
+  await closeSharedRedis();
+});
+
+/** The chunks a worker finished, by its own log. */
+function chunksDone(worker: Child): number[] {
+  return [...worker.output().matchAll(/chunk (\d+) of \S+ done/g)].map((m) => Number(m[1]));
+}
+
+describe('power runs on the shared queue', () => {
+  it('give exactly the tallies of a single in-process run when two worker processes share the chunks', async () => {
+    workers = await Promise.all([startQueueWorker(), startQueueWorker()]);
+    const progress: number[] = [];
+    const outcome = await runScenariosOnQueue([scenario], { chunkSize: 10, onProgress: (n) => void progress.push(n) });
+    expect(outcome![0]).toEqual(inProcess);
+    // both processes took chunks, and between them every chunk exactly once
+    expect(chunksDone(workers[0]).length).toBeGreaterThan(0);
+    expect(chunksDone(workers[1]).length).toBeGreaterThan(0);
+    expect([...chunksDone(workers[0]), ...chunksDone(workers[1])].sort((a, b) => a - b)).toEqual(Array.from({ length: 24 }, (_, i) => i));
+    expect(progress.at(-1)).toBe(240);
+    expect(progress).toEqual([...progress].sort((a, b) => a - b));
+  }, 120_000);
+
+  it('completes with the same tallies when a worker process is killed mid-chunk: another takes its chunk over', async () => {
+    workers = await Promise.all([startQueueWorker(), startQueueWorker()]);
+    const [doomed, survivor] = workers;
+    const run = runScenariosOnQueue([scenario], { chunkSize: 20 });
+    // killed outright (no chance to finish or give the chunk back) while it holds a chunk
+    const started = await doomed.waitFor(/chunk (\d+) of \S+ started/);
+    doomed.process.kill('SIGKILL');
+    const outcome = await run;
+    expect(outcome![0]).toEqual(inProcess);
+    expect(chunksDone(doomed)).not.toContain(Number(started[1]));
+    expect(chunksDone(survivor)).toContain(Number(started[1]));
+  }, 120_000);
+
+  it('cancels on every worker: chunks in hand stop, chunks waiting are dropped', async () => {
+    workers = await Promise.all([startQueueWorker(), startQueueWorker()]);
+    let stop = false;
+    const big = { ...scenario, replications: 4000 };
+    const outcome = await runScenariosOnQueue([big], { chunkSize: 10, onProgress: (n) => void (n >= 40 && (stop = true)), shouldStop: () => stop });
+    expect(outcome).toBeNull();
+    const queue = new Queue(POWER_QUEUE, { connection: new Redis(testRedisUrl(), { maxRetriesPerRequest: null }) });
+    try {
+      const deadline = Date.now() + 10_000;
+      let counts = await queue.getJobCounts('wait', 'active', 'prioritized', 'delayed');
+      while (Object.values(counts).some((n) => n > 0) && Date.now() < deadline) {
+        await new Promise((resolve) => setTimeout(resolve, 100));
+        counts = await queue.getJobCounts('wait', 'active', 'prioritized', 'delayed');
+      }
+      expect(counts).toEqual({ wait: 0, active: 0, prioritized: 0, delayed: 0 });
+      const done = chunksDone(workers[0]).length + chunksDone(workers[1]).length;
+      expect(done).toBeLessThan(400 / 4); // far from all 400 chunks: the rest were never run
+    } finally {
+      await queue.close();
+    }
+  }, 120_000);
+
+  it('runs a power run started in the app on the queue, with its progress, result and audit as in process', async () => {
+    await migrateUp();
+    workers = await Promise.all([startQueueWorker(), startQueueWorker()]);
+    const { study, team } = await makeStudyWithTeam('Queued power run');
+    const priorSet = await PriorSet.create({ studyId: study.id, name: 'Pilot prior', values: POWER_PRIOR, source: 'manual', notes: '', createdBy: team.owner.id });
+    const designSpec = { ...content.spec, priorSetId: priorSet.id };
+    const design = await Design.create({ studyId: study.id, name: designSpec.name, spec: designSpec, createdBy: team.owner.id });
+    const frozen = { spec: designSpec, prior: content.prior };
+    const version = await DesignVersion.create({ designId: design.id, studyId: study.id, number: 1, hash: contentHash(frozen), content: frozen, frozenBy: team.owner.id });
+    const response = await startRun(await requestAs(team.editor, 'POST', `/api/studies/${study.id}/power-runs`, { json: { ...spec, designVersionId: version.id } }), ctx({ id: String(study.id) }));
+    expect(response.status).toBe(202);
+    const { run } = await response.json();
+    const deadline = Date.now() + 90_000;
+    let read = run;
+    while (read.status !== 'finished' && Date.now() < deadline) {
+      expect(['queued', 'running']).toContain(read.status);
+      await new Promise((resolve) => setTimeout(resolve, 200));
+      const reply = await getRun(await requestAs(team.viewer, 'GET', `/api/studies/${study.id}/power-runs/${run.id}`), ctx({ id: String(study.id), runId: String(run.id) }));
+      read = (await reply.json()).run;
+    }
+    expect(read.status).toBe('finished');
+    expect(read.completed).toBe(240);
+    expect(read.result.summary.points.map((p: { rejections: number }) => p.rejections)).toEqual(inProcess!.tally.rejections);
+    expect(chunksDone(workers[0]).length + chunksDone(workers[1]).length).toBeGreaterThan(0);
+    expect(await AuditEvent.count({ where: { studyId: study.id, action: 'power-run.start' } })).toBe(1);
+  }, 150_000);
+});
