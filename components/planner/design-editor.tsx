@@ -117,7 +117,7 @@ export function DesignEditor({
             </div>
           ) : null}
         </Card>
-        <PowerPreview studyId={studyId} design={design} spec={parsed.success ? parsed.data : null} prior={priorSet} dirty={formState.isDirty} canRun={canEdit} />
+        <PowerPreview studyId={studyId} design={design} spec={parsed.success ? parsed.data : null} prior={priorSet} dirty={dirty} canRun={canEdit} />
         <EstimateCaution />
       </div>
     </div>
