@@ -11,4 +11,8 @@ export async function register() {
     // a database that is down at start-up must not stop the server; runs are re-checked when read
     console.warn('[switchback] could not check for interrupted power runs at start-up:', error instanceof Error ? error.message : error);
   }
+  // Real rewards: the payout scheduler sends due payouts from this server process (it tolerates a
+  // database that is down: each tick logs and tries again).
+  const { startPayoutScheduler } = await import('./lib/server/services/payouts-scheduler');
+  startPayoutScheduler();
 }

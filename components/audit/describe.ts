@@ -29,6 +29,10 @@ const LABELS: Record<string, string> = {
   // session page (issue 13)
   'session-link.create': 'Participant link created',
   'session-link.status': 'Participant link opened, paused or closed',
+  // real rewards
+  'rewards.settings': 'Real-reward settings changed',
+  'payouts.approve': 'Payouts approved',
+  'payouts.cancel': 'Payouts cancelled',
 };
 
 /** A readable label for an audit action; actions of other features show as written (e.g. "design.freeze"). */
@@ -45,6 +49,10 @@ export function sentenceText(parts: SentencePart[]): string {
 }
 
 const quote = (name: string) => `“${name}”`;
+
+/** Batch totals per currency, as recorded (", EUR 12.50"). */
+const totals = (value: unknown) =>
+  value && typeof value === 'object' ? Object.entries(value as Record<string, unknown>).map(([currency, amount]) => `, ${currency} ${String(amount)}`).join('') : '';
 
 /**
  * What an audit event did, as a sentence with names and links instead of database ids: the
@@ -139,6 +147,12 @@ export function describeEvent(event: Pick<AuditEventDto, 'action' | 'details'>, 
       return [`Revoked the API key ${quote(str('name') ?? '')} (${str('prefix') ?? ''}…).`];
     case 'power-run.start':
       return ['Started ', run(), ' on ', ...version(), `${num('replications') ? ` with ${num('replications')!.toLocaleString('en-GB')} replications` : ''}.`];
+    case 'rewards.settings':
+      return [`${d.enabled ? 'Turned real rewards on' : 'Turned real rewards off'} for `, ...version(), `${typeof d.capMinor === 'number' ? `, cap ${d.capMinor} minor units` : ''}${typeof d.approvalThresholdMinor === 'number' ? `, owner approval above ${d.approvalThresholdMinor} minor units` : ''}.`];
+    case 'payouts.approve':
+      return [`Approved ${Array.isArray(d.participants) ? d.participants.length : 0} payout(s) above the threshold${totals(d.totals)}.`];
+    case 'payouts.cancel':
+      return [`Cancelled ${Array.isArray(d.participants) ? d.participants.length : 0} payout(s)${totals(d.totals)}: ${quote(str('reason') ?? '')}.`];
     case 'power-run.cancel':
       return ['Cancelled ', run(), `${num('completed') !== undefined ? ` after ${num('completed')!.toLocaleString('en-GB')} replicates` : ''}.`];
     case 'power-run.restart':

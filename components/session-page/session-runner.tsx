@@ -90,7 +90,14 @@ export function SessionRunner({ driver, preview = false }: { driver: PageDriver;
       {step.kind === 'consent' ? <ConsentStep link={link} pending={pending} onAgree={() => void run(() => driver.act({ action: 'consent', participantId, agree: true }, null))} /> : null}
       {step.kind === 'instructions' ? <InstructionsStep link={link} pending={pending} onBegin={() => void run(() => driver.act({ action: 'begin', participantId }, null))} /> : null}
       {step.kind === 'choice' ? <ChoiceStep key={step.choice.itemId} choice={step.choice} number={step.number} total={step.total} pending={pending} onChoose={choose} /> : null}
-      {step.kind === 'complete' ? <CompletionStep completion={step.completion} preview={preview} /> : null}
+      {step.kind === 'complete' ? (
+        <CompletionStep
+          completion={step.completion}
+          preview={preview}
+          pending={pending}
+          onPaymentDetails={preview ? undefined : (email) => void run(() => driver.act({ action: 'payment-details', participantId, email }, null))}
+        />
+      ) : null}
       {step.kind === 'unavailable' ? (
         <div data-testid="unavailable-step">
           <Notice tone="warning" title={step.reason === 'paused' ? 'This study is paused' : 'This study is closed'}>

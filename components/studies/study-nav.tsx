@@ -19,6 +19,8 @@ export const studySections: Array<{ segment: string; label: string; minRole: Rol
   { segment: 'session-links', label: 'Session links', minRole: 'operator' },
   // Results (issue 14): observed against expected patterns, tests, models, zone diagnosis.
   { segment: 'results', label: 'Results', minRole: 'viewer' },
+  // Real rewards (issue 20): the reward settings per version and the payout ledger.
+  { segment: 'payouts', label: 'Payouts', minRole: 'operator' },
   { segment: 'team', label: 'Team', minRole: 'viewer' },
   { segment: 'audit', label: 'Audit trail', minRole: 'editor' },
 ];

@@ -13,6 +13,8 @@ import { EmailConfirmationToken, EndedSession } from './account';
 import { Analysis } from './analysis';
 // session page (issue 13): participant links
 import { SessionLink } from './session-link';
+// real rewards: reward settings per version, the payout ledger, participants' payment details
+import { Payout, PaymentDetail, RewardSettings } from './payout';
 
 export { User, Study, Membership, AuditEvent, PriorSet, Design, DesignVersion, DesignComment };
 export { ApiKey, Participant };
@@ -22,6 +24,7 @@ export { ParticipantSession, Stage2Answer };
 export { EmailConfirmationToken, EndedSession };
 export { Analysis };
 export { SessionLink };
+export { Payout, PaymentDetail, RewardSettings };
 
 /**
  * Registers every model and association on one Sequelize instance. A new model is added here
@@ -48,6 +51,9 @@ export function registerModels(sequelize: Sequelize): void {
   Stage2Answer.register(sequelize);
   Analysis.register(sequelize);
   SessionLink.register(sequelize);
+  RewardSettings.register(sequelize);
+  Payout.register(sequelize);
+  PaymentDetail.register(sequelize);
 
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' });
   Membership.belongsTo(Study, { foreignKey: 'studyId', as: 'study' });

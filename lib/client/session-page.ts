@@ -48,6 +48,7 @@ export function previewDriver(studyId: number, linkId: number): PageDriver {
     act: (action, block) => {
       if (action.action === 'consent') state.consented = true;
       else if (action.action === 'begin') state.begun = true;
+      else if (action.action === 'payment-details') return send(); // a preview pays nobody: nothing to keep
       else if (block === 'probe') state.stage2[action.itemId] = action.chosen;
       else state.calibration[action.itemId] = action.chosen;
       return send();

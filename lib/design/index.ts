@@ -29,3 +29,4 @@ export * from './power';
 export * from './item-bank';
 export * from './analysis';
 export * from './adaptive';
+export * from './incentive';

@@ -161,3 +161,27 @@ export function queueEnv(): { redisUrl: string | null; lockMs: number } {
   const parsed = parse(queueSchema);
   return { redisUrl: parsed.REDIS_URL ?? null, lockMs: parsed.QUEUE_LOCK_MS };
 }
+
+// Real rewards (payouts): the payment provider's API and the scheduler. PAYMENT_API_URL is the SDK's
+// base path: the local fake (scripts/fake-payments.mjs, started by npm start and npm test) unless
+// set to the real service; without it, payouts stay scheduled with the reason.
+const paymentSchema = z.object({
+  PAYMENT_API_URL: optionalText.pipe(z.url({ error: 'PAYMENT_API_URL must be a URL (the payment API base path)' }).optional()),
+  PAYMENT_API_TOKEN: optionalText,
+  PAYMENT_FUNDING_SOURCE: optionalText.transform((v) => v ?? 'balance'),
+  PAYMENT_CAMPAIGN_ID: optionalText,
+  PAYOUT_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(20).default(5),
+  PAYOUT_RETRY_MINUTES: positiveOr(15),
+  PAYOUT_SCHEDULER_SECONDS: positiveOr(60),
+  PAYOUT_SUMMARY_HOUR: z.coerce.number().int().min(0).max(23).default(7),
+});
+
+/**
+ * Payment provider and payout scheduler settings, read on every call (a test points PAYMENT_API_URL
+ * at its own fake): the API base path and token, funding source (default balance) and campaign,
+ * attempts before a payout is failed (default 5), the first retry delay in minutes (15, doubling),
+ * the scheduler's interval in seconds (60) and the UTC hour of the operators' daily summary (7).
+ */
+export function paymentEnv() {
+  return parse(paymentSchema);
+}

@@ -21,7 +21,7 @@ export type GlossaryEntry = {
   group: GlossaryGroup;
 };
 
-export const GLOSSARY_GROUPS = ['Choices and views', 'The reversal zone and design criteria', 'Pairs and blocks', 'Discount models', 'Estimation and choice noise', 'Power and tests'] as const;
+export const GLOSSARY_GROUPS = ['Choices and views', 'The reversal zone and design criteria', 'Pairs and blocks', 'Discount models', 'Estimation and choice noise', 'Power and tests', 'Real rewards'] as const;
 export type GlossaryGroup = (typeof GLOSSARY_GROUPS)[number];
 
 const GREEN_1994 = 'Green, L., Fristoe, N., & Myerson, J. (1994). Temporal discounting and preference reversals in choice between delayed outcomes. Psychonomic Bulletin & Review, 1(3), 383–389.';
@@ -279,6 +279,25 @@ export const GLOSSARY: GlossaryEntry[] = [
     short: 'A named way the simulated people differ from what the design assumes (another model, another delay sensitivity), to see how much power survives.',
     sources: [HERE],
     group: 'Power and tests',
+  },
+  // Real rewards
+  {
+    id: 'random-incentive-system',
+    term: 'Random incentive system',
+    aliases: ['random incentive', 'real rewards', 'paid choice'],
+    short: 'One of each participant’s choices is drawn at random and paid exactly as chosen, so every choice is worth answering as if it were real.',
+    body: 'Switchback draws uniformly from every answered calibration and probe item (attention checks excluded), with a recorded seed, when the session completes; the chosen amount (at most the cap) is due on the completion date plus the chosen option’s delay.',
+    formulas: ['drawn index = ⌊u · n⌋, u the first uniform of the seeded generator, n eligible items', 'due date = completion date + delay of the chosen option'],
+    sources: ['Starmer, C., & Sugden, R. (1991). Does the random-lottery incentive system elicit true preferences? An experimental investigation. American Economic Review, 81(4), 971–978.'],
+    group: 'Real rewards',
+  },
+  {
+    id: 'payout-ledger',
+    term: 'Payout ledger',
+    aliases: ['payouts', 'ledger'],
+    short: 'Who is owed what and when: one line per paid participant with the drawn item, the amount in exact minor units, the due date, its status and the payment service’s reference.',
+    sources: ['Trade term.'],
+    group: 'Real rewards',
   },
 ];
 

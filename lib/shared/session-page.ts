@@ -15,8 +15,11 @@ export type PageChoice = {
   options: [PageOption, PageOption];
 };
 
-/** The completion screen: code and, when the link has one, where to go next (with the participant id). */
-export type PageCompletion = { code: string; redirectUrl: string | null };
+/** Real rewards: what the participant is paid for their drawn choice and when, and whether an address for the reward link is still needed. */
+export type PageReward = { message: string; amount: string; currency: string; dueDate: string; needsDetails: boolean };
+
+/** The completion screen: code and, when the link has one, where to go next (with the participant id); the reward when the study pays real rewards. */
+export type PageCompletion = { code: string; redirectUrl: string | null; reward?: PageReward | null };
 
 export type PageStep =
   | { kind: 'consent' }

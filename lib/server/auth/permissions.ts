@@ -77,4 +77,13 @@ export const apiPermissions: Record<string, Partial<Record<Method, Access>>> = {
   '/api/studies/[id]/session-links/[linkId]': { PATCH: 'operator' },
   '/api/studies/[id]/session-links/[linkId]/preview': { POST: 'operator' },
   '/api/session-page/[slug]': { GET: 'public', POST: 'public' },
+  // Real rewards (issue 20): operators see the settings and the payout ledger; owners turn real
+  // rewards on, approve payouts above the threshold and cancel; participants' payment details
+  // arrive through the session API's keys.
+  '/api/studies/[id]/rewards': { GET: 'operator' },
+  '/api/studies/[id]/rewards/[versionId]': { PUT: 'owner' },
+  '/api/studies/[id]/payouts': { GET: 'operator' },
+  '/api/studies/[id]/payouts/approve': { POST: 'owner' },
+  '/api/studies/[id]/payouts/cancel': { POST: 'owner' },
+  '/api/v1/studies/[id]/payment-details': { POST: 'api-key' },
 };

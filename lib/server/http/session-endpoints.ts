@@ -7,6 +7,8 @@ import { bankOrInvalid, frozenVersionById, type FrozenVersionRef } from '@/lib/s
 import { itemBankId, presentationOf, type Presentation } from '@/lib/server/services/item-bank-id';
 import { KeyRateLimiter, probeRateLimiter } from '@/lib/server/http/key-rate-limit';
 import { calibrationQuerySchema, stage2AnswersRequestSchema } from '@/lib/shared/validations/session';
+import { paymentDetailsSchema } from '@/lib/shared/validations/payouts';
+import { savePaymentDetails } from '@/lib/server/services/payouts-draw';
 import { withCors } from '@/lib/server/http/cors';
 import { recordStage2Answers } from '@/lib/server/services/stage2-answers';
 import { requireParticipantToken, startSession } from '@/lib/server/services/session-tokens';
@@ -135,5 +137,18 @@ export function handleStage2Answers(call: SessionCall): Promise<PlainReply> {
       apiKeyId: key.id,
     });
     return jsonReply(200, result);
+  });
+}
+
+/**
+ * POST /api/v1/studies/{id}/payment-details (real rewards): where a participant's reward link goes
+ * (an e-mail address; nothing more is kept). A payout held for want of it is scheduled. A browser
+ * key needs the participant's session token, like every other call for one participant.
+ */
+export function handlePaymentDetails(call: SessionCall): Promise<PlainReply> {
+  return sessionEndpoint(call, async (key) => {
+    const body = parseJsonText(await call.readBody(), paymentDetailsSchema);
+    await requireParticipantToken(key, body.participantId, call.sessionToken ?? null);
+    return jsonReply(200, await savePaymentDetails({ studyId: key.studyId, participantId: body.participantId, email: body.email }));
   });
 }

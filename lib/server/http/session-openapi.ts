@@ -130,6 +130,7 @@ export function sessionPaths() {
                     itemCount: { type: 'integer' },
                     status: { type: 'string', enum: ['served', 'completed'] },
                     unanswered: { type: 'array', items: { type: 'string' } },
+                    reward: { $ref: '#/components/schemas/Reward' },
                   },
                 },
                 example: { participantId: 'P-017', recorded: 2, answered: 2, itemCount: 9, status: 'served', unanswered: ['late-1-far', 'soon-1-near'] },
@@ -148,12 +149,59 @@ export function sessionPaths() {
       },
       options: { operationId: 'stage2AnswersPreflight', summary: 'CORS preflight', parameters: [id], responses: { '204': { description: 'allowed methods and headers for a listed origin' } }, security: [] },
     },
+    // Real rewards (issue 20)
+    '/api/v1/studies/{id}/payment-details': {
+      post: {
+        operationId: 'paymentDetails',
+        summary: "Where a participant's reward link goes (studies with real rewards)",
+        description:
+          'An e-mail address for the reward link of a participant whose version pays real rewards (nothing more is kept; a second call replaces it). ' +
+          'A payout held for want of it is scheduled; the reply carries the participant\'s reward once drawn. ' +
+          corsNote,
+        parameters: [id, token],
+        requestBody: {
+          required: true,
+          content: {
+            'application/json': {
+              schema: { type: 'object', additionalProperties: false, required: ['participantId', 'email'], properties: { participantId: { type: 'string', maxLength: 128, pattern: '^[\\w.:@-]+$' }, email: { type: 'string', format: 'email', maxLength: 254 } } },
+              example: { participantId: 'P-017', email: 'p017@harbourlight.example' },
+            },
+          },
+        },
+        responses: {
+          '200': {
+            description: 'stored',
+            content: { 'application/json': { schema: { type: 'object', required: ['participantId', 'reward'], properties: { participantId: { type: 'string' }, reward: { oneOf: [{ $ref: '#/components/schemas/Reward' }, { type: 'null' }] } } } } },
+          },
+          '401': { description: 'missing, unknown or revoked key', content: errorContent('This API key is unknown or has been revoked.') },
+          '403': { description: 'browser key: origin not listed, or the participant\'s session token missing or wrong', content: errorContent("Send participant P-017's session token (X-Session-Token, from the calibration reply that started the session).") },
+          '422': { description: 'invalid fields (path email, participantId)', content: errorContent('Some fields are invalid.') },
+          '429': { description: 'rate limit of the key', headers: { 'Retry-After': { schema: { type: 'integer' } } }, content: errorContent('Too many requests for this key; retry in 2 s.') },
+        },
+      },
+      options: { operationId: 'paymentDetailsPreflight', summary: 'CORS preflight', parameters: [id], responses: { '204': { description: 'allowed methods and headers for a listed origin' } }, security: [] },
+    },
   };
 }
 
 /** Schemas the session paths refer to. */
 export function sessionSchemas() {
   return {
+    Reward: {
+      type: 'object',
+      description: 'Real rewards: the choice drawn (random incentive system) and what is paid when; present once the session completes, when the version pays real rewards.',
+      required: ['itemId', 'chosen', 'amountMinor', 'amount', 'currency', 'dueDate', 'status', 'message'],
+      properties: {
+        itemId: { type: 'string' },
+        chosen: { type: 'string', enum: ['sooner', 'later'] },
+        amountMinor: { type: 'integer', description: 'whole minor units (cent, yen)' },
+        amount: { type: 'string', description: 'the exact decimal amount, e.g. "37.50"' },
+        currency: { type: 'string' },
+        dueDate: { type: 'string', format: 'date' },
+        status: { type: 'string', enum: ['scheduled', 'held', 'sending', 'sent', 'failed', 'cancelled'] },
+        message: { type: 'string', description: 'a sentence for the participant' },
+      },
+    },
     Error: { type: 'object', required: ['error'], properties: { error: { type: 'string' }, issues: { type: 'array', items: { $ref: '#/components/schemas/Issue' } } } },
     CalibrationBlock: {
       type: 'object',

@@ -1,4 +1,4 @@
-import { formatDateTime } from '@/lib/shared/format';
+import { formatDate, formatDateTime } from '@/lib/shared/format';
 import { ROLE_LABELS, type Role } from '@/lib/shared/roles';
 import type { MailMessage } from './transport';
 
@@ -83,5 +83,22 @@ export function accountExistsMessage(input: { to: string; signInLink: string; re
     { link: input.signInLink, label: 'Sign in' },
     { link: input.resetLink, label: 'Forgot your password? Choose a new one' },
     'If it was not you, you can ignore this message.',
+  ]);
+}
+
+/** One payout in the operators' daily summary. */
+export type PayoutSummaryLine = { participantId: string; amount: string; dueDate: string; note: string };
+
+/** The operators' daily payout summary of one study: what was sent, what failed, what is still held. */
+export function payoutSummaryMessage(input: { to: string; studyName: string; day: string; sent: PayoutSummaryLine[]; failed: PayoutSummaryLine[]; held: PayoutSummaryLine[]; link: string }): MailMessage {
+  const list = (title: string, lines: PayoutSummaryLine[]) =>
+    lines.length === 0 ? `${title}: none.` : `${title} (${lines.length}):\n${lines.map((l) => `\u2022 ${l.participantId}: ${l.amount}, due ${formatDate(l.dueDate)}${l.note ? ` \u2014 ${l.note}` : ''}`).join('\n')}`;
+  return compose(input.to, `Payouts of \u201c${input.studyName}\u201d on ${formatDate(input.day)}: ${input.sent.length} sent, ${input.failed.length} failed`, [
+    `The payout summary of \u201c${input.studyName}\u201d for ${formatDate(input.day)} (UTC).`,
+    list('Sent', input.sent),
+    list('Failed or waiting for a retry', input.failed),
+    list('Held (no payment details, or waiting for an owner\u2019s approval)', input.held),
+    { link: input.link, label: 'Open the payout ledger' },
+    'Real rewards follow the rules your ethics board approved for payments to participants.',
   ]);
 }

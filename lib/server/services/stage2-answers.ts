@@ -2,6 +2,7 @@ import { rawQuery } from '@/db';
 import type { AnswerSource } from '@/db/models/session';
 import { ConflictError, ValidationError } from '@/lib/server/errors';
 import { decodeJson } from '@/db/json';
+import { drawPayoutOnCompletion, type RewardPromise } from './payouts-draw';
 
 /** One answer to one served stage-2 item, as every writer hands it in. */
 export type Stage2AnswerInput = {
@@ -35,6 +36,8 @@ export type RecordAnswersResult = {
   status: 'served' | 'completed';
   /** served items still without an answer, in presentation order */
   unanswered: string[];
+  /** real rewards: once completed, the drawn choice, what is paid and when (absent when the version pays no real rewards) */
+  reward?: RewardPromise;
 };
 
 type ServedParticipant = { ref: number; designVersionId: number; itemIds: string[] };
@@ -146,7 +149,14 @@ export async function recordStage2Answers(input: RecordAnswersInput): Promise<Re
         (recorded ? ` The ${recorded} new answer(s) of this request were recorded.` : ''),
     );
   }
-  return { participantId: input.participantId, recorded, answered: stored.size, itemCount: served.itemIds.length, status, unanswered };
+  const result: RecordAnswersResult = { participantId: input.participantId, recorded, answered: stored.size, itemCount: served.itemIds.length, status, unanswered };
+  // Real rewards: the paid choice is drawn when the session completes (once; a replay reads it back).
+  // Uploaded answers record sessions run elsewhere and draw nothing.
+  if (status === 'completed' && input.source !== 'upload') {
+    const reward = await drawPayoutOnCompletion({ studyId: input.studyId, participantId: input.participantId });
+    if (reward) result.reward = reward;
+  }
+  return result;
 }
 
 /** Forgets the cached served participants (tests that delete rows under a running process). */

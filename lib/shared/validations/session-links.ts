@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { paymentDetailsSchema } from '@/lib/shared/validations/payouts';
 import '@/lib/shared/validations/error-map';
 import { participantIdSchema } from './item-bank';
 import { stage2AnswerSchema } from './session';
@@ -69,8 +70,10 @@ export const pageActionSchema = z.discriminatedUnion(
       responseTimeMs: stage2AnswerSchema.shape.responseTimeMs,
       sideShown: stage2AnswerSchema.shape.sideShown,
     }),
+    // real rewards: where the reward link goes, once the session is complete
+    z.strictObject({ action: z.literal('payment-details'), participantId: participantIdSchema, email: paymentDetailsSchema.shape.email }),
   ],
-  { error: "Say what the step is: action 'consent', 'begin' or 'answer'." },
+  { error: "Say what the step is: action 'consent', 'begin', 'answer' or 'payment-details'." },
 );
 export type PageAction = z.infer<typeof pageActionSchema>;
 

@@ -95,22 +95,21 @@ describe('all fields at their extremes at once never crash the planner or the it
   };
   for (const [specCorner, spec] of Object.entries(corners)) {
     for (const [priorCorner, prior] of Object.entries(priors)) {
-      it(`design fields ${specCorner}, prior fields ${priorCorner}`, () => {
+      // One test per model, so each stays well inside its time limit on a loaded machine.
+      it.each(MODEL_CHOICES)(`design fields ${specCorner}, prior fields ${priorCorner}, model %s`, (id) => {
         const crashes: string[] = [];
-        for (const id of MODEL_CHOICES) {
-          for (const s of [0.01, 5]) {
-            for (const mode of ['personalised', 'population'] as const) {
-              for (const criterion of ['gap-product', 'expected-reversal-rate', 'maximin'] as const) {
-                const model = { id, ...(id === 'hyperboloid' || id === 'power-delay' || id === 'exponential-power' ? { sensitivity: s } : {}), ...(id === 'quasi-hyperbolic' ? { presentBias: s === 5 ? 1 : Number.MIN_VALUE } : {}) };
-                const parsed = frozenDesignSchema.safeParse(JSON.parse(JSON.stringify(design({ mode, criterion, model, ...(spec as object) }, prior))));
-                if (!parsed.success) continue;
-                const content = parsed.data;
-                const where = `${id} s=${s} ${mode} ${criterion}`;
-                const summary = crashOf(() => computeDesignSummary({ spec: content.spec, prior: content.prior }));
-                if (summary) crashes.push(`summary ${where}: ${summary}`);
-                const bank = crashOf(() => bankFor({ hash: HASH, content }));
-                if (bank) crashes.push(`item bank ${where}: ${bank}`);
-              }
+        for (const s of [0.01, 5]) {
+          for (const mode of ['personalised', 'population'] as const) {
+            for (const criterion of ['gap-product', 'expected-reversal-rate', 'maximin'] as const) {
+              const model = { id, ...(id === 'hyperboloid' || id === 'power-delay' || id === 'exponential-power' ? { sensitivity: s } : {}), ...(id === 'quasi-hyperbolic' ? { presentBias: s === 5 ? 1 : Number.MIN_VALUE } : {}) };
+              const parsed = frozenDesignSchema.safeParse(JSON.parse(JSON.stringify(design({ mode, criterion, model, ...(spec as object) }, prior))));
+              if (!parsed.success) continue;
+              const content = parsed.data;
+              const where = `${id} s=${s} ${mode} ${criterion}`;
+              const summary = crashOf(() => computeDesignSummary({ spec: content.spec, prior: content.prior }));
+              if (summary) crashes.push(`summary ${where}: ${summary}`);
+              const bank = crashOf(() => bankFor({ hash: HASH, content }));
+              if (bank) crashes.push(`item bank ${where}: ${bank}`);
             }
           }
         }

@@ -10,6 +10,7 @@ import type { BankItem } from '@/lib/design';
 import { bankOrInvalid, frozenVersionById, type FrozenVersionRef } from '../item-bank';
 import { serveProbeItemsJson } from '../participants';
 import { recordStage2Answers } from '../stage2-answers';
+import { drawPayoutOnCompletion, savePaymentDetails } from '../payouts-draw';
 import { nextCalibrationItem, type CalibrationAnswers } from './calibration-step';
 import { currentStep, nextProbeItem, type PageItems, type PageProgress } from './steps';
 
@@ -135,7 +136,13 @@ async function ensureServed(open: OpenLink, row: ParticipantSession, progress: P
 
 async function stateOf(open: OpenLink, row: ParticipantSession, notice?: string): Promise<PageState> {
   const progress = await ensureServed(open, row, await progressOf(open.link, row));
-  return { link: pageLinkOf(open.link), participantId: row.participantId, step: currentStep(open.link, row.participantId, open.items, progress), ...(notice ? { notice } : {}) };
+  const step = currentStep(open.link, row.participantId, open.items, progress);
+  if (step.kind === 'complete') {
+    // Real rewards: the drawn choice (drawn when the last answer was recorded; drawn here if that failed).
+    const reward = await drawPayoutOnCompletion({ studyId: open.link.studyId, participantId: row.participantId });
+    if (reward) step.completion.reward = { message: reward.message, amount: reward.amount, currency: reward.currency, dueDate: reward.dueDate, needsDetails: reward.needsDetails };
+  }
+  return { link: pageLinkOf(open.link), participantId: row.participantId, step, ...(notice ? { notice } : {}) };
 }
 
 async function startedElsewhere(link: SessionLink, participantId: string): Promise<boolean> {
@@ -189,6 +196,12 @@ export async function takePageAction(slug: string, action: PageAction, token: st
   const now = new Date();
   if (action.action === 'begin') {
     await own.update({ instructionsReadAt: own.instructionsReadAt ?? now, lastActivityAt: now });
+    return { state: await stateOf(open, own), token: null };
+  }
+  if (action.action === 'payment-details') {
+    // real rewards: an address for the reward link, taken once the session is complete
+    if ((await stateOf(open, own)).step.kind !== 'complete') throw new StepConflictError('Finish the choices first.', await stateOf(open, own));
+    await savePaymentDetails({ studyId: open.link.studyId, participantId: own.participantId, email: action.email });
     return { state: await stateOf(open, own), token: null };
   }
   if (!own.instructionsReadAt) throw new StepConflictError('Read the instructions first.', await stateOf(open, own));
