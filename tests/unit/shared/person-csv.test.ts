@@ -8,12 +8,13 @@ import { describe, expect, it } from 'vitest';
 import { PERSON_CAUTION } from '@/lib/shared/cautions';
 import { CAUTION_COLUMN, personRecordsCsv } from '@/lib/shared/csv';
 
-/** CSV writers that describe no person, with the reason. */
+/** CSV writers that hold no estimate or judgement of a person, with the reason. */
 const NOT_PER_PERSON: Record<string, string> = {
   'lib/server/services/item-bank.ts': 'the item bank: questions of a frozen design, before anyone answers',
   'lib/server/services/power-export.ts': 'power results: simulated study-level shares, no participant',
   'lib/server/services/audit-trail.ts': "the team's own actions on the study",
   'components/item-bank/batch-upload.tsx': 'the empty answer sheet an operator fills in (column names only)',
+  'lib/server/services/payouts-ledger.ts': 'the payout ledger: amounts owed under the random incentive system, no estimate of anyone (it carries the real-reward caution of its own)',
 };
 
 function sources(dir: string): string[] {
