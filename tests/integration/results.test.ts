@@ -10,6 +10,8 @@ import { bankFor } from '@/lib/shared/item-bank-plan';
 import { serveProbeItems, type ProbeItemsReply } from '@/lib/server/services/participants';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
 import { answersOf, makeFrozenVersion } from './item-bank-support';
+import { startQueueWorker, testRedisUrl } from '../support/processes';
+import { closeSharedRedis } from '@/lib/server/redis';
 
 type Setup = Awaited<ReturnType<typeof setUp>>;
 
@@ -144,6 +146,23 @@ describe('saved analyses', () => {
     const list = await (await listAnalyses(await requestAs(s.team.viewer, 'GET', `/api/studies/${s.study.id}/analyses`), ctx({ id: String(s.study.id) }))).json();
     expect(list.analyses.map((a: { version: number }) => a.version)).toEqual([2, 1]);
   });
+
+  it('saves the same analysis when its refits run on a queue worker process (REDIS_URL)', async () => {
+    const make = async () => (await createAnalysis(await requestAs(s.team.editor, 'POST', `/api/studies/${s.study.id}/analyses`, { json: { ...body(s.version.id), name: 'Queued' } }), ctx({ id: String(s.study.id) }))).json();
+    const here = (await make()).analysis;
+    process.env.REDIS_URL = testRedisUrl();
+    const worker = await startQueueWorker();
+    try {
+      const queued = (await make()).analysis;
+      expect(worker.output()).toMatch(/analysis chunk 0 of \S+ done/);
+      expect(queued.version).toBe(here.version + 1);
+      expect(queued.result).toEqual(here.result);
+    } finally {
+      delete process.env.REDIS_URL;
+      await worker.stop();
+      await closeSharedRedis();
+    }
+  }, 120_000);
 
   it('refuses an analysis with an unknown field, naming it', async () => {
     const response = await createAnalysis(await requestAs(s.team.editor, 'POST', `/api/studies/${s.study.id}/analyses`, { json: { ...body(s.version.id), alpha: 2 } }), ctx({ id: String(s.study.id) }));

@@ -12,7 +12,11 @@ import { buildScenario } from '@/lib/shared/power-scenario';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerScenario } from '@/lib/design/power/types';
 import { runScenario } from '@/lib/server/jobs/power/run-scenario';
-import { POWER_QUEUE, runScenariosOnQueue } from '@/lib/server/jobs/power/queue';
+import { runRefitsOnQueue } from '@/lib/server/jobs/analysis/queue';
+import { refitParticipant, simulateStudy } from '@/lib/design';
+import { design as refitDesign, truth as refitTruth } from '../unit/analysis/support';
+import { runScenariosOnQueue } from '@/lib/server/jobs/power/queue';
+import { QUEUES } from '@/lib/server/jobs/chunk-queue';
 import { closeSharedRedis } from '@/lib/server/redis';
 import { POWER_PRIOR, powerDesign } from '../support/frozen-design';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
@@ -48,7 +52,7 @@ afterAll(async () => {
 
 /** The chunks a worker finished, by its own log. */
 function chunksDone(worker: Child): number[] {
-  return [...worker.output().matchAll(/chunk (\d+) of \S+ done/g)].map((m) => Number(m[1]));
+  return [...worker.output().matchAll(/power chunk (\d+) of \S+ done/g)].map((m) => Number(m[1]));
 }
 
 describe('power runs on the shared queue', () => {
@@ -70,7 +74,7 @@ describe('power runs on the shared queue', () => {
     const [doomed, survivor] = workers;
     const run = runScenariosOnQueue([scenario], { chunkSize: 20 });
     // killed outright (no chance to finish or give the chunk back) while it holds a chunk
-    const started = await doomed.waitFor(/chunk (\d+) of \S+ started/);
+    const started = await doomed.waitFor(/power chunk (\d+) of \S+ started/);
     doomed.process.kill('SIGKILL');
     const outcome = await run;
     expect(outcome![0]).toEqual(inProcess);
@@ -84,7 +88,7 @@ describe('power runs on the shared queue', () => {
     const big = { ...scenario, replications: 4000 };
     const outcome = await runScenariosOnQueue([big], { chunkSize: 10, onProgress: (n) => void (n >= 40 && (stop = true)), shouldStop: () => stop });
     expect(outcome).toBeNull();
-    const queue = new Queue(POWER_QUEUE, { connection: new Redis(testRedisUrl(), { maxRetriesPerRequest: null }) });
+    const queue = new Queue(QUEUES.power, { connection: new Redis(testRedisUrl(), { maxRetriesPerRequest: null }) });
     try {
       const deadline = Date.now() + 10_000;
       let counts = await queue.getJobCounts('wait', 'active', 'prioritized', 'delayed');
@@ -126,4 +130,14 @@ describe('power runs on the shared queue', () => {
     expect(chunksDone(workers[0]).length + chunksDone(workers[1]).length).toBeGreaterThan(0);
     expect(await AuditEvent.count({ where: { studyId: study.id, action: 'power-run.start' } })).toBe(1);
   }, 150_000);
+
+  it('refits participants on two worker processes exactly as one by one, in their order', async () => {
+    workers = await Promise.all([startQueueWorker(), startQueueWorker()]);
+    const data = simulateStudy({ design: refitDesign(), truth: refitTruth({ id: 'hyperbolic' }, 10), participants: 60, seed: 12 });
+    const options = { model: { id: 'hyperbolic' as const }, choice: { sensitivity: 10 }, confidence: 0.95 };
+    const queued = await runRefitsOnQueue(data, options);
+    expect(queued).toEqual(data.map((p) => refitParticipant(p, options)));
+    const refitChunks = (w: Child) => [...w.output().matchAll(/analysis chunk (\d+) of \S+ done/g)].length;
+    expect(refitChunks(workers[0]) + refitChunks(workers[1])).toBe(3); // 60 participants, 25 a chunk
+  }, 120_000);
 });

@@ -37,6 +37,19 @@ export type StudyAnalysis = {
   options: { model: AnalysisModels['model']; choice: AnalysisModels['choice']; alternative: 'two-sided' | 'greater'; zoneModel: ModelId | null; confidence: number };
 };
 
+const madeCalibrationChoice = (p: ParticipantData) => p.calibration.some((c) => c.choice !== null);
+
+/**
+ * The participants an analysis refits and tests, in their order: those the exclusion rules keep
+ * who made at least one calibration choice. Whoever refits them elsewhere (on worker processes)
+ * passes the refits back as `options.refits`.
+ *
+ * @example participantsToAnalyse([], rules) // → [] (no participants)
+ */
+export function participantsToAnalyse(participants: readonly ParticipantData[], exclusions: AnalysisOptions['exclusions']): ParticipantData[] {
+  return applyExclusions(participants, exclusions).kept.filter(madeCalibrationChoice);
+}
+
 /**
  * The whole analysis of a completed study, in the order a results section reports it:
  * exclusions (applyExclusions), observed against expected patterns per pair role
@@ -57,7 +70,7 @@ export function analyseStudy(participants: readonly ParticipantData[], options: 
   if (zoneChoice !== 'aic' && zoneChoice !== 'bic' && !MODEL_IDS.includes(zoneChoice)) throw new DesignInputError('zoneModel', `'aic', 'bic' or one of ${MODEL_IDS.join(', ')}`, zoneChoice);
   const confidence = options.confidence ?? 0.95;
   const exclusion = applyExclusions(participants, options.exclusions);
-  const kept = exclusion.kept.filter((p) => p.calibration.some((c) => c.choice !== null));
+  const kept = exclusion.kept.filter(madeCalibrationChoice);
   const refits = options.refits ? [...options.refits] : kept.map((p) => refitParticipant(p, { model: options.model, choice: options.choice, confidence }));
   const tests = reversalTests(kept, { alternative: options.alternative });
   const comparison = compareModels(refits);

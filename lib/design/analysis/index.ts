@@ -12,7 +12,7 @@ export { reversalTests, type ReversalTests, type SignTestResult } from './partic
 export { compareModels, type ModelComparison, type ModelSummary } from './compareModels';
 export { diagnoseZones, type ParticipantZone, type ZoneDiagnosis, type ZonePosition } from './diagnoseZones';
 export { applyExclusions, EXCLUSION_RULES, type ExclusionReport, type ExclusionRuleName, type ExclusionRules } from './applyExclusions';
-export { analyseStudy, type AnalysisOptions, type StudyAnalysis } from './analyseStudy';
+export { analyseStudy, participantsToAnalyse, type AnalysisOptions, type StudyAnalysis } from './analyseStudy';
 export { resultsParagraph, type ResultsContext } from './resultsParagraph';
 export { simulateStudy, type SimulatedParticipant, type SimulationOptions } from './simulateStudy';
 

@@ -1,6 +1,7 @@
-// `npm run worker`: a process that takes power chunks from the shared queue (REDIS_URL) and runs
-// them on its own pool of worker threads, on this machine or any other that reaches the same Redis.
-// It needs no database: each chunk carries its whole scenario, and its tally goes back to Redis.
+// `npm run worker`: a process that takes chunks from the shared queues (REDIS_URL) — power-run
+// replicates and analysis refits — and runs them on its own pools of worker threads, on this machine
+// or any other that reaches the same Redis. It needs no database: each chunk carries its whole task
+// (a power chunk its full scenario), and its result goes back to Redis.
 //
 //   REDIS_URL=redis://host:port npm run worker [-- --threads N] [-- --verbose]
 //
@@ -8,12 +9,12 @@
 // chunks taken over by another once their lock runs out (QUEUE_LOCK_MS).
 import { parseArgs } from 'node:util';
 import { Worker, type Job } from 'bullmq';
+import type { Piscina } from 'piscina';
 import { queueEnv } from '@/lib/server/env';
 import { closeSharedRedis, sharedRedis } from '@/lib/server/redis';
 import { createThreadPool } from './thread-pool';
 import { defaultWorkerCount } from './power/run-scenario';
-import { POWER_QUEUE, RUN_KEYS_TTL_S, runKeys, type ChunkJob } from './power/queue';
-import type { ChunkResult, ChunkTask } from './power/worker';
+import { encodeResult, QUEUES, RUN_KEYS_TTL_S, runKeys, type QueueJob, type QueuedChunk } from './chunk-queue';
 
 const { values: flags } = parseArgs({ options: { threads: { type: 'string' }, verbose: { type: 'boolean', default: false } } });
 const log = (message: string) => console.log(`[switchback worker ${process.pid}] ${message}`);
@@ -21,64 +22,71 @@ const log = (message: string) => console.log(`[switchback worker ${process.pid}]
 const { redisUrl, lockMs } = queueEnv();
 const redis = sharedRedis('queue');
 if (!redisUrl || !redis) {
-  console.error('[switchback worker] REDIS_URL is not set: a worker takes power chunks from the shared Redis (see README, "Several machines").');
+  console.error('[switchback worker] REDIS_URL is not set: a worker takes chunks from the shared Redis (see README, "Several machines").');
   process.exit(2);
 }
 const threads = flags.threads ? Math.max(1, Math.min(16, Number.parseInt(flags.threads, 10) || 1)) : defaultWorkerCount();
-const pool = createThreadPool<ChunkTask, ChunkResult>('power', threads);
 
-/** Runs one chunk unless its run was cancelled; a cancel arriving mid-chunk stops the thread's task. */
-async function processChunk(job: Job<ChunkJob>): Promise<'done' | 'cancelled'> {
-  const { runKey, chunk, index, scenario, from, to } = job.data;
-  const keys = runKeys(runKey);
-  if ((await redis!.exists(keys.cancel)) || (await redis!.hexists(keys.results, String(chunk)))) return 'cancelled';
-  if (flags.verbose) log(`chunk ${chunk} of ${runKey} started`);
-  const abort = new AbortController();
-  const watch = setInterval(() => {
-    redis!.exists(keys.cancel).then(
-      (cancelled) => {
-        if (cancelled) abort.abort();
-      },
-      () => {}, // the next look retries
-    );
-  }, 250);
-  let result: ChunkResult;
-  try {
-    result = await pool.run({ key: runKey, index, scenario, from, to }, { signal: abort.signal });
-  } catch (error) {
-    if (abort.signal.aborted) return 'cancelled';
-    const text = error instanceof Error ? `${error.name}: ${error.message}` : String(error);
-    await redis!.set(keys.error, text, 'EX', RUN_KEYS_TTL_S, 'NX');
-    throw error;
-  } finally {
-    clearInterval(watch);
-  }
-  // first write wins: a chunk retried after its worker died is not stored (or counted) twice
-  await redis!.multi().hsetnx(keys.results, String(chunk), JSON.stringify(result)).expire(keys.results, RUN_KEYS_TTL_S).exec();
-  if (flags.verbose) log(`chunk ${chunk} of ${runKey} done`);
-  return 'done';
+/** The processor of one queue: runs a chunk on `pool` unless its run was cancelled; a cancel mid-chunk stops the thread's task. */
+function processorFor(job: QueueJob, pool: Piscina) {
+  return async (queued: Job<QueuedChunk<unknown>>): Promise<'done' | 'cancelled'> => {
+    const { runKey, chunk, task } = queued.data;
+    const keys = runKeys(runKey);
+    if ((await redis!.exists(keys.cancel)) || (await redis!.hexists(keys.results, String(chunk)))) return 'cancelled';
+    if (flags.verbose) log(`${job} chunk ${chunk} of ${runKey} started`);
+    const abort = new AbortController();
+    const watch = setInterval(() => {
+      redis!.exists(keys.cancel).then(
+        (cancelled) => {
+          if (cancelled) abort.abort();
+        },
+        () => {}, // the next look retries
+      );
+    }, 250);
+    let result: unknown;
+    try {
+      result = await pool.run(task, { signal: abort.signal });
+    } catch (error) {
+      if (abort.signal.aborted) return 'cancelled';
+      const text = error instanceof Error ? `${error.name}: ${error.message}` : String(error);
+      await redis!.set(keys.error, text, 'EX', RUN_KEYS_TTL_S, 'NX');
+      throw error;
+    } finally {
+      clearInterval(watch);
+    }
+    // first write wins: a chunk retried after its worker died is not stored (or counted) twice
+    await redis!.multi().hsetnx(keys.results, String(chunk), encodeResult(result)).expire(keys.results, RUN_KEYS_TTL_S).exec();
+    if (flags.verbose) log(`${job} chunk ${chunk} of ${runKey} done`);
+    return 'done';
+  };
 }
 
-const worker = new Worker<ChunkJob>(POWER_QUEUE, processChunk, {
-  connection: redis,
-  concurrency: threads,
-  lockDuration: lockMs,
-  stalledInterval: Math.max(500, Math.round(lockMs / 2)),
-  // a chunk whose worker dies is handed on; past this many deaths the chunk fails the run
-  maxStalledCount: 5,
-});
-worker.on('failed', (job, error) => log(`chunk ${job?.data.chunk ?? '?'} failed: ${error.message}`));
-worker.on('error', (error) => log(`queue error: ${error.message}`));
-await worker.waitUntilReady();
-log(`taking power chunks from ${redisUrl.replace(/\/\/[^@/]*@/, '//…@')} on ${threads} thread${threads === 1 ? '' : 's'} (lock ${lockMs} ms)`);
+const pools = (['power', 'analysis'] as const).map((job) => ({ job, pool: createThreadPool(job, threads) }));
+const workers = pools.map(
+  ({ job, pool }) =>
+    new Worker(QUEUES[job], processorFor(job, pool), {
+      connection: redis,
+      concurrency: threads,
+      lockDuration: lockMs,
+      stalledInterval: Math.max(500, Math.round(lockMs / 2)),
+      // a chunk whose worker dies is handed on; past this many deaths the chunk fails its run
+      maxStalledCount: 5,
+    }),
+);
+for (const worker of workers) {
+  worker.on('failed', (queued, error) => log(`${worker.name} chunk ${queued?.data.chunk ?? '?'} failed: ${error.message}`));
+  worker.on('error', (error) => log(`queue error: ${error.message}`));
+}
+await Promise.all(workers.map((w) => w.waitUntilReady()));
+log(`taking power chunks and refits from ${redisUrl.replace(/\/\/[^@/]*@/, '//…@')} on ${threads} thread${threads === 1 ? '' : 's'} (lock ${lockMs} ms)`);
 
 let closing = false;
 async function close(code: number) {
   if (closing) return;
   closing = true;
   log('finishing the chunks in hand ...');
-  await worker.close();
-  await pool.destroy();
+  await Promise.all(workers.map((w) => w.close()));
+  await Promise.all(pools.map(({ pool }) => pool.destroy()));
   await closeSharedRedis();
   process.exit(code);
 }

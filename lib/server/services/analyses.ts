@@ -3,7 +3,10 @@ import { db } from '@/db';
 import { Analysis, User } from '@/db/models';
 import { ConflictError, NotFoundError, ValidationError } from '@/lib/server/errors';
 import { figurePng } from '@/lib/server/figures/png';
-import { analyseStudy, ANALYSIS_ENGINE_VERSION, designChoiceModel, DesignInputError, resultsParagraph, type ModelId } from '@/lib/design';
+import { analyseStudy, ANALYSIS_ENGINE_VERSION, designChoiceModel, DesignInputError, participantsToAnalyse, resultsParagraph, type ModelId, type ParticipantData, type ParticipantRefit, type RefitOptions } from '@/lib/design';
+import { queueEnv } from '@/lib/server/env';
+import { queueWorkerCount } from '@/lib/server/jobs/chunk-queue';
+import { runRefitsOnQueue } from '@/lib/server/jobs/analysis/queue';
 import { personRecordsCsv } from '@/lib/shared/csv';
 import { patternsSvg, zonesSvg } from '@/lib/shared/figures/results-figures';
 import { storeAnalysis, type StoredAnalysis } from '@/lib/shared/results/stored-analysis';
@@ -38,6 +41,22 @@ function json<T>(value: unknown): T {
 }
 
 /**
+ * With REDIS_URL and at least one `npm run worker` listening, the participants' refits (the bulk
+ * of an analysis) go to the shared queue; otherwise, or when the queue refuses (a bad setting is
+ * then refused by analyseStudy itself, naming the field), undefined: analyseStudy refits here.
+ */
+async function refitsOnQueue(data: ParticipantData[], models: Pick<RefitOptions, 'model' | 'choice'>, exclusions: AnalysisCreate['exclusions']): Promise<ParticipantRefit[] | undefined> {
+  if (queueEnv().redisUrl === null || (await queueWorkerCount('analysis')) === 0) return undefined;
+  try {
+    // confidence 0.95: analyseStudy's own, so the refits are the ones it would compute
+    return await runRefitsOnQueue(participantsToAnalyse(data, exclusions), { ...models, confidence: 0.95, label: 'analysis' });
+  } catch (error) {
+    console.warn(`[switchback] refits on the queue failed, refitting in this process: ${error instanceof Error ? error.message : error}`);
+    return undefined;
+  }
+}
+
+/**
  * Runs and saves an analysis: the rules are stated in the request before any result exists,
  * the analysis is computed from every participant served with the frozen version (analyseStudy
  * in the core) and stored with its name, the next version number for that name, the design's
@@ -56,7 +75,9 @@ export async function createAnalysis(actorId: number, studyId: number, input: An
   let analysis;
   try {
     // The frozen design's own γ, the one the probe-items API served estimates with: the refit holds it fixed.
-    analysis = analyseStudy(data, { model: content.spec.model, choice: designChoiceModel(content.spec), exclusions: input.exclusions, alternative: input.alternative, alpha: input.alpha, zoneModel: input.zoneModel as ModelId | 'aic' | 'bic' });
+    const models = { model: content.spec.model, choice: designChoiceModel(content.spec) };
+    const refits = await refitsOnQueue(data, models, input.exclusions);
+    analysis = analyseStudy(data, { ...models, refits, exclusions: input.exclusions, alternative: input.alternative, alpha: input.alpha, zoneModel: input.zoneModel as ModelId | 'aic' | 'bic' });
   } catch (error) {
     if (error instanceof DesignInputError) throw new ValidationError([{ path: error.field, message: error.message }], 'The analysis cannot be run with these settings.');
     throw error;

@@ -9,6 +9,7 @@ import {
   fitModel,
   packChoices,
   participantChoices,
+  participantsToAnalyse,
   DesignInputError,
   diagnoseZones,
   preferenceGaps,
@@ -190,6 +191,16 @@ describe('whole analysis and its paragraph', () => {
     choice: { sensitivity: 10 },
     exclusions: { attentionCheck: true, flaggedEstimates: true, incompleteBlocks: true, responseTimeFloor: { enabled: false, ms: 200 } },
     alternative: 'greater',
+  });
+
+  it('takes refits computed elsewhere (worker processes) for the participants participantsToAnalyse names, with the same result', () => {
+    const rules = { attentionCheck: true, flaggedEstimates: true, incompleteBlocks: true, responseTimeFloor: { enabled: false, ms: 200 } };
+    const kept = participantsToAnalyse(data, rules);
+    expect(kept).toHaveLength(analysis.participantsAnalysed);
+    expect(kept.length).toBeLessThan(data.length); // the attention failures are left out
+    const refits = kept.map((p) => refitParticipant(p, { model: { id: 'hyperbolic' }, choice: { sensitivity: 10 }, confidence: 0.95 }));
+    expect(analyseStudy(data, { model: { id: 'hyperbolic' }, choice: { sensitivity: 10 }, exclusions: rules, alternative: 'greater', refits })).toEqual(analysis);
+    expect(participantsToAnalyse([], rules)).toEqual([]);
   });
 
   it('is reproducible from the seed', () => {
