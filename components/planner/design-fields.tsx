@@ -93,6 +93,18 @@ export function DesignFields({ register, errors: e, values, priors }: Props) {
         <TextField label="Items per magnitude" type="number" step="1" {...register('calibration.itemsPerMagnitude', num)} error={e.calibration?.itemsPerMagnitude?.message} />
         <TextField label="Shortest calibration delay (days)" type="number" step="1" {...register('calibration.minDelay', num)} error={e.calibration?.minDelay?.message} />
         <TextField label="Longest calibration delay (days)" type="number" step="1" {...register('calibration.maxDelay', num)} error={e.calibration?.maxDelay?.message} />
+        <label className="flex items-center gap-2 text-sm sm:col-span-3">
+          <input type="checkbox" {...register('calibration.adaptive.enabled')} />
+          <span>
+            <TermHelp id="adaptive-calibration">Adaptive calibration</TermHelp>: each participant’s next question is the one expected to tell most about their rates (adaptive design optimisation)
+          </span>
+        </label>
+        {values.calibration?.adaptive?.enabled ? (
+          <>
+            <TextField label="Most adaptive items (both magnitudes)" type="number" step="1" {...register('calibration.adaptive.maxItems', num)} error={e.calibration?.adaptive?.maxItems?.message} hint="replaces the fixed block’s 2 × items per magnitude" />
+            <TextField label="Stop at posterior SD of ln k and ln K" type="number" step="any" {...register('calibration.adaptive.targetSd', num)} error={e.calibration?.adaptive?.targetSd?.message} hint="0 asks every item; 0.3 is about ±35 % in k" />
+          </>
+        ) : null}
       </fieldset>
     </div>
   );

@@ -159,8 +159,14 @@ export function NewRunForm() {
         <div className="grid gap-4 sm:grid-cols-3">
           <TextField label="Choice sensitivity γ (per unit of the larger amount)" inputMode="decimal" value={current.gamma} onChange={set('gamma')} error={err('truth.gamma')} />
           <TextField label="Lapse rate ε" inputMode="decimal" value={current.lapse} onChange={set('lapse')} error={err('truth.lapse')} />
-          <SelectField label="Calibration block" value={current.calibration} onChange={set('calibration')}>
+          <SelectField
+            label="Calibration block"
+            value={current.calibration}
+            onChange={set('calibration')}
+            hint="Adaptive: each simulated person is asked the items adaptive design optimisation picks (the design’s stop rule, else 12 items), to compare with the fixed block."
+          >
             <option value="simulated">Simulated, rates re-estimated</option>
+            <option value="adaptive">Adaptive calibration simulated (slower)</option>
             <option value="known">Not simulated: rates known</option>
           </SelectField>
         </div>

@@ -162,6 +162,19 @@ export const GLOSSARY: GlossaryEntry[] = [
     group: 'Pairs and blocks',
   },
   {
+    id: 'adaptive-calibration',
+    term: 'Adaptive calibration (adaptive design optimisation)',
+    aliases: ['adaptive calibration', 'adaptive design optimisation', 'expected information gain', 'candidate set'],
+    short: 'Stage 1 asks one question at a time, each the candidate expected to tell most about this person’s k and K given the answers so far.',
+    body: 'A posterior over ln k, ln K (and the delay sensitivity where the model has it) starts at the study’s prior and is updated after each answer with the design’s choice model. The next question, from a fixed candidate set of amounts × delays, maximises the mutual information between its answer and the rates. Calibration stops after the most items allowed or once the posterior SD of ln k and ln K is below the target; stage 2 is built at the posterior medians.',
+    formulas: ['I(c) = H(p̄_c) − Σ_θ π(θ) H(p_c(θ)),  H(p) = −p ln p − (1 − p) ln(1 − p)'],
+    sources: [
+      'Myung, J. I., Cavagnaro, D. R., & Pitt, M. A. (2013). A tutorial on adaptive design optimization. Journal of Mathematical Psychology, 57(3–4), 53–67.',
+      'Cavagnaro, D. R., Myung, J. I., Pitt, M. A., & Kujala, J. V. (2010). Adaptive design optimization: A mutual information-based approach to model discrimination in cognitive science. Neural Computation, 22(4), 887–905.',
+    ],
+    group: 'Pairs and blocks',
+  },
+  {
     id: 'frozen-design',
     term: 'Frozen design',
     aliases: ['frozen version', 'freeze'],

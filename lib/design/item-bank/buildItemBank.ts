@@ -1,6 +1,7 @@
 import { DesignInputError } from '../DesignInputError';
 import { createRandom } from '../random';
 import { extrapolationWarning, type ExtrapolationWarning } from '../extrapolationWarning';
+import { adaptiveBlock, type AdaptiveBlock } from './adaptiveBlock';
 import { assembleBlock } from './assembleBlock';
 import { calibrationBlock, type CalibrationRounding } from './calibrationBlock';
 import { pairDelays, type PairDelays } from './pairDelays';
@@ -35,6 +36,8 @@ export type ItemBank = {
   rounding: RoundingReport;
   extrapolation: ExtrapolationWarning | null;
   notes: string[];
+  /** the adaptive calibration's stop rule and candidate set; null when the design uses the fixed block alone */
+  adaptive: AdaptiveBlock | null;
 };
 
 /** Default fewest other items between the two views of a pair (ours: enough that the second view is not read as a repeat). */
@@ -70,7 +73,14 @@ export function buildItemBank(design: BankDesign, options: PresentationOptions &
   const common = { random, minGap, currency: spec.currency, delayUnit };
   const calBlock = assembleBlock(calibration.items, common);
   const probeBlock = assembleBlock(pairs.items, common);
+  const adaptive = adaptiveBlock(design, { seed, delayUnit, coverDelay: cover });
   const notes: string[] = [];
+  if (adaptive) {
+    notes.push(
+      `Calibration is adaptive: each participant is asked up to ${adaptive.maxItems} items chosen one at a time from the ${adaptive.candidates.length} candidates by expected information (adaptive design optimisation), ` +
+        `stopping early once the posterior SD of ln k and ln K is at most ${adaptive.targetSd}. The fixed calibration block stays in the bank for software that cannot ask the next-item step.`,
+    );
+  }
   if (delays.omitted.lateAnchors || delays.omitted.soonAnchors) {
     notes.push(
       `${delays.omitted.lateAnchors} late and ${delays.omitted.soonAnchors} soon anchor(s) did not fit (no room below the zone, or beyond the ${spec.lateDelayLimit}-day limit).`,
@@ -99,5 +109,6 @@ export function buildItemBank(design: BankDesign, options: PresentationOptions &
       probeDelays: pairs.items.filter((i) => i.view === 'far').map((i) => i.laterDelay),
     }),
     notes,
+    adaptive,
   };
 }

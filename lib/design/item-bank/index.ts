@@ -11,3 +11,5 @@ export { pairItems, type DraftItem, type PairRoundingEntry } from './pairItems';
 export { calibrationBlock, type CalibrationRounding } from './calibrationBlock';
 export { buildItemBank, DEFAULT_MIN_GAP, type ItemBank, type RoundingReport } from './buildItemBank';
 export { serveParticipant, participantSeed, type RateSummary, type ServeFlag, type ServedItems } from './serveParticipant';
+export { adaptiveBlock, adaptiveEngine, type AdaptiveBlock } from './adaptiveBlock';
+export { nextCalibrationItem, type CalibrationAnswer, type CalibrationStep } from './nextCalibrationItem';

@@ -9,6 +9,9 @@ import { ItemBankInputError } from './ItemBankInputError';
 import { pairDelays } from './pairDelays';
 import { pairItems, type PairRoundingEntry } from './pairItems';
 import type { BankDesign, BankItem, ChosenOption, LocatePoint } from './types';
+import { adaptiveStep, posteriorRates, type PosteriorRate } from '../adaptive/adaptiveStep';
+import type { AdaptiveAnswer } from '../adaptive/adaptiveCalibration';
+import { adaptiveEngine, type AdaptiveBlock } from './adaptiveBlock';
 
 /** Why a participant gets the fallback set instead of personalised items. */
 export type ServeFlag = 'all-sooner' | 'all-later' | 'non-monotone' | 'no-zone';
@@ -49,6 +52,11 @@ const FALLBACK_FLAGS: readonly EstimateFlag[] = ['non-monotone', 'all-sooner', '
  *    non-monotone, all-sooner or all-later, or whose estimates have no reversal zone within the
  *    limits, gets the bank's design-point set (built at the prior medians) and the flag.
  *    Population designs always serve the shared set.
+ * With adaptive calibration (the bank's `adaptive` block) and responses naming its candidates, the
+ *    estimates are the grid posterior's instead (posteriorRates: medians, SDs of ln k, 95 % intervals)
+ *    after the answered candidates — the posterior does not depend on the order of the answers — and
+ *    no fallback flag is raised short of 'no-zone'. Stage 2 is served only once calibration is over
+ *    (stop rule met), else ItemBankInputError naming `responses`.
  * 4. The block is counterbalanced and ordered with a seed mixed from the bank's seed and the
  *    participant id, so the same participant and responses always get the same items.
  *
@@ -59,19 +67,38 @@ export function serveParticipant(
   bank: ItemBank,
   request: { participantId: string; responses: Record<string, string>; locate: LocatePoint },
 ): ServedItems {
-  const calibration = bank.items.filter((i) => i.role === 'calibration');
-  const choices = readResponses(bank, request.responses);
-  const fitItems: CalibrationItem[] = calibration.map((i) => ({
-    magnitude: i.magnitude!,
-    soonerAmount: i.soonerAmount,
-    soonerDelay: i.soonerDelay,
-    laterAmount: i.laterAmount,
-    laterDelay: i.laterDelay,
-    targetRate: Number.NaN, // not read by estimateRates, which computes each tie rate itself
-  }));
-  const fit = estimateRates(calibration.map((i) => choices.get(i.id)!), fitItems, design.spec.model, designChoiceModel(design.spec));
-  const rates = { kSmall: fit.small.rate, kLarge: fit.large.rate };
-  let flag: ServeFlag | null = (FALLBACK_FLAGS.find((f) => fit.small.flags.includes(f) || fit.large.flags.includes(f)) as ServeFlag | undefined) ?? null;
+  const adaptive = bank.adaptive && isAdaptive(bank.adaptive, request.responses) ? bank.adaptive : null;
+  let estimates: ServedItems['estimates'];
+  let calibrationDelays: number[];
+  let flag: ServeFlag | null;
+  if (adaptive) {
+    const answered = readAdaptiveResponses(adaptive, request.responses);
+    const step = adaptiveStep(adaptiveEngine(design, adaptive), { answers: answered.answers, seed: 0, stop: { maxItems: adaptive.maxItems, targetSd: adaptive.targetSd } });
+    if (!step.done) {
+      throw new ItemBankInputError([{ path: 'responses', message: `Adaptive calibration is not finished after ${step.answered} answers: ask the next calibration item first.` }]);
+    }
+    const posterior = posteriorRates(step.summary);
+    const summary = (r: PosteriorRate): RateSummary => ({ rate: r.rate, standardErrorLog: r.standardErrorLog, interval: r.interval, flags: [] });
+    estimates = { kSmall: summary(posterior.kSmall), kLarge: summary(posterior.kLarge), choiceSensitivity: designChoiceModel(design.spec).sensitivity };
+    calibrationDelays = answered.delays;
+    flag = null;
+  } else {
+    const calibration = bank.items.filter((i) => i.role === 'calibration');
+    const choices = readResponses(bank, request.responses);
+    const fitItems: CalibrationItem[] = calibration.map((i) => ({
+      magnitude: i.magnitude!,
+      soonerAmount: i.soonerAmount,
+      soonerDelay: i.soonerDelay,
+      laterAmount: i.laterAmount,
+      laterDelay: i.laterDelay,
+      targetRate: Number.NaN, // not read by estimateRates, which computes each tie rate itself
+    }));
+    const fit = estimateRates(calibration.map((i) => choices.get(i.id)!), fitItems, design.spec.model, designChoiceModel(design.spec));
+    estimates = { kSmall: summary(fit.small), kLarge: summary(fit.large), choiceSensitivity: fit.sensitivity };
+    calibrationDelays = calibration.map((i) => i.laterDelay);
+    flag = (FALLBACK_FLAGS.find((f) => fit.small.flags.includes(f) || fit.large.flags.includes(f)) as ServeFlag | undefined) ?? null;
+  }
+  const rates = { kSmall: estimates.kSmall.rate, kLarge: estimates.kLarge.rate };
   let delays = null;
   if (design.spec.mode === 'personalised' && flag === null) {
     const point = request.locate(rates);
@@ -87,11 +114,11 @@ export function serveParticipant(
   const check = request.responses['check-calibration'];
   return {
     participantId: request.participantId,
-    estimates: { kSmall: summary(fit.small), kLarge: summary(fit.large), choiceSensitivity: fit.sensitivity },
+    estimates,
     flag,
     itemSet,
     extrapolation: extrapolationWarning({
-      calibrationDelays: calibration.map((i) => i.laterDelay),
+      calibrationDelays,
       probeDelays: pairs.items.filter((i) => i.view === 'far').map((i) => i.laterDelay),
     }),
     attentionCheck: check === undefined ? 'not-answered' : check === 'sooner' ? 'passed' : 'failed',
@@ -134,4 +161,30 @@ export function participantSeed(seed: number, participantId: string): number {
     h = Math.imul(h, 0x01000193) >>> 0;
   }
   return h;
+}
+
+/** True when the responses answer the adaptive candidate set (any key is a candidate id) rather than the fixed block. */
+function isAdaptive(block: AdaptiveBlock, responses: Record<string, string>): boolean {
+  const ids = new Set(block.candidates.map((c) => c.id));
+  return Object.keys(responses ?? {}).some((id) => ids.has(id));
+}
+
+function readAdaptiveResponses(block: AdaptiveBlock, responses: Record<string, string>): { answers: AdaptiveAnswer[]; delays: number[] } {
+  const issues: Array<{ path: string; message: string }> = [];
+  const index = new Map(block.candidates.map((c, i) => [c.id, i]));
+  const answers: AdaptiveAnswer[] = [];
+  const delays: number[] = [];
+  for (const [id, value] of Object.entries(responses)) {
+    const at = index.get(id);
+    if (id === 'check-calibration') continue;
+    if (at === undefined) issues.push({ path: `responses.${id}`, message: `${id} is not a candidate of this design's adaptive calibration (answers to adaptive and fixed calibration items cannot be mixed).` });
+    else if (value !== 'sooner' && value !== 'later') issues.push({ path: `responses.${id}`, message: `Choose 'sooner' or 'later' for ${id}.` });
+    else {
+      answers.push({ index: at, choice: value === 'later' ? 'LL' : 'SS' });
+      delays.push(block.candidates[at].laterDelay);
+    }
+  }
+  if (answers.length > block.maxItems) issues.push({ path: 'responses', message: `Adaptive calibration asks at most ${block.maxItems} items; ${answers.length} were answered.` });
+  if (issues.length) throw new ItemBankInputError(issues);
+  return { answers, delays };
 }

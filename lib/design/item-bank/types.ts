@@ -51,7 +51,7 @@ export type BankDesign = {
     probePairs: number;
     lateAnchors: number;
     soonAnchors: number;
-    calibration: { itemsPerMagnitude: number; minDelay: number; maxDelay: number };
+    calibration: { itemsPerMagnitude: number; minDelay: number; maxDelay: number; adaptive?: { maxItems: number; targetSd: number } };
     /** choice sensitivity γ per unit of the larger amount (designChoiceModel); default DEFAULT_CHOICE_SENSITIVITY */
     choiceSensitivity?: number;
   };

@@ -56,6 +56,11 @@ export class CalibrationModel {
     this.blocks = [block('small'), block('large')];
   }
 
+  /** Both magnitudes' estimates, small first (answer for each in turn, so the draws keep their order). */
+  answerBoth(kTrue: number, KTrue: number, s: number, random: SeededRandom): [CalibrationEstimate, CalibrationEstimate] {
+    return [this.answer(0, kTrue, s, random), this.answer(1, KTrue, s, random)];
+  }
+
   /**
    * Simulates one magnitude's answers from a true rate (0 = small, 1 = large) and the
    * participant's true delay sensitivity s, and returns the estimate.

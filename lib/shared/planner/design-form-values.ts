@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { designSpecSchema, type DesignSpec } from '@/lib/shared/validations/planner';
+import { DEFAULT_ADAPTIVE_STOP } from '@/lib/design';
 import { DEFAULT_CHOICE_SENSITIVITY } from './types';
 
 /**
@@ -8,8 +9,9 @@ import { DEFAULT_CHOICE_SENSITIVITY } from './types';
  * loses nothing. `toSpec` keeps only what the chosen options use; the zod issue paths of the
  * spec are the same as the form's field names.
  */
-export type DesignFormValues = Omit<DesignSpec, 'model' | 'soonDelay' | 'choiceSensitivity'> & {
+export type DesignFormValues = Omit<DesignSpec, 'model' | 'soonDelay' | 'choiceSensitivity' | 'calibration'> & {
   model: { id: DesignSpec['model']['id']; sensitivity: number; presentBias: number };
+  calibration: Omit<DesignSpec['calibration'], 'adaptive'> & { adaptive: { enabled: boolean; maxItems: number; targetSd: number } };
   soonDelay: { mode: 'fixed' | 'optimised'; days: number; min: number; max: number };
   choiceSensitivity: number;
 };
@@ -22,7 +24,9 @@ export function toSpec(v: DesignFormValues): DesignSpec {
   if (USES_S.has(v.model.id)) model.sensitivity = v.model.sensitivity;
   if (v.model.id === 'quasi-hyperbolic') model.presentBias = v.model.presentBias;
   const soonDelay: DesignSpec['soonDelay'] = v.soonDelay.mode === 'fixed' ? { mode: 'fixed', days: v.soonDelay.days } : { mode: 'optimised', min: v.soonDelay.min, max: v.soonDelay.max };
-  return { ...v, model, soonDelay, choiceSensitivity: v.choiceSensitivity };
+  const { adaptive, ...fixedBlock } = v.calibration;
+  const calibration: DesignSpec['calibration'] = adaptive.enabled ? { ...fixedBlock, adaptive: { maxItems: adaptive.maxItems, targetSd: adaptive.targetSd } } : fixedBlock;
+  return { ...v, model, soonDelay, calibration, choiceSensitivity: v.choiceSensitivity };
 }
 
 /** Form values for a stored spec, with defaults for the controls the spec does not use. */
@@ -32,6 +36,7 @@ export function toForm(spec: DesignSpec): DesignFormValues {
     ...spec,
     model: { id: spec.model.id, sensitivity: spec.model.sensitivity ?? 1, presentBias: spec.model.presentBias ?? 0.9 },
     soonDelay: soon.mode === 'fixed' ? { mode: 'fixed', days: soon.days, min: Math.max(1, Math.min(soon.days, 7)), max: Math.max(soon.days, 60) } : { mode: 'optimised', days: soon.min, min: soon.min, max: soon.max },
+    calibration: { ...spec.calibration, adaptive: spec.calibration.adaptive ? { enabled: true, ...spec.calibration.adaptive } : { enabled: false, ...DEFAULT_ADAPTIVE_STOP } },
     choiceSensitivity: spec.choiceSensitivity ?? DEFAULT_CHOICE_SENSITIVITY,
   };
 }

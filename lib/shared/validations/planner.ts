@@ -53,6 +53,16 @@ export const calibrationSchema = z.strictObject({
   itemsPerMagnitude: z.number().int().min(4, 'Use at least 4 calibration items per magnitude.').max(40, 'Use at most 40 calibration items per magnitude.'),
   minDelay: z.number().int().min(1).max(MAX_LATE_DELAY_DAYS),
   maxDelay: z.number().int().min(1).max(MAX_LATE_DELAY_DAYS),
+  /**
+   * Adaptive calibration (adaptive design optimisation): items chosen one at a time by expected
+   * information from a candidate set over the same delays; absent = the fixed block.
+   */
+  adaptive: z
+    .strictObject({
+      maxItems: z.number().int().min(2, 'Ask at least 2 adaptive calibration items.').max(80, 'Ask at most 80 adaptive calibration items.'),
+      targetSd: z.number().min(0, 'The target SD of ln k must be 0 or more.').max(2, 'The target SD of ln k must be at most 2.'),
+    })
+    .optional(),
 });
 
 /** The fields a user edits on a candidate design. */

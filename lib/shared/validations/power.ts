@@ -80,7 +80,7 @@ export const powerRunSpecSchema = z
     designVersionId: z.number({ error: 'Choose a frozen design version.' }).int().positive('Choose a frozen design version.'),
     label: nameText({ label: 'The label', min: 0, max: 120, tooLong: 'Keep the label under 120 characters.' }).default(''),
     truth: powerTruthSchema,
-    calibration: z.enum(['simulated', 'known']),
+    calibration: z.enum(['simulated', 'adaptive', 'known']),
     /** stress truths simulated beside the assumed one; absent in runs saved before they existed */
     stress: z.array(stressTruthSchema).max(5, 'Add at most five stress truths.').default([]),
     test: z.strictObject({

@@ -79,3 +79,26 @@ export function readParticipantsQuery(params: URLSearchParams): { query: Partici
 export const sessionSettingsSchema = z.strictObject({
   idleMinutes: z.number({ error: 'Give the idle time in minutes.' }).int('Give whole minutes.').min(5, 'At least 5 minutes.').max(43_200, 'At most 30 days (43,200 minutes).'),
 });
+
+// Adaptive calibration (issue 17): the session API's "next calibration item" step.
+/**
+ * POST /api/v1/studies/{id}/calibration-next: step n of a participant's adaptive calibration. Step 0
+ * carries no answer and returns the first item; step n ≥ 1 carries the answer to the item step n − 1
+ * returned. Sending a step again with the same answer returns the same reply.
+ */
+export const calibrationNextRequestSchema = z
+  .strictObject({
+    participantId: participantIdSchema,
+    step: z.number({ error: 'Give the step: 0 for the first item, then the number of answers given so far.' }).int('Give the step as a whole number.').min(0, 'The step is 0 or more.').max(200, 'The step is at most 200.'),
+    answer: z
+      .strictObject({
+        itemId: z.string({ error: 'Give the item id.' }).min(1, 'Give the item id.').max(64, 'Item ids are at most 64 characters.'),
+        chosen: z.enum(['sooner', 'later'], { error: "Choose 'sooner' (the smaller-sooner option) or 'later' (the larger-later one)." }),
+      })
+      .optional(),
+  })
+  .superRefine((body, ctx) => {
+    if (body.step === 0 && body.answer) ctx.addIssue({ code: 'custom', path: ['answer'], message: 'Step 0 asks for the first item: send no answer.' });
+    if (body.step > 0 && !body.answer) ctx.addIssue({ code: 'custom', path: ['answer'], message: 'Send the answer to the item the previous step returned.' });
+  });
+export type CalibrationNextRequest = z.infer<typeof calibrationNextRequestSchema>;
