@@ -79,3 +79,24 @@ export function defaultSpec(name: string, priorSetId: number): DesignSpec {
     choiceSensitivity: DEFAULT_CHOICE_SENSITIVITY,
   };
 }
+
+/** Whether two plain values (objects, arrays, numbers, text) are the same, whatever the key order; NaN equals nothing. */
+function sameValue(a: unknown, b: unknown): boolean {
+  if (a === b) return true;
+  if (typeof a !== 'object' || typeof b !== 'object' || a === null || b === null) return false;
+  if (Array.isArray(a) !== Array.isArray(b)) return false;
+  const keysA = Object.keys(a).filter((k) => (a as Record<string, unknown>)[k] !== undefined);
+  const keysB = Object.keys(b).filter((k) => (b as Record<string, unknown>)[k] !== undefined);
+  return keysA.length === keysB.length && keysA.every((k) => sameValue((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k]));
+}
+
+/**
+ * Whether the form holds edits the saved design does not have: the spec the values stand for
+ * against the saved spec, both read through the same toForm/toSpec round trip (so controls the
+ * chosen options do not use are not edits). Read from the values themselves, never from the
+ * form library's dirty flag, which a reset under a just-typed edit can clear.
+ * @example hasUnsavedEdits(toForm(spec), spec) === false
+ */
+export function hasUnsavedEdits(values: DesignFormValues, saved: DesignSpec): boolean {
+  return !sameValue(toSpec(values), toSpec(toForm(saved)));
+}
