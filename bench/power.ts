@@ -8,8 +8,11 @@
 // S1 + stress: the same with two stress truths added (delay sensitivity s ~ U(0.4, 0.9) per
 // participant, and choices half as sensitive, γ × 0.5): three curves, 6,000 replicates in all.
 // Target: the whole run in 5 s or less on a 2-core machine.
+// S1 + stress, calibration compared: the same three truths again with calibration delays spanning
+// the probes and delay sensitivity estimated in stage 1 (power-delay hyperbola): six curves. No
+// target; it shows what the other calibration costs in time and buys in probes inside the zone.
 import { summarisePower, type PowerScenario } from '@/lib/design/power';
-import { stressScenarios, type StressTruth } from '@/lib/design/power';
+import { calibrationVariant, stressScenarios, type StressTruth } from '@/lib/design/power';
 import { defaultWorkerCount, runScenario, runScenarios } from '@/lib/server/jobs/power/run-scenario';
 import { POWER_PRIOR, powerDesign } from '../tests/support/frozen-design';
 
@@ -58,6 +61,26 @@ export async function runPowerBench(): Promise<void> {
     console.log(
       `  ${labels[i].padEnd(16)} power at N = 20: ${(100 * at(20).power).toFixed(1)} %, N = 100: ${(100 * at(100).power).toFixed(1)} %, N = 200: ${(100 * last.power).toFixed(1)} %; ` +
         `probes in the true zone ${(100 * last.probesInTrueZone).toFixed(1)} %`,
+    );
+  });
+
+  const compared = [...scenarios, ...scenarios.map(calibrationVariant)];
+  const startedCompared = performance.now();
+  const both = await runScenarios(compared, { workers });
+  const secondsCompared = (performance.now() - startedCompared) / 1000;
+  if (!both) throw new Error('S1 with calibration compared did not finish');
+  console.log(`\nPower simulation S1 + 2 stress truths, calibration compared (6 × ${S1.replications} replications, ${workers} worker threads)`);
+  console.log(`  whole run: ${secondsCompared.toFixed(2)} s (no target)`);
+  labels.forEach((label, i) => {
+    const last = (j: number) => {
+      const summary = summarisePower(compared[j], both[j].tally, both[j].longestCalibrationDelay);
+      return summary.points[summary.points.length - 1];
+    };
+    const own = last(i);
+    const other = last(i + labels.length);
+    console.log(
+      `  ${label.padEnd(16)} probes in the true zone: today's block ${(100 * own.probesInTrueZone).toFixed(1)} %, spanning + s estimated ${(100 * other.probesInTrueZone).toFixed(1)} %; ` +
+        `power at N = 200: ${(100 * own.power).toFixed(1)} % vs ${(100 * other.power).toFixed(1)} %`,
     );
   });
 }

@@ -21,7 +21,7 @@ type Created = { secret: string; kind: 'server' | 'browser'; versionId: number }
 export function ApiKeyForm({ studyId, versions }: { studyId: number; versions: FrozenVersionDto[] }) {
   const create = useCreateApiKey(studyId);
   const [created, setCreated] = useState<Created | null>(null);
-  const [copied, setCopied] = useState(false);
+  const [copied, setCopied] = useState<boolean | null>(null);
   const [originsText, setOriginsText] = useState('');
   const form = useForm<ApiKeyCreateInput>({
     resolver: zodResolver(apiKeyCreateSchema),
@@ -31,7 +31,7 @@ export function ApiKeyForm({ studyId, versions }: { studyId: number; versions: F
   const kind = useWatch({ control: form.control, name: 'kind' });
   const submit = form.handleSubmit(async (input) => {
     setCreated(null);
-    setCopied(false);
+    setCopied(null);
     const result = await create.mutateAsync(input).catch(() => null);
     if (result) {
       setCreated({ secret: result.secret, kind: input.kind ?? 'server', versionId: input.designVersionId });
@@ -80,9 +80,10 @@ export function ApiKeyForm({ studyId, versions }: { studyId: number; versions: F
               type="button"
               size="sm"
               variant="secondary"
-              onClick={() => navigator.clipboard.writeText(created.secret).then(() => setCopied(true), () => setCopied(false))}
+              onClick={() => copySecret(created.secret).then(setCopied)}
+              data-testid="copy-secret"
             >
-              {copied ? 'Copied' : 'Copy key'}
+              {copied === true ? 'Copied' : 'Copy key'}
             </Button>
             {created.kind === 'browser' ? (
               <Button type="button" size="sm" variant="secondary" onClick={() => downloadStarter(studyId, created.versionId, created.secret)}>
@@ -90,9 +91,29 @@ export function ApiKeyForm({ studyId, versions }: { studyId: number; versions: F
               </Button>
             ) : null}
           </span>
+          {copied === false ? (
+            <span className="block text-danger-700" role="alert">
+              This browser did not let the page copy. The key is selected above: copy it with Ctrl+C (⌘C on a Mac).
+            </span>
+          ) : null}
           Switchback keeps only a hash of it. {created.kind === 'browser' ? 'A browser key is meant to be public: it only runs participant sessions from its listed origins.' : 'Store it in your session software\u2019s settings; if it is lost, revoke it and create a new one.'}
         </Notice>
       ) : null}
     </form>
   );
+}
+
+/**
+ * Copies the secret to the clipboard. Where the browser refuses (no clipboard outside https or
+ * localhost, or permission denied) the key's text is selected instead, so one Ctrl+C copies it.
+ */
+async function copySecret(secret: string): Promise<boolean> {
+  try {
+    await navigator.clipboard.writeText(secret);
+    return true;
+  } catch {
+    const code = document.querySelector('[data-testid="new-secret"]');
+    if (code) window.getSelection()?.selectAllChildren(code);
+    return false;
+  }
 }

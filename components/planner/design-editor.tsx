@@ -9,7 +9,7 @@ import { Card } from '@/components/ui/card';
 import { Notice } from '@/components/ui/notice';
 import { ApiClientError } from '@/lib/client/api';
 import { plannerKeys, useUpdateDesign, type DesignDto, type PriorSetDto } from '@/lib/client/planner';
-import { designFormSchema, toForm, toSpec, type DesignFormValues } from '@/lib/shared/planner/design-form-values';
+import { designFormSchema, hasUnsavedEdits, toForm, toSpec, type DesignFormValues } from '@/lib/shared/planner/design-form-values';
 import { designSpecSchema, type DesignSpec } from '@/lib/shared/validations/planner';
 import { DesignCharts } from './design-charts';
 import { DesignFields } from './design-fields';
@@ -51,8 +51,12 @@ export function DesignEditor({
     mode: 'onChange',
   });
   const values = useWatch({ control }) as DesignFormValues;
-  useUnsavedWarning(formState.isDirty);
-  useEffect(() => onDirtyChange?.(formState.isDirty), [formState.isDirty, onDirtyChange]);
+  // Unsaved = the values differ from the saved design. Not formState.isDirty: when the form's
+  // values are reset under an edit typed in the same instant (the reset that follows the first
+  // render of a cached design, or a refetch), react-hook-form keeps the edit but clears isDirty.
+  const dirty = hasUnsavedEdits(values, design.spec);
+  useUnsavedWarning(dirty);
+  useEffect(() => onDirtyChange?.(dirty), [dirty, onDirtyChange]);
   const parsed = designSpecSchema.safeParse(toSpec(values));
   const priorSet = priors.find((p) => p.id === Number(values.priorSetId)) ?? null;
   const prior = priorSet?.values ?? null;
@@ -86,17 +90,17 @@ export function DesignEditor({
             </Notice>
           ) : null}
           {update.error && !conflict && !(update.error instanceof ApiClientError && update.error.issues.length) ? <Notice tone="error">{update.error.message}</Notice> : null}
-          {saved && !formState.isDirty ? <Notice>Saved.</Notice> : null}
+          {saved && !dirty ? <Notice>Saved.</Notice> : null}
           {!canEdit ? <p className="text-xs text-ink-soft">You can read these settings; editors change them.</p> : null}
           <fieldset disabled={!canEdit}>
             <DesignFields register={register} errors={formState.errors} values={values} priors={priors} />
           </fieldset>
           {canEdit ? (
             <div className="flex items-center gap-3">
-              <Button type="submit" disabled={formState.isSubmitting || !formState.isDirty}>
+              <Button type="submit" disabled={formState.isSubmitting || !dirty}>
                 Save design
               </Button>
-              {formState.isDirty ? <span className="text-xs text-amber-700">Unsaved changes — the numbers on the right already show them</span> : null}
+              {dirty ? <span className="text-xs text-amber-700">Unsaved changes — the numbers on the right already show them</span> : null}
             </div>
           ) : null}
         </form>
@@ -113,7 +117,7 @@ export function DesignEditor({
             </div>
           ) : null}
         </Card>
-        <PowerPreview studyId={studyId} design={design} spec={parsed.success ? parsed.data : null} prior={priorSet} dirty={formState.isDirty} canRun={canEdit} />
+        <PowerPreview studyId={studyId} design={design} spec={parsed.success ? parsed.data : null} prior={priorSet} dirty={dirty} canRun={canEdit} />
         <EstimateCaution />
       </div>
     </div>

@@ -4,8 +4,8 @@ import type { FieldErrors, UseFormRegister } from 'react-hook-form';
 import { SelectField, TextField } from '@/components/ui/field';
 import type { PriorSetDto } from '@/lib/client/planner';
 import type { DesignFormValues } from '@/lib/shared/planner/design-form-values';
-import { MODEL_CHOICES } from '@/lib/shared/validations/planner';
-import { CRITERION_LABELS, MODEL_LABELS } from './labels';
+import { MODEL_CHOICES, STAGE_ONE_FIT_CHOICES } from '@/lib/shared/validations/planner';
+import { CRITERION_LABELS, MODEL_LABELS, STAGE_ONE_FIT_LABELS } from './labels';
 import { TermHelp } from '@/components/glossary/term-help';
 
 type Props = { register: UseFormRegister<DesignFormValues>; errors: FieldErrors<DesignFormValues>; values: DesignFormValues; priors: PriorSetDto[] };
@@ -93,6 +93,50 @@ export function DesignFields({ register, errors: e, values, priors }: Props) {
         <TextField label="Items per magnitude" type="number" step="1" {...register('calibration.itemsPerMagnitude', num)} error={e.calibration?.itemsPerMagnitude?.message} />
         <TextField label="Shortest calibration delay (days)" type="number" step="1" {...register('calibration.minDelay', num)} error={e.calibration?.minDelay?.message} />
         <TextField label="Longest calibration delay (days)" type="number" step="1" {...register('calibration.maxDelay', num)} error={e.calibration?.maxDelay?.message} />
+        <div className="sm:col-span-3 grid gap-3 sm:grid-cols-2">
+          <SelectField
+            label="Calibration delays"
+            {...register('calibration.placement')}
+            error={e.calibration?.placement?.message}
+            hint={
+              <>
+                spanning the probes raises the longest delay to the late delays the probes will use across the prior, in log-spaced levels (
+                <TermHelp id="calibration-spanning-probes">why</TermHelp>)
+              </>
+            }
+          >
+            <option value="range">Between the shortest and longest delay above</option>
+            <option value="span-probes">Spanning the probes’ late delays</option>
+          </SelectField>
+          <SelectField
+            label="Stage-1 model"
+            {...register('calibration.fit')}
+            error={e.calibration?.fit?.message}
+            hint={
+              <>
+                a model with a <TermHelp id="delay-sensitivity">delay sensitivity</TermHelp> s estimates s with k and K, and the probes are built under it (needs delays spanning the probes)
+              </>
+            }
+          >
+            {STAGE_ONE_FIT_CHOICES.map((f) => (
+              <option key={f} value={f}>
+                {STAGE_ONE_FIT_LABELS[f]}
+              </option>
+            ))}
+          </SelectField>
+        </div>
+        <label className="flex items-center gap-2 text-sm sm:col-span-3">
+          <input type="checkbox" {...register('calibration.adaptive.enabled')} />
+          <span>
+            <TermHelp id="adaptive-calibration">Adaptive calibration</TermHelp>: each participant’s next question is the one expected to tell most about their rates (adaptive design optimisation)
+          </span>
+        </label>
+        {values.calibration?.adaptive?.enabled ? (
+          <>
+            <TextField label="Most adaptive items (both magnitudes)" type="number" step="1" {...register('calibration.adaptive.maxItems', num)} error={e.calibration?.adaptive?.maxItems?.message} hint="replaces the fixed block’s 2 × items per magnitude" />
+            <TextField label="Stop at posterior SD of ln k and ln K" type="number" step="any" {...register('calibration.adaptive.targetSd', num)} error={e.calibration?.adaptive?.targetSd?.message} hint="0 asks every item; 0.3 is about ±35 % in k" />
+          </>
+        ) : null}
       </fieldset>
     </div>
   );

@@ -23,3 +23,11 @@ export const CRITERION_TERMS: Record<DesignSpec['criterion'], string> = {
 };
 
 export const ROLE_LABELS = { 'late-anchor': 'Late anchor', probe: 'Reversal probe', 'soon-anchor': 'Soon anchor' } as const;
+
+/** The stage-1 model choices of a design's calibration block. */
+export const STAGE_ONE_FIT_LABELS: Record<NonNullable<DesignSpec['calibration']['fit']>, string> = {
+  'design-model': 'The design model (delay sensitivity fixed)',
+  hyperboloid: 'Hyperboloid, s estimated',
+  'power-delay': 'Power-delay hyperbola, s estimated',
+  'exponential-power': 'Exponential with delay sensitivity, s estimated',
+};

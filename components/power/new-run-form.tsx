@@ -100,6 +100,7 @@ export function NewRunForm() {
       },
       calibration: current.calibration,
       stress: stressOf(current),
+      ...(current.compareCalibration === 'on' ? { compareCalibration: true } : {}),
       test: { kind: current.test, alpha: Number(current.alpha), alternative: current.alternative },
       sampleSizes: sizes ?? [],
       replications: Number(current.replications),
@@ -159,8 +160,14 @@ export function NewRunForm() {
         <div className="grid gap-4 sm:grid-cols-3">
           <TextField label="Choice sensitivity γ (per unit of the larger amount)" inputMode="decimal" value={current.gamma} onChange={set('gamma')} error={err('truth.gamma')} />
           <TextField label="Lapse rate ε" inputMode="decimal" value={current.lapse} onChange={set('lapse')} error={err('truth.lapse')} />
-          <SelectField label="Calibration block" value={current.calibration} onChange={set('calibration')}>
+          <SelectField
+            label="Calibration block"
+            value={current.calibration}
+            onChange={set('calibration')}
+            hint="Adaptive: each simulated person is asked the items adaptive design optimisation picks (the design’s stop rule, else 12 items), to compare with the fixed block."
+          >
             <option value="simulated">Simulated, rates re-estimated</option>
+            <option value="adaptive">Adaptive calibration simulated (slower)</option>
             <option value="known">Not simulated: rates known</option>
           </SelectField>
         </div>
@@ -192,6 +199,14 @@ export function NewRunForm() {
             );
           })}
         </div>
+        <label className="flex items-start gap-2 text-sm">
+          <input type="checkbox" className="mt-1" checked={current.compareCalibration === 'on'} onChange={(e) => setValues({ ...current, compareCalibration: e.target.checked ? 'on' : '' })} />
+          <span>
+            Also simulate the other calibration under every truth: calibration delays spanning the probes with delay sensitivity estimated in stage 1 (or, for a design that already does so, the
+            plain calibration block), to see what it buys when s is below 1.
+          </span>
+        </label>
+        {err('compareCalibration') ? <p role="alert" className="text-xs text-danger-700">{err('compareCalibration')}</p> : null}
       </fieldset>
       <fieldset className="space-y-3">
         <legend className="text-sm font-semibold">Test and simulation</legend>

@@ -70,6 +70,7 @@ export function RunResults({ run, studyId }: { run: PowerRunDto; studyId: number
         </div>
       </Card>
       {result.stress.length ? <StressTable run={run} result={result} /> : null}
+      {result.calibrationComparison ? <CalibrationTable run={run} comparison={result.calibrationComparison} /> : null}
       <Table caption={result.stress.length ? 'Power by sample size under the assumed truth' : 'Power by sample size'}>
         <thead>
           <tr>
@@ -155,6 +156,43 @@ function StressTable({ run, result }: { run: PowerRunDto; result: NonNullable<Po
           );
         })}
       </tbody>
+    </Table>
+  );
+}
+
+/** The design's own calibration next to its other one, truth by truth, at the largest sample size simulated. */
+function CalibrationTable({ run, comparison }: { run: PowerRunDto; comparison: NonNullable<NonNullable<PowerRunDto['result']>['calibrationComparison']> }) {
+  const last = (s: (typeof comparison.rows)[number]['own']) => s.points[s.points.length - 1];
+  const n = last(comparison.rows[0].own).n;
+  return (
+    <Table caption={`Calibration compared (N = ${n}, ${run.spec.replications} replications each, same seed)`}>
+      <thead>
+        <tr>
+          <Th>Truth</Th>
+          <Th>Power, this design’s calibration</Th>
+          <Th>Power, the other calibration</Th>
+          <Th>Probes inside the true zone, this design’s</Th>
+          <Th>Probes inside the true zone, the other</Th>
+        </tr>
+      </thead>
+      <tbody className="divide-y divide-ink/10" data-testid="calibration-table">
+        {comparison.rows.map((r) => (
+          <tr key={r.truth}>
+            <Td>{r.truth}</Td>
+            <Td className="font-mono">{pct(last(r.own).power)}</Td>
+            <Td className="font-mono">{pct(last(r.other).power)}</Td>
+            <Td className="font-mono">{pct(last(r.own).probesInTrueZone)}</Td>
+            <Td className="font-mono">{pct(last(r.other).probesInTrueZone)}</Td>
+          </tr>
+        ))}
+      </tbody>
+      <tfoot>
+        <tr>
+          <Td colSpan={5} className="text-xs text-ink-soft">
+            This design: {comparison.own}. The other: {comparison.other}. Estimates from simulated choices, not an assessment of any person.
+          </Td>
+        </tr>
+      </tfoot>
     </Table>
   );
 }

@@ -8,6 +8,7 @@ import { ApiKey, Participant } from './item-bank';
 import { Invitation, NoticeSetting, PasswordResetToken } from './team';
 import { PowerRun } from './power';
 import { ParticipantSession, Stage2Answer } from './session';
+import { AdaptiveCalibrationAnswer } from './adaptive-calibration';
 // account security: address confirmation and signed-out sessions
 import { EmailConfirmationToken, EndedSession } from './account';
 import { Analysis } from './analysis';
@@ -23,6 +24,7 @@ export { PowerRun };
 export { ParticipantSession, Stage2Answer };
 export { EmailConfirmationToken, EndedSession };
 export { Analysis };
+export { AdaptiveCalibrationAnswer };
 export { SessionLink };
 export { Payout, PaymentDetail, RewardSettings };
 
@@ -50,6 +52,7 @@ export function registerModels(sequelize: Sequelize): void {
   ParticipantSession.register(sequelize);
   Stage2Answer.register(sequelize);
   Analysis.register(sequelize);
+  AdaptiveCalibrationAnswer.register(sequelize);
   SessionLink.register(sequelize);
   RewardSettings.register(sequelize);
   Payout.register(sequelize);

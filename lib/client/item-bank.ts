@@ -1,9 +1,10 @@
 'use client';
 
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { BankItem, RoundingReport } from '@/lib/design';
 import type { ApiKeyCreateInput } from '@/lib/shared/validations/api-keys';
 import type { ExportOptions } from '@/lib/shared/validations/item-bank';
+import type { ParticipantsQuery } from '@/lib/shared/validations/session';
 import { BROWSER_KEY_PLACEHOLDER } from '@/lib/shared/starter-runtime';
 import { ApiClientError, apiFetch } from './api';
 
@@ -57,7 +58,6 @@ export const itemBankKeys = {
   preview: (studyId: number, versionId: number, options: Partial<ExportOptions>) => ['study', studyId, 'item-bank', versionId, options] as const,
   apiKeys: (studyId: number) => ['study', studyId, 'api-keys'] as const,
   participants: (studyId: number) => ['study', studyId, 'participants'] as const,
-  sessions: (studyId: number) => ['study', studyId, 'sessions'] as const,
 };
 
 /** Query string of export options (only the ones set). */
@@ -99,10 +99,40 @@ export function useRevokeApiKey(studyId: number) {
   });
 }
 
-export function useParticipants(studyId: number) {
+/** One participant on the list: the session, and what they were served (null before serving). */
+export type ParticipantRowDto = SessionDto & { served: ParticipantDto | null };
+export type ParticipantPageDto = {
+  total: number;
+  page: number;
+  pageSize: number;
+  pageCount: number;
+  counts: Record<SessionStatusDto, number>;
+  idleMinutes: number;
+  participants: ParticipantRowDto[];
+  caution: string;
+};
+
+/** The list's query as URL parameters (defaults left out, so links stay short); `format=csv` and no page for the export. */
+export function participantsSearch(query: ParticipantsQuery, options: { csv?: boolean } = {}): string {
+  const params = new URLSearchParams();
+  if (query.q) params.set('q', query.q);
+  if (query.status) params.set('status', query.status);
+  if (query.version) params.set('version', String(query.version));
+  if (options.csv) params.set('format', 'csv');
+  else {
+    if (query.page > 1) params.set('page', String(query.page));
+    if (query.pageSize !== 25) params.set('pageSize', String(query.pageSize));
+  }
+  return params.toString();
+}
+
+/** One page of the study's participants (search, status, version); the previous page stays shown while the next loads. */
+export function useParticipantPage(studyId: number, query: ParticipantsQuery) {
+  const search = participantsSearch(query);
   return useQuery({
-    queryKey: itemBankKeys.participants(studyId),
-    queryFn: () => apiFetch<{ participants: ParticipantDto[] }>(`/api/studies/${studyId}/participants`).then((r) => r.participants),
+    queryKey: [...itemBankKeys.participants(studyId), search],
+    queryFn: () => apiFetch<ParticipantPageDto>(`/api/studies/${studyId}/participants${search ? `?${search}` : ''}`),
+    placeholderData: keepPreviousData,
     refetchInterval: 15_000,
   });
 }
@@ -165,20 +195,11 @@ export type SessionDto = {
   answered: number;
   itemCount: number;
 };
-export type SessionsDto = { idleMinutes: number; counts: Record<SessionStatusDto, number>; sessions: SessionDto[] };
-
-export function useSessions(studyId: number, status: SessionStatusDto | null) {
-  return useQuery({
-    queryKey: [...itemBankKeys.sessions(studyId), status ?? 'all'],
-    queryFn: () => apiFetch<SessionsDto>(`/api/studies/${studyId}/sessions${status ? `?status=${status}` : ''}`),
-    refetchInterval: 15_000,
-  });
-}
 
 export function useSetIdleMinutes(studyId: number) {
   const client = useQueryClient();
   return useMutation({
     mutationFn: (idleMinutes: number) => apiFetch<{ idleMinutes: number }>(`/api/studies/${studyId}/sessions`, { method: 'PATCH', json: { idleMinutes } }),
-    onSuccess: () => client.invalidateQueries({ queryKey: itemBankKeys.sessions(studyId) }),
+    onSuccess: () => client.invalidateQueries({ queryKey: itemBankKeys.participants(studyId) }),
   });
 }

@@ -33,6 +33,13 @@ export type CalibrationOptions = {
   roundTo?: number;
   /** round later delays to whole days (at least 1); default true */
   wholeDays?: boolean;
+  /**
+   * 'descending' (default): later delays descend over the log-spaced delay grid as rates ascend;
+   * a number m (2 to 10): m log-spaced delay levels from delayRange.max down to delayRange.min,
+   * item i at level i mod m, so each level asks across the whole rate range (needed to tell the
+   * delay sensitivity s from the rate k: docs/mathematics.md, "Calibration that spans the probes")
+   */
+  delayLevels?: 'descending' | number;
 };
 
 /**
@@ -40,7 +47,10 @@ export type CalibrationOptions = {
  * over rateRange. Rule of ours: rates ascend while later delays descend over the log-spaced
  * delay grid, which keeps k·D (and so the sooner amount) well inside (0, L) rather than
  * piling items at amounts near 0 or near L. The sooner amount is L·f(D; k_target), rounded
- * to `roundTo` and kept strictly between 0 and L; later delays are rounded to whole days
+ * to `roundTo` and kept strictly between 0 and L. With `delayLevels` m, the delays instead cycle
+ * through m log-spaced levels (item i at level i mod m): within one level the choices switch at
+ * the person's tie rate at that delay, and the switch points of different levels place s.
+ * Later delays are rounded to whole days
  * unless wholeDays is false; `targetRate` is then recomputed from the
  * rounded amounts (indifferenceRate), so it is the item's exact tie rate.
  *
@@ -62,6 +72,8 @@ export function calibrationItems(options: CalibrationOptions): CalibrationItem[]
   checkPositive('amounts.large', amounts?.large);
   const roundTo = options.roundTo ?? 0.01;
   if (!(roundTo >= 0 && roundTo < Infinity)) throw new DesignInputError('roundTo', 'a finite number, 0 or more', roundTo);
+  const levels = options.delayLevels ?? 'descending';
+  if (levels !== 'descending') checkInteger('delayLevels', levels, 2, 10);
   const s = model.sensitivity ?? 1;
   const beta = model.presentBias ?? 1;
   const items: CalibrationItem[] = [];
@@ -70,9 +82,11 @@ export function calibrationItems(options: CalibrationOptions): CalibrationItem[]
     if (roundTo > 0 && !(2 * roundTo < L)) throw new DesignInputError('roundTo', `less than half the ${magnitude} amount (${L})`, roundTo);
     for (let i = 0; i < n; i++) {
       const u = i / (n - 1);
-      const k = rates.min * Math.pow(rates.max / rates.min, u);
-      const exactDelay = delays.max * Math.pow(delays.min / delays.max, u);
+      let k = rates.min * Math.pow(rates.max / rates.min, u);
+      const w = levels === 'descending' ? u : (i % levels) / (levels - 1);
+      const exactDelay = delays.max * Math.pow(delays.min / delays.max, w);
       const D = options.wholeDays === false ? exactDelay : Math.max(1, Math.round(exactDelay));
+      if (levels !== 'descending') k = levelRate(model, D, rates, Math.floor(i / levels), Math.ceil((n - (i % levels)) / levels));
       let S = L * discountAt(model.id, k, s, beta, D);
       if (roundTo > 0) S = Math.round(S / roundTo) * roundTo;
       const floor = roundTo > 0 ? roundTo : L * 1e-9;
@@ -83,6 +97,19 @@ export function calibrationItems(options: CalibrationOptions): CalibrationItem[]
     }
   }
   return items;
+}
+
+/**
+ * Target rate of the j-th of `count` items at one delay level D: log-spaced over the part of the
+ * rate range whose items offer between 5 % and 95 % of the later amount today (rule of ours:
+ * outside it nearly everybody in the range answers the same, so the item tells little), or over
+ * the whole range when that part is empty.
+ */
+function levelRate(model: ModelSpec, D: number, rates: { min: number; max: number }, j: number, count: number): number {
+  const tie = (share: number) => indifferenceRate(model, { soonerAmount: share, soonerDelay: 0, laterAmount: 1, laterDelay: D });
+  const lo = tie(0.95);
+  const hi = tie(0.05);
+  return count <= 1 ? Math.sqrt(lo * hi) : lo * Math.pow(hi / lo, j / (count - 1));
 }
 
 function checkRange(field: string, range: { min: number; max: number }): void {

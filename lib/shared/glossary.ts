@@ -161,6 +161,47 @@ export const GLOSSARY: GlossaryEntry[] = [
     sources: [HERE],
     group: 'Pairs and blocks',
   },
+  // calibration that covers the probes (issue 15)
+  {
+    id: 'calibration-spanning-probes',
+    term: 'Calibration delays spanning the probes',
+    aliases: ['span-probes', 'spanning calibration', 'stage-1 model'],
+    short: 'The calibration block’s later delays reach the late delays the probes will use across the prior, in a few log-spaced levels, each asking across the rates.',
+    body:
+      'Rates estimated on short delays misplace the zone at long ones when true delay sensitivity is below 1. Spanning the probes puts calibration questions where the probes go; with several delay levels a stage-1 model with delay sensitivity s (hyperboloid, power-delay or exponential-power) can estimate s with k and K, and the probes are built under that model. With one delay per rate (the default block), s and k cannot be told apart.',
+    formulas: [
+      'longest calibration delay = max(set longest, 95 % quantile over the prior of a person’s longest probe late delay)',
+      'delay levels: D_j = D_max·(D_min/D_max)^(j/(m−1)), m = 3 from 9 items per reward size, else 2',
+      'stage 1 with s: (k̂, K̂, ŝ) = argmax Σ ln P(choice | k or K, s), one s for both reward sizes',
+    ],
+    sources: [HERE, 'Myerson, J., & Green, L. (1995). Discounting of delayed rewards: Models of individual choice. Journal of the Experimental Analysis of Behavior, 64(3), 263–276.'],
+    group: 'Pairs and blocks',
+  },
+  {
+    id: 'delay-sensitivity',
+    term: 'Delay sensitivity s',
+    aliases: ['delay sensitivity', 's'],
+    short: 'The exponent on delay in the hyperboloid, power-delay and exponential-power models; below 1, long delays are discounted less steeply than the model with s = 1 predicts.',
+    formulas: ['f(D) = (1 + kD)^(−s), 1/(1 + k·D^s), exp(−k·D^s)'],
+    sources: [
+      'Myerson, J., & Green, L. (1995). Discounting of delayed rewards: Models of individual choice. Journal of the Experimental Analysis of Behavior, 64(3), 263–276.',
+      'Ebert, J. E. J., & Prelec, D. (2007). The fragility of time: Time-insensitivity and valuation of the near and far future. Management Science, 53(9), 1423–1438.',
+    ],
+    group: 'Estimation and choice noise',
+  },
+  {
+    id: 'adaptive-calibration',
+    term: 'Adaptive calibration (adaptive design optimisation)',
+    aliases: ['adaptive calibration', 'adaptive design optimisation', 'expected information gain', 'candidate set'],
+    short: 'Stage 1 asks one question at a time, each the candidate expected to tell most about this person’s k and K given the answers so far.',
+    body: 'A posterior over ln k, ln K (and the delay sensitivity where the model has it) starts at the study’s prior and is updated after each answer with the design’s choice model. The next question, from a fixed candidate set of amounts × delays, maximises the mutual information between its answer and the rates. Calibration stops after the most items allowed or once the posterior SD of ln k and ln K is below the target; stage 2 is built at the posterior medians.',
+    formulas: ['I(c) = H(p̄_c) − Σ_θ π(θ) H(p_c(θ)),  H(p) = −p ln p − (1 − p) ln(1 − p)'],
+    sources: [
+      'Myung, J. I., Cavagnaro, D. R., & Pitt, M. A. (2013). A tutorial on adaptive design optimization. Journal of Mathematical Psychology, 57(3–4), 53–67.',
+      'Cavagnaro, D. R., Myung, J. I., Pitt, M. A., & Kujala, J. V. (2010). Adaptive design optimization: A mutual information-based approach to model discrimination in cognitive science. Neural Computation, 22(4), 887–905.',
+    ],
+    group: 'Pairs and blocks',
+  },
   {
     id: 'frozen-design',
     term: 'Frozen design',

@@ -1,6 +1,6 @@
 import { optimiseLateDelay } from '@/lib/design/optimiseLateDelay';
 import { locateFor } from './item-bank-plan';
-import { createPowerSimulator, describeStress, methodText, POWER_ENGINE_VERSION, STRESS_DEFAULTS, stressScenarios, summarisePower, type PowerSummary, type PowerTally, type PowerWarning, type StressTruth } from '@/lib/design/power';
+import { calibrationLabel, calibrationVariant, createPowerSimulator, describeStress, methodText, POWER_ENGINE_VERSION, STRESS_DEFAULTS, stressScenarios, summarisePower, type PowerSummary, type PowerTally, type PowerWarning, type StressTruth } from '@/lib/design/power';
 import type { PowerScenario } from '@/lib/design/power/types';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import { assumedTruth, type PowerRunSpec } from '@/lib/shared/validations/power';
@@ -48,15 +48,35 @@ export function buildScenario(spec: ScenarioSettings, content: FrozenDesign): Po
   };
 }
 
-/** The engine's scenarios of a run: the assumed truth first, then one per stress truth (runs saved before stress truths have none). */
+/** Whether a run also simulates its design's other calibration: asked for, on a personalised design with a simulated calibration block. */
+export function comparesCalibration(spec: PowerRunSpec, content: FrozenDesign): boolean {
+  return spec.compareCalibration === true && spec.calibration === 'simulated' && content.spec.mode === 'personalised';
+}
+
+/**
+ * The engine's scenarios of a run: the assumed truth first, then one per stress truth (runs
+ * saved before stress truths have none); when the run compares calibrations, the same truths
+ * again with the design's other calibration (calibrationVariant).
+ */
 export function buildScenarios(spec: PowerRunSpec, content: FrozenDesign): PowerScenario[] {
-  return stressScenarios(buildScenario(spec, content), spec.stress ?? []);
+  const own = stressScenarios(buildScenario(spec, content), spec.stress ?? []);
+  return comparesCalibration(spec, content) ? [...own, ...own.map(calibrationVariant)] : own;
 }
 
 /** Power under one stress truth, as a finished run stores it. */
 export type StressResult = { stress: StressTruth; label: string; summary: PowerSummary };
 
-export type PowerRunResult = { summary: PowerSummary; methodText: string; software: string; soonDelay: number; stress: StressResult[] };
+/**
+ * The design's own calibration next to its other one (calibrationVariant), truth by truth (the
+ * assumed truth first, then the stress truths in order).
+ */
+export type RunCalibrationComparison = {
+  own: string;
+  other: string;
+  rows: Array<{ truth: string; own: PowerSummary; other: PowerSummary }>;
+};
+
+export type PowerRunResult = { summary: PowerSummary; methodText: string; software: string; soonDelay: number; stress: StressResult[]; calibrationComparison?: RunCalibrationComparison };
 
 /**
  * What a finished run stores as its result: the summary under the assumed truth, one per
@@ -83,7 +103,31 @@ export function runResult(
     { software: POWER_SOFTWARE, designLabel: `${version.content.spec.name}, frozen version ${version.number}`, designHash: version.hash },
     stressed,
   );
-  return { summary, methodText: text, software: POWER_SOFTWARE, soonDelay: scenarios[0].design.soonDelay, stress: stressed };
+  const truths = 1 + stress.length;
+  let calibrationComparison: RunCalibrationComparison | undefined;
+  let comparisonText = '';
+  if (scenarios.length === 2 * truths) {
+    const summaries = scenarios.map((scenario, i) => (i === 0 ? summary : i < truths ? stressed[i - 1].summary : summarisePower(scenario, outcomes[i].tally, outcomes[i].longestCalibrationDelay)));
+    calibrationComparison = {
+      own: calibrationLabel(scenarios[0]),
+      other: calibrationLabel(scenarios[truths]),
+      rows: Array.from({ length: truths }, (_, i) => ({ truth: i === 0 ? 'the assumed truth' : stressed[i - 1].label, own: summaries[i], other: summaries[truths + i] })),
+    };
+    comparisonText = ` ${comparisonParagraph(calibrationComparison)}`;
+  }
+  return { summary, methodText: text + comparisonText, software: POWER_SOFTWARE, soonDelay: scenarios[0].design.soonDelay, stress: stressed, ...(calibrationComparison ? { calibrationComparison } : {}) };
+}
+
+/** The comparison of calibrations in one paragraph: power and probes inside the true zone at the largest N under each truth. */
+function comparisonParagraph(c: RunCalibrationComparison): string {
+  const at = (s: PowerSummary) => s.points[s.points.length - 1];
+  const n = at(c.rows[0].own).n;
+  const rows = c.rows.map(
+    (r) => `under ${r.truth}, power ${pct(at(r.own).power)} against ${pct(at(r.other).power)} and probes inside the true zone ${pct(at(r.own).probesInTrueZone)} against ${pct(at(r.other).probesInTrueZone)}`,
+  );
+  return (
+    `The same truths were simulated with the design's other calibration (${c.other}) beside its own (${c.own}), with the same seed; at N = ${n}: ${rows.join('; ')}.`
+  );
 }
 
 function pct(v: number): string {

@@ -96,9 +96,9 @@ test('the demo editor creates a prior and two designs, compares them and freezes
   await page.goto(`${base}/designs`);
   await page.getByRole('link', { name: first }).click();
   // with an unsaved edit, freezing is refused (it would store the saved draft without the edit);
-  // wait for the design's background refetch first, which resets the form underneath the edit
-  await page.waitForLoadState('networkidle');
-  const name = page.getByLabel('Design name');
+  // the exact label, so the list page's "New design name" is never the field typed into
+  await expect(page.getByTestId('design-title')).toHaveText(first);
+  const name = page.getByLabel('Design name', { exact: true });
   await name.fill(`${first} (edited)`);
   await page.getByRole('button', { name: 'Freeze this design…' }).click();
   await expect(page.getByTestId('freeze-confirm')).toContainText('Save your edits first');
@@ -148,6 +148,13 @@ test('the demo viewer sees the planner without edit controls, and the API refuse
   await page.getByRole('button', { name: 'Post comment' }).click();
   await expect(page.getByTestId('comment-list')).toContainText(remark);
   await page.screenshot(shot('planner-viewer'));
+  // a viewer's fields are disabled and look it: dashed border, sunk background, a not-allowed cursor
+  const amount = page.getByLabel('Large amount L');
+  await expect(amount).toBeDisabled();
+  const look = (el: HTMLElement) => ({ border: getComputedStyle(el).borderStyle, cursor: getComputedStyle(el).cursor, background: getComputedStyle(el).backgroundColor });
+  const disabledLook = await amount.evaluate(look);
+  expect(disabledLook).toMatchObject({ border: 'dashed', cursor: 'not-allowed' });
+  expect(disabledLook.background).not.toBe(await page.getByLabel('Add a comment').evaluate((el) => getComputedStyle(el).backgroundColor));
 
   const studyId = base.split('/').pop();
   const write = await page.request.post(`/api/studies/${studyId}/priors`, { headers: writeHeaders(page), data: { name: 'Not allowed', medianSmall: 0.02, medianLarge: 0.01, sdLogSmall: 1, sdLogLarge: 1, correlation: 0 } });

@@ -91,8 +91,14 @@ test('at phone width nothing scrolls sideways and Sign out is fully on screen', 
   expect(box!.x).toBeGreaterThanOrEqual(0);
   expect(box!.x + box!.width).toBeLessThanOrEqual(375);
   await page.goto(`${base}/designs`);
+  await expect(page.getByTestId('design-row').first()).toBeVisible();
   await page.screenshot(shot('phone-designs'));
+  await page.goto(`${base}/participants?q=HL-R&pageSize=10`);
+  await expect(page.getByTestId('participant-row').first()).toBeVisible();
+  await page.screenshot(shot('phone-participants'));
   await page.goto(base);
+  await expect(page.getByTestId('study-title')).toBeVisible();
+  await page.waitForLoadState('networkidle');
   await page.screenshot({ path: 'tests/artifacts/screens/phone-overview.png' });
 });
 
@@ -162,4 +168,32 @@ test('the power figure’s caption wraps inside the figure on the page, in the P
   await own.setContent(`<!doctype html><html><body style="margin:0"><img src="data:image/png;base64,${png.toString('base64')}" style="width:975px"></body></html>`);
   await own.screenshot({ path: 'tests/artifacts/screens/power-figure-png.png', fullPage: true });
   await own.close();
+});
+
+test('a key shown once has a copy button that puts exactly the key on the clipboard, and selects it where the browser refuses', async ({ page }) => {
+  await signInAs(page, 'operator');
+  await openDemoStudy(page);
+  await page.context().grantPermissions(['clipboard-read', 'clipboard-write'], { origin: new URL(page.url()).origin });
+  await page.getByRole('link', { name: 'API', exact: true }).click();
+  await page.getByLabel('Key name').fill(`Copy check ${Date.now()}`);
+  await page.getByRole('button', { name: 'Create key' }).click();
+  const secret = (await page.getByTestId('new-secret').textContent())!.trim();
+  expect(secret).toMatch(/^sbk_/);
+  await page.getByTestId('copy-secret').click();
+  await expect(page.getByTestId('copy-secret')).toHaveText('Copied');
+  expect(await page.evaluate(() => navigator.clipboard.readText())).toBe(secret);
+  await page.getByTestId('new-secret').scrollIntoViewIfNeeded();
+  await page.screenshot(shot('api-key-copied'));
+
+  // a browser that refuses the clipboard: the key is selected for Ctrl+C, and the page says so
+  await page.evaluate(() => {
+    navigator.clipboard.writeText = () => Promise.reject(new DOMException('denied', 'NotAllowedError'));
+  });
+  await page.getByLabel('Key name').fill(`Copy refused ${Date.now()}`);
+  await page.getByRole('button', { name: 'Create key' }).click();
+  await expect(page.getByTestId('new-secret')).not.toHaveText(secret);
+  await page.getByTestId('copy-secret').click();
+  await expect(page.getByRole('alert').filter({ hasText: 'did not let the page copy' })).toBeVisible();
+  expect(await page.evaluate(() => window.getSelection()?.toString().trim())).toBe((await page.getByTestId('new-secret').textContent())!.trim());
+  await page.screenshot(shot('api-key-copy-refused'));
 });

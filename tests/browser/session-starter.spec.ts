@@ -88,7 +88,7 @@ test('a static starter page on another origin runs a whole session with a browse
 
   // The operator sees the completed session on the participants page.
   await page.getByRole('link', { name: 'Participants' }).click();
-  await expect(page.getByTestId('session-row').filter({ hasText: participantId })).toContainText('completed');
+  await expect(page.getByTestId('participant-row').filter({ hasText: participantId })).toContainText('completed');
   await page.screenshot(shot('session-status'));
   await context.close();
 });

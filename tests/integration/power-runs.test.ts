@@ -247,6 +247,30 @@ describe('power runs', () => {
     expect(JSON.stringify(await bad.json())).toContain('stress.0.beta');
   });
 
+  it('simulates the design’s other calibration under every truth when asked, and shows both in the result, the CSV and the JSON', async () => {
+    const { study, team } = await makeStudyWithTeam('Power calibration compared');
+    const version = await frozenVersion(study.id, team.owner.id);
+    const stress = [{ kind: 'delay-sensitivity', low: 0.4, high: 0.9 }];
+    const response = await start(team.editor, study.id, { ...runSpec(version.id, { replications: 10, test: { kind: 'sign', alpha: 0.05, alternative: 'greater' } }), stress, compareCalibration: true });
+    expect(response.status).toBe(202);
+    const { run } = await response.json();
+    expect(run.total).toBe(40); // 10 replicates under each of two truths, with each of two calibrations
+    const finished = await waitFor(team.viewer, study.id, run.id, (r) => r.status === 'finished');
+    const comparison = finished.result.calibrationComparison;
+    expect(comparison.rows.map((r: { truth: string }) => r.truth)).toEqual(['the assumed truth', 'delay sensitivity s drawn per participant from U(0.4, 0.9)']);
+    expect(comparison.other).toMatch(/power-delay hyperbola \(Rachlin 2006\) by maximum likelihood/);
+    expect(finished.result.methodText).toContain("The same truths were simulated with the design's other calibration");
+    const csv = (await (await download(team.viewer, study.id, run.id, 'format=csv')).text()).trim().split('\r\n');
+    expect(csv).toHaveLength(1 + 2 * 2 * 3);
+    expect(csv.filter((line) => line.endsWith(',other'))).toHaveLength(6);
+    const json = await (await download(team.viewer, study.id, run.id, 'format=json')).json();
+    expect(json.calibrationComparison.rows).toHaveLength(2);
+    // the comparison needs a simulated calibration block
+    const bad = await start(team.editor, study.id, { ...runSpec(version.id), calibration: 'known', compareCalibration: true });
+    expect(bad.status).toBe(422);
+    expect(JSON.stringify(await bad.json())).toContain('compareCalibration');
+  });
+
   it('still opens a run saved before stress truths and participant-level tests existed, with its stored test name', async () => {
     const { study, team } = await makeStudyWithTeam('Power old run');
     const version = await frozenVersion(study.id, team.owner.id);

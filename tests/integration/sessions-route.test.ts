@@ -29,7 +29,7 @@ describe('the sessions of a study', () => {
     expect((await get('?status=lost')).status).toBe(422);
 
     const csv = await (await get('?format=csv')).text();
-    expect(csv.split('\r\n')[0]).toBe('participantId,status,answered,itemCount,source,designVersionId,startedAt,servedAt,completedAt,lastActivityAt');
+    expect(csv.split('\r\n')[0]).toBe('participantId,status,answered,itemCount,source,designVersionId,startedAt,servedAt,completedAt,lastActivityAt,caution');
     expect(csv).toContain("'=cmd|calc,abandoned");
 
     const patch = async (user: typeof team.viewer, json: unknown) => setIdle(await requestAs(user, 'PATCH', `/api/studies/${study.id}/sessions`, { json }), ctx({ id: String(study.id) }));

@@ -55,7 +55,7 @@ export function simulateStudy(options: SimulationOptions): SimulatedParticipant[
   const S = spec.ratio * L;
   const unit = amountUnit({ currency: spec.currency, largeAmount: L, smallAmount: S });
   const cover = Math.max(...fallback.probe, ...fallback.lateAnchor, ...fallback.soonAnchor);
-  const block = calibrationBlock(design, { amountUnit: unit, delayUnit: 'days', coverDelay: cover }).items.filter((i) => i.role === 'calibration');
+  const block = calibrationBlock(design, { amountUnit: unit, delayUnit: 'days', coverDelay: cover, soonDelay: design.soonDelay }).items.filter((i) => i.role === 'calibration');
   const rates = priorPoints(truth.prior, { method: 'monte-carlo', count: n, random });
   const prefix = options.idPrefix ?? 'P';
   const out: SimulatedParticipant[] = [];

@@ -1,8 +1,10 @@
 import { DesignInputError } from '../DesignInputError';
 import { createRandom } from '../random';
 import { extrapolationWarning, type ExtrapolationWarning } from '../extrapolationWarning';
+import { adaptiveBlock, type AdaptiveBlock } from './adaptiveBlock';
 import { assembleBlock } from './assembleBlock';
 import { calibrationBlock, type CalibrationRounding } from './calibrationBlock';
+import { delayLevels, PROBE_REACH_QUANTILE } from './calibrationPlan';
 import { pairDelays, type PairDelays } from './pairDelays';
 import { pairItems, type PairRoundingEntry } from './pairItems';
 import { amountUnit } from './rounding';
@@ -35,6 +37,8 @@ export type ItemBank = {
   rounding: RoundingReport;
   extrapolation: ExtrapolationWarning | null;
   notes: string[];
+  /** the adaptive calibration's stop rule and candidate set; null when the design uses the fixed block alone */
+  adaptive: AdaptiveBlock | null;
 };
 
 /** Default fewest other items between the two views of a pair (ours: enough that the second view is not read as a repeat). */
@@ -65,15 +69,28 @@ export function buildItemBank(design: BankDesign, options: PresentationOptions &
   const set = spec.mode === 'population' ? 'shared' : 'fallback';
   const pairs = pairItems(design, delays, rates, { set, amountUnit: unit, delayUnit });
   const cover = Math.max(...pairs.items.filter((i) => i.view === 'far').map((i) => i.laterDelay));
-  const calibration = calibrationBlock(design, { amountUnit: unit, delayUnit, coverDelay: cover });
+  const calibration = calibrationBlock(design, { amountUnit: unit, delayUnit, coverDelay: cover, soonDelay: point.soonDelay });
   const random = createRandom({ seed });
   const common = { random, minGap, currency: spec.currency, delayUnit };
   const calBlock = assembleBlock(calibration.items, common);
   const probeBlock = assembleBlock(pairs.items, common);
+  const adaptive = adaptiveBlock(design, { seed, delayUnit, coverDelay: cover });
   const notes: string[] = [];
+  if (adaptive) {
+    notes.push(
+      `Calibration is adaptive: each participant is asked up to ${adaptive.maxItems} items chosen one at a time from the ${adaptive.candidates.length} candidates by expected information (adaptive design optimisation), ` +
+        `stopping early once the posterior SD of ln k and ln K is at most ${adaptive.targetSd}. The fixed calibration block stays in the bank for software that cannot ask the next-item step.`,
+    );
+  }
   if (delays.omitted.lateAnchors || delays.omitted.soonAnchors) {
     notes.push(
       `${delays.omitted.lateAnchors} late and ${delays.omitted.soonAnchors} soon anchor(s) did not fit (no room below the zone, or beyond the ${spec.lateDelayLimit}-day limit).`,
+    );
+  }
+  if (calibration.probeReach !== null) {
+    notes.push(
+      `Calibration delays span the probes: later delays in ${delayLevels(spec.calibration.itemsPerMagnitude)} log-spaced levels up to ${Math.ceil(calibration.probeReach)} days, ` +
+        `the longest probe late delay of ${Math.round(PROBE_REACH_QUANTILE * 100)} % of participants drawn from the prior.`,
     );
   }
   if (probeBlock.gap < minGap) notes.push(`The probe block is too small for a gap of ${minGap}; the two views of each pair are at least ${probeBlock.gap} item(s) apart.`);
@@ -99,5 +116,6 @@ export function buildItemBank(design: BankDesign, options: PresentationOptions &
       probeDelays: pairs.items.filter((i) => i.view === 'far').map((i) => i.laterDelay),
     }),
     notes,
+    adaptive,
   };
 }

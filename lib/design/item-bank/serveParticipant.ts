@@ -1,4 +1,5 @@
 import type { CalibrationItem } from '../calibrationItems';
+import { optimiseLateDelay } from '../optimiseLateDelay';
 import { designChoiceModel } from '../designChoiceModel';
 import { estimateRates, type Choice, type EstimateFlag, type RateEstimate } from '../estimateRates';
 import { extrapolationWarning, type ExtrapolationWarning } from '../extrapolationWarning';
@@ -8,7 +9,11 @@ import type { ItemBank } from './buildItemBank';
 import { ItemBankInputError } from './ItemBankInputError';
 import { pairDelays } from './pairDelays';
 import { pairItems, type PairRoundingEntry } from './pairItems';
+import { fitStageOne, withProbeModel, type AnsweredCalibrationItem } from './stageOneFit';
 import type { BankDesign, BankItem, ChosenOption, LocatePoint } from './types';
+import { adaptiveStep, posteriorRates, type PosteriorRate } from '../adaptive/adaptiveStep';
+import type { AdaptiveAnswer } from '../adaptive/adaptiveCalibration';
+import { adaptiveEngine, type AdaptiveBlock } from './adaptiveBlock';
 
 /** Why a participant gets the fallback set instead of personalised items. */
 export type ServeFlag = 'all-sooner' | 'all-later' | 'non-monotone' | 'no-zone';
@@ -24,7 +29,17 @@ export type RateSummary = {
 /** What a participant is served: estimates, flag, warnings and the probe block in presentation order. */
 export type ServedItems = {
   participantId: string;
-  estimates: { kSmall: RateSummary; kLarge: RateSummary; choiceSensitivity: number };
+  estimates: {
+    kSmall: RateSummary;
+    kLarge: RateSummary;
+    choiceSensitivity: number;
+    /**
+     * present when the design's stage 1 estimates delay sensitivity (calibration.fit): the
+     * model, its k, K and s (s with standard error of ln s and Wald interval), from which the
+     * personal probes were built; kSmall and kLarge above stay the design model's estimates
+     */
+    stageOne?: { model: string; kSmall: number; kLarge: number; sensitivity: number; standardErrorLog: number | null; interval: { lower: number; upper: number } | null };
+  };
   /** null when the items are personalised; else why the fallback set was served */
   flag: ServeFlag | null;
   itemSet: 'personal' | 'fallback' | 'shared';
@@ -45,10 +60,17 @@ const FALLBACK_FLAGS: readonly EstimateFlag[] = ['non-monotone', 'all-sooner', '
  * 2. kSmall and kLarge are estimated by maximum likelihood (estimateRates) under the design's one
  *    choice model (designChoiceModel: the design's γ, no lapse).
  * 3. Personalised designs: probe and anchor pairs at the estimates (pairDelays around `locate`'s
- *    point). Fallback (documented): a participant whose small or large estimate is flagged
+ *    point). A design whose stage 1 estimates delay sensitivity (calibration.fit) fits k, K and
+ *    s jointly under that model (fitStageOne) and builds the pairs under it: the soon delay
+ *    `locate` chooses, the late delay with the largest gap product at (k, K, s). Fallback (documented): a participant whose small or large estimate is flagged
  *    non-monotone, all-sooner or all-later, or whose estimates have no reversal zone within the
  *    limits, gets the bank's design-point set (built at the prior medians) and the flag.
  *    Population designs always serve the shared set.
+ * With adaptive calibration (the bank's `adaptive` block) and responses naming its candidates, the
+ *    estimates are the grid posterior's instead (posteriorRates: medians, SDs of ln k, 95 % intervals)
+ *    after the answered candidates — the posterior does not depend on the order of the answers — and
+ *    no fallback flag is raised short of 'no-zone'. Stage 2 is served only once calibration is over
+ *    (stop rule met), else ItemBankInputError naming `responses`.
  * 4. The block is counterbalanced and ordered with a seed mixed from the bank's seed and the
  *    participant id, so the same participant and responses always get the same items.
  *
@@ -59,39 +81,72 @@ export function serveParticipant(
   bank: ItemBank,
   request: { participantId: string; responses: Record<string, string>; locate: LocatePoint },
 ): ServedItems {
-  const calibration = bank.items.filter((i) => i.role === 'calibration');
-  const choices = readResponses(bank, request.responses);
-  const fitItems: CalibrationItem[] = calibration.map((i) => ({
-    magnitude: i.magnitude!,
-    soonerAmount: i.soonerAmount,
-    soonerDelay: i.soonerDelay,
-    laterAmount: i.laterAmount,
-    laterDelay: i.laterDelay,
-    targetRate: Number.NaN, // not read by estimateRates, which computes each tie rate itself
-  }));
-  const fit = estimateRates(calibration.map((i) => choices.get(i.id)!), fitItems, design.spec.model, designChoiceModel(design.spec));
-  const rates = { kSmall: fit.small.rate, kLarge: fit.large.rate };
-  let flag: ServeFlag | null = (FALLBACK_FLAGS.find((f) => fit.small.flags.includes(f) || fit.large.flags.includes(f)) as ServeFlag | undefined) ?? null;
+  const adaptive = bank.adaptive && isAdaptive(bank.adaptive, request.responses) ? bank.adaptive : null;
+  let estimates: ServedItems['estimates'];
+  let calibrationDelays: number[];
+  let flag: ServeFlag | null;
+  // the fixed block's answers, for a stage 1 that estimates delay sensitivity (fitStageOne)
+  let answers: AnsweredCalibrationItem[] = [];
+  if (adaptive) {
+    const answered = readAdaptiveResponses(adaptive, request.responses);
+    const step = adaptiveStep(adaptiveEngine(design, adaptive), { answers: answered.answers, seed: 0, stop: { maxItems: adaptive.maxItems, targetSd: adaptive.targetSd } });
+    if (!step.done) {
+      throw new ItemBankInputError([{ path: 'responses', message: `Adaptive calibration is not finished after ${step.answered} answers: ask the next calibration item first.` }]);
+    }
+    const posterior = posteriorRates(step.summary);
+    const summary = (r: PosteriorRate): RateSummary => ({ rate: r.rate, standardErrorLog: r.standardErrorLog, interval: r.interval, flags: [] });
+    estimates = { kSmall: summary(posterior.kSmall), kLarge: summary(posterior.kLarge), choiceSensitivity: designChoiceModel(design.spec).sensitivity };
+    calibrationDelays = answered.delays;
+    flag = null;
+  } else {
+    const calibration = bank.items.filter((i) => i.role === 'calibration');
+    const choices = readResponses(bank, request.responses);
+    const fitItems: CalibrationItem[] = calibration.map((i) => ({
+      magnitude: i.magnitude!,
+      soonerAmount: i.soonerAmount,
+      soonerDelay: i.soonerDelay,
+      laterAmount: i.laterAmount,
+      laterDelay: i.laterDelay,
+      targetRate: Number.NaN, // not read by estimateRates, which computes each tie rate itself
+    }));
+    const fit = estimateRates(calibration.map((i) => choices.get(i.id)!), fitItems, design.spec.model, designChoiceModel(design.spec));
+    estimates = { kSmall: summary(fit.small), kLarge: summary(fit.large), choiceSensitivity: fit.sensitivity };
+    calibrationDelays = calibration.map((i) => i.laterDelay);
+    answers = fitItems.map((item, k) => ({ ...item, later: choices.get(calibration[k].id) === 'LL' }));
+    flag = (FALLBACK_FLAGS.find((f) => fit.small.flags.includes(f) || fit.large.flags.includes(f)) as ServeFlag | undefined) ?? null;
+  }
+  let rates = { kSmall: estimates.kSmall.rate, kLarge: estimates.kLarge.rate };
   let delays = null;
+  let probeDesign = design;
+  let stageOne: ServedItems['estimates']['stageOne'];
   if (design.spec.mode === 'personalised' && flag === null) {
-    const point = request.locate(rates);
-    delays = point && pairDelays(design, point, rates);
+    const joint = answers.length ? fitStageOne(design, answers, designChoiceModel(design.spec)) : null;
+    let point = request.locate(rates);
+    if (joint) {
+      probeDesign = withProbeModel(design, joint.model);
+      rates = joint.rates;
+      stageOne = { model: joint.model.id, ...rates, sensitivity: joint.sensitivity.value, standardErrorLog: joint.sensitivity.standardErrorLog, interval: joint.sensitivity.interval };
+      const d = point?.soonDelay ?? bank.designPoint.soonDelay;
+      const optimum = optimiseLateDelay({ model: joint.model, ratio: design.spec.ratio, soonDelay: d, ...rates });
+      point = optimum && { soonDelay: d, lateDelay: optimum.lateDelay };
+    }
+    delays = point && pairDelays(probeDesign, point, rates);
     if (!delays) flag = 'no-zone';
   }
   const itemSet = design.spec.mode === 'population' ? 'shared' : delays ? 'personal' : 'fallback';
   const pairs = delays
-    ? pairItems(design, delays, rates, { set: 'personal', amountUnit: bank.amountUnit, delayUnit: bank.delayUnit })
+    ? pairItems(probeDesign, delays, rates, { set: 'personal', amountUnit: bank.amountUnit, delayUnit: bank.delayUnit })
     : pairItems(design, bank.delays, bank.designPoint, { set: itemSet, amountUnit: bank.amountUnit, delayUnit: bank.delayUnit });
   const random = createRandom({ seed: participantSeed(bank.seed, request.participantId) });
   const block = assembleBlock(pairs.items, { random, minGap: bank.minGap, currency: design.spec.currency, delayUnit: bank.delayUnit });
   const check = request.responses['check-calibration'];
   return {
     participantId: request.participantId,
-    estimates: { kSmall: summary(fit.small), kLarge: summary(fit.large), choiceSensitivity: fit.sensitivity },
+    estimates: { ...estimates, ...(stageOne ? { stageOne } : {}) },
     flag,
     itemSet,
     extrapolation: extrapolationWarning({
-      calibrationDelays: calibration.map((i) => i.laterDelay),
+      calibrationDelays,
       probeDelays: pairs.items.filter((i) => i.view === 'far').map((i) => i.laterDelay),
     }),
     attentionCheck: check === undefined ? 'not-answered' : check === 'sooner' ? 'passed' : 'failed',
@@ -134,4 +189,30 @@ export function participantSeed(seed: number, participantId: string): number {
     h = Math.imul(h, 0x01000193) >>> 0;
   }
   return h;
+}
+
+/** True when the responses answer the adaptive candidate set (any key is a candidate id) rather than the fixed block. */
+function isAdaptive(block: AdaptiveBlock, responses: Record<string, string>): boolean {
+  const ids = new Set(block.candidates.map((c) => c.id));
+  return Object.keys(responses ?? {}).some((id) => ids.has(id));
+}
+
+function readAdaptiveResponses(block: AdaptiveBlock, responses: Record<string, string>): { answers: AdaptiveAnswer[]; delays: number[] } {
+  const issues: Array<{ path: string; message: string }> = [];
+  const index = new Map(block.candidates.map((c, i) => [c.id, i]));
+  const answers: AdaptiveAnswer[] = [];
+  const delays: number[] = [];
+  for (const [id, value] of Object.entries(responses)) {
+    const at = index.get(id);
+    if (id === 'check-calibration') continue;
+    if (at === undefined) issues.push({ path: `responses.${id}`, message: `${id} is not a candidate of this design's adaptive calibration (answers to adaptive and fixed calibration items cannot be mixed).` });
+    else if (value !== 'sooner' && value !== 'later') issues.push({ path: `responses.${id}`, message: `Choose 'sooner' or 'later' for ${id}.` });
+    else {
+      answers.push({ index: at, choice: value === 'later' ? 'LL' : 'SS' });
+      delays.push(block.candidates[at].laterDelay);
+    }
+  }
+  if (answers.length > block.maxItems) issues.push({ path: 'responses', message: `Adaptive calibration asks at most ${block.maxItems} items; ${answers.length} were answered.` });
+  if (issues.length) throw new ItemBankInputError(issues);
+  return { answers, delays };
 }

@@ -51,7 +51,17 @@ export type BankDesign = {
     probePairs: number;
     lateAnchors: number;
     soonAnchors: number;
-    calibration: { itemsPerMagnitude: number; minDelay: number; maxDelay: number };
+    calibration: {
+      itemsPerMagnitude: number;
+      minDelay: number;
+      maxDelay: number;
+      /** adaptive calibration (adaptive design optimisation); absent: the fixed block */
+      adaptive?: { maxItems: number; targetSd: number };
+      /** where the fixed block's later delays go (calibrationPlan); absent: 'range' */
+      placement?: 'range' | 'span-probes';
+      /** the model stage 1 fits (calibrationPlan); absent: 'design-model' */
+      fit?: 'design-model' | 'hyperboloid' | 'power-delay' | 'exponential-power';
+    };
     /** choice sensitivity γ per unit of the larger amount (designChoiceModel); default DEFAULT_CHOICE_SENSITIVITY */
     choiceSensitivity?: number;
   };

@@ -1,11 +1,14 @@
 import { designChoiceModel } from '../designChoiceModel';
 import { discountAt } from '../discountFactor';
 import { calibrationBlock } from '../item-bank/calibrationBlock';
+import { stageOneModel } from '../item-bank/calibrationPlan';
 import { amountUnit } from '../item-bank/rounding';
 import type { SeededRandom } from '../random';
 import { FastRateEstimator } from './fastRateEstimate';
 import { LargerChoice } from './largerChoice';
-import type { PowerScenario } from './types';
+import { probeSet, type ProbeSet } from './probeSet';
+import { jointSensitivityEstimate, SensitivityProfile } from './sensitivityProfile';
+import type { PowerDesign, PowerScenario } from './types';
 
 export type CalibrationEstimate = {
   rate: number;
@@ -13,36 +16,36 @@ export type CalibrationEstimate = {
   flagged: boolean;
   /** a flag for which the participant is served the fallback set (all-sooner, all-later, non-monotone) */
   fallback: boolean;
+  /** the magnitude's response vector as a number (a leading 1, then one bit per item, 1 = later); absent from adaptive calibration */
+  key?: number;
+  /** the profile over delay sensitivity (SensitivityProfile) when stage 1 estimates s; else null or absent */
+  profile?: Float64Array | null;
 };
 
-type Block = { count: number; soonerShare: Float64Array; laterDelay: Float64Array; estimator: FastRateEstimator };
+type Block = { count: number; soonerShare: Float64Array; laterDelay: Float64Array; estimator: FastRateEstimator; profile: SensitivityProfile | null };
+
+const CACHE_LIMIT = 1_000_000;
 
 /**
- * The simulated calibration block of a scenario: the item bank's shared calibration block
- * (calibrationBlock: later amounts x·L and L rounded as exported, delays across the design's
- * calibration range widened to cover the design point's pairs), choices simulated from the
- * truth, and each magnitude's rate re-estimated by maximum likelihood under the design's
- * model with the run's γ and ε (per unit of each item's later amount, as estimateRates uses).
- *
- * Estimates depend only on a magnitude's response vector, so they are memoised by it: an
- * exact cache of a deterministic function, which keeps results identical with or without it.
+ * What the simulated calibration of one design shares between the truths of a run: the block,
+ * the estimators and the memo of estimates by response vector. None of it depends
+ * on the truth (an estimate is a function of the answers and the design), so the assumed truth and
+ * every stress truth reuse it: a response vector met under one truth is estimated once. (Probe sets
+ * are not memoised: pairs of response vectors rarely repeat, and a memo of them cost more time in
+ * memory than it saved.)
  */
-export class CalibrationModel {
+class CalibrationCore {
   readonly longestDelay: number;
-  private readonly blocks: [Block, Block];
-  private readonly caches: [Map<number, CalibrationEstimate>, Map<number, CalibrationEstimate>] = [new Map(), new Map()];
-  private readonly bits = new Uint8Array(200);
-  private readonly choice: LargerChoice;
+  readonly blocks: [Block, Block];
+  readonly caches: [Map<number, CalibrationEstimate>, Map<number, CalibrationEstimate>] = [new Map(), new Map()];
+  private readonly design: PowerDesign;
 
-  constructor(
-    private readonly scenario: PowerScenario,
-    coverDelay: number,
-  ) {
-    const { design } = scenario;
-    this.choice = new LargerChoice(scenario.truth.gamma, scenario.truth.lapse);
+  constructor(design: PowerDesign, coverDelay: number) {
+    this.design = design;
     const choice = designChoiceModel(design.spec);
+    const stageOne = stageOneModel(design.spec);
     const unit = amountUnit({ currency: design.spec.currency, largeAmount: design.spec.largeAmount, smallAmount: design.spec.ratio * design.spec.largeAmount });
-    const items = calibrationBlock(design, { amountUnit: unit, delayUnit: 'days', coverDelay }).items.filter((item) => item.role === 'calibration');
+    const items = calibrationBlock(design, { amountUnit: unit, delayUnit: 'days', coverDelay, soonDelay: design.soonDelay }).items.filter((item) => item.role === 'calibration');
     this.longestDelay = Math.max(...items.map((item) => item.laterDelay));
     const block = (magnitude: 'small' | 'large'): Block => {
       const rows = items.filter((item) => item.magnitude === magnitude);
@@ -51,9 +54,68 @@ export class CalibrationModel {
         soonerShare: Float64Array.from(rows, (r) => r.soonerAmount / r.laterAmount),
         laterDelay: Float64Array.from(rows, (r) => r.laterDelay),
         estimator: new FastRateEstimator(design.spec.model, rows, choice.sensitivity, choice.lapse),
+        profile: stageOne ? new SensitivityProfile(stageOne.id, rows, choice.sensitivity, choice.lapse) : null,
       };
     };
     this.blocks = [block('small'), block('large')];
+  }
+
+  /**
+   * The probe set of a participant with these two estimates (null: no zone at them): under the
+   * design model at (k̂, K̂), or, when stage 1 estimates s, under the stage-1 model at the joint
+   * (k̂, K̂, ŝ) with the late delay of the largest gap product at the design's soon delay.
+   */
+  probeSet(small: CalibrationEstimate, large: CalibrationEstimate): ProbeSet | null {
+    const { design } = this;
+    if (!small.profile || !large.profile) return probeSet(design, small.rate, large.rate);
+    const joint = jointSensitivityEstimate(small.profile, large.profile);
+    const model = { id: stageOneModel(design.spec)!.id, sensitivity: joint.sensitivity };
+    return probeSet({ ...design, spec: { ...design.spec, model } }, joint.kSmall, joint.kLarge);
+  }
+}
+
+// Cores of the designs simulated lately, by content: a worker thread receives each scenario of a
+// run as its own copy, so identity cannot tell that two truths share a design.
+const cores = new Map<string, CalibrationCore>();
+const CORE_LIMIT = 4;
+
+function coreFor(design: PowerDesign, coverDelay: number): CalibrationCore {
+  const key = JSON.stringify([design.spec, design.prior, design.soonDelay, design.designPoint ?? null, coverDelay]);
+  let core = cores.get(key);
+  if (core === undefined) {
+    core = new CalibrationCore(design, coverDelay);
+    if (cores.size >= CORE_LIMIT) cores.delete(cores.keys().next().value!);
+    cores.set(key, core);
+  }
+  return core;
+}
+
+/**
+ * The simulated calibration block of a scenario: the item bank's shared calibration block
+ * (calibrationBlock: later amounts x·L and L rounded as exported, delays across the design's
+ * calibration range widened to cover the design point's pairs, or spanning the probes' late
+ * delays), choices simulated from the truth, and each magnitude's rate re-estimated by maximum
+ * likelihood under the design's model with the design's γ and ε (per unit of each item's later
+ * amount, as estimateRates uses); with a stage-1 fit that estimates delay sensitivity, the
+ * profile over s as well (SensitivityProfile).
+ *
+ * Estimates depend only on a magnitude's response vector, so they are memoised by it, across the
+ * truths of a run too (CalibrationCore): an exact cache of a deterministic function, which keeps
+ * results identical with or without it.
+ */
+export class CalibrationModel {
+  readonly longestDelay: number;
+  private readonly core: CalibrationCore;
+  private readonly bits = new Uint8Array(200);
+  private readonly choice: LargerChoice;
+
+  constructor(
+    private readonly scenario: PowerScenario,
+    coverDelay: number,
+  ) {
+    this.core = coreFor(scenario.design, coverDelay);
+    this.choice = new LargerChoice(scenario.truth.gamma, scenario.truth.lapse);
+    this.longestDelay = this.core.longestDelay;
   }
 
   /**
@@ -62,7 +124,7 @@ export class CalibrationModel {
    */
   answer(magnitude: 0 | 1, trueRate: number, s: number, random: SeededRandom): CalibrationEstimate {
     const { truth } = this.scenario;
-    const block = this.blocks[magnitude];
+    const block = this.core.blocks[magnitude];
     const beta = truth.model.presentBias ?? 1;
     const bias = truth.presentBias ?? 1; // every later delay here is > 0
     let key = 1; // a leading 1 keeps the bits readable
@@ -72,7 +134,7 @@ export class CalibrationModel {
       this.bits[i] = later;
       key = key * 2 + later;
     }
-    const cache = this.caches[magnitude];
+    const cache = this.core.caches[magnitude];
     let estimate = cache.get(key);
     if (estimate === undefined) {
       const fit = block.estimator.estimate(this.bits);
@@ -80,9 +142,21 @@ export class CalibrationModel {
         rate: fit.rate,
         flagged: fit.flags.length > 0,
         fallback: fit.flags.some((f) => f === 'all-sooner' || f === 'all-later' || f === 'non-monotone'),
+        key,
+        profile: block.profile ? block.profile.profile(this.bits) : null,
       };
-      if (cache.size < 1_000_000) cache.set(key, estimate);
+      if (cache.size < CACHE_LIMIT) cache.set(key, estimate);
     }
     return estimate;
+  }
+
+  /** Both magnitudes' estimates, small first (answer for each in turn, so the draws keep their order). */
+  answerBoth(kTrue: number, KTrue: number, s: number, random: SeededRandom): [CalibrationEstimate, CalibrationEstimate] {
+    return [this.answer(0, kTrue, s, random), this.answer(1, KTrue, s, random)];
+  }
+
+  /** The participant's probe set from the two magnitudes' estimates (CalibrationCore.probeSet). */
+  probeSet(small: CalibrationEstimate, large: CalibrationEstimate): ProbeSet | null {
+    return this.core.probeSet(small, large);
   }
 }

@@ -45,7 +45,7 @@ export function checkScenario(scenario: PowerScenario): void {
   if (truth.presentBias !== undefined && !(truth.presentBias > 0 && truth.presentBias <= 1)) {
     throw new DesignInputError('truth.presentBias', 'a present bias β above 0 and at most 1', truth.presentBias);
   }
-  if (scenario.calibration !== 'simulated' && scenario.calibration !== 'known') throw new DesignInputError('calibration', "'simulated' or 'known'", scenario.calibration);
+  if (scenario.calibration !== 'simulated' && scenario.calibration !== 'adaptive' && scenario.calibration !== 'known') throw new DesignInputError('calibration', "'simulated', 'adaptive' or 'known'", scenario.calibration);
   if (!POWER_TEST_KINDS.includes(test?.kind)) throw new DesignInputError('test.kind', POWER_TEST_KINDS.map((k) => `'${k}'`).join(', '), test?.kind);
   if (!(test.alpha > 0 && test.alpha < 1)) throw new DesignInputError('test.alpha', 'a number strictly between 0 and 1', test.alpha);
   if (test.alternative !== 'greater' && test.alternative !== 'two-sided') throw new DesignInputError('test.alternative', "'greater' or 'two-sided'", test.alternative);

@@ -11,7 +11,8 @@ export { emptyTally, mergeTallies } from './tally';
 export { summarisePower, describeModel, type PowerPoint, type PowerSummary, type PowerWarning, type PatternShares } from './summarisePower';
 export { methodText, type MethodTextContext } from './methodText';
 export { probeSet, type ProbeSet } from './probeSet';
-export { applyStress, describeStress, stressLegend, stressScenarios, STRESS_DEFAULTS, STRESS_KINDS, type StressKind, type StressTruth } from './stressTruth';
+export { calibrationVariant, calibrationLabel } from './calibrationVariant';
+export { applyStress, sensitivityModel, describeStress, stressLegend, stressScenarios, STRESS_DEFAULTS, STRESS_KINDS, type StressKind, type StressTruth } from './stressTruth';
 export { PAIR_ROLES, POWER_TEST_KINDS, type PairRole, type PowerDesign, type PowerScenario, type PowerTally, type PowerTestKind, type PowerTruth } from './types';
 
 /** Version of the simulation engine; runs store it so a changed engine is visible in their method text. */

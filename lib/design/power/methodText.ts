@@ -1,3 +1,4 @@
+import { describeCalibration, stageOneModel } from '../item-bank/calibrationPlan';
 import { designChoiceModel } from '../designChoiceModel';
 import { describeModel, type PowerSummary } from './summarisePower';
 import type { SampleSizeAnswer } from './sampleSizeFor';
@@ -59,11 +60,16 @@ export function methodText(
     spec.mode === 'population'
       ? 'The design is a population design: every participant meets the same pairs, built at the late delay with the largest gap product for the prior median rates; no calibration block is simulated.'
       : scenario.calibration === 'simulated'
-        ? `Each simulated participant first answers the design's calibration block (${spec.calibration.itemsPerMagnitude} items per magnitude, ` +
-          `later delays from ${spec.calibration.minDelay} days up to the longest probe delay of the design point, as the item bank exports it); choices follow the truth, ` +
-          `both rates are re-estimated by maximum likelihood under the design's model and its choice model (γ = ${num(designChoiceModel(spec).sensitivity)} per unit of each item's later amount, no lapse), as the probe-items API estimates them, ` +
+        ? `Each simulated participant first answers the design's calibration block (${spec.calibration.itemsPerMagnitude} items per magnitude; ${describeCalibration(spec)}; as the item bank exports it); choices follow the truth, ` +
+          `the rates are re-estimated by maximum likelihood under the stage-1 model and its choice model (γ = ${num(designChoiceModel(spec).sensitivity)} per unit of each item's later amount, no lapse), as the probe-items API estimates them` +
+          `${stageOneModel(spec) ? ' (in the simulation the delay sensitivity is located on a grid of 17 values from 0.3 to 1.3, refined by a parabola)' : ''}, ` +
           `and the participant's probe block is built from these estimates.`
-        : 'Calibration is not simulated: each participant’s probe block is built from their true rates (the rates are treated as known).'
+        : scenario.calibration === 'adaptive'
+          ? `Each simulated participant first answers an adaptive calibration (adaptive design optimisation; Myung, Cavagnaro & Pitt 2013): up to ${spec.calibration.adaptive?.maxItems ?? 12} items, ` +
+            `each chosen from a candidate set of amounts and delays over the design's calibration range to maximise the expected information about the participant's rates ` +
+            `(a grid posterior from the design's prior, updated under the design's choice model, γ = ${num(designChoiceModel(spec).sensitivity)}), stopping early once the posterior SD of ln k and ln K is at most ${num(spec.calibration.adaptive?.targetSd ?? 0.3)}; ` +
+            `choices follow the truth, and the probe block is built at the posterior medians.`
+          : 'Calibration is not simulated: each participant’s probe block is built from their true rates (the rates are treated as known).'
   const probeBlock =
     `The probe block holds ${spec.probePairs} reversal probe pair(s) around the late delay that maximises the gap product, ${spec.lateAnchors} late anchor pair(s) ` +
     `and ${spec.soonAnchors} soon anchor pair(s) placed as clearly outside the reversal zone as the probes are inside it (late delays limited to ${spec.lateDelayLimit} days, ` +

@@ -3,6 +3,7 @@ import { DesignInputError } from '../DesignInputError';
 import { createRandom, type SeededRandom } from '../random';
 import { priorPoints } from '../ratePrior';
 import { mcnemarExactTest, signTest } from './binomialTest';
+import { AdaptiveCalibrationModel } from './adaptiveCalibrationModel';
 import { CalibrationModel } from './calibrationModel';
 import { checkScenario } from './checkScenario';
 import { LargerChoice } from './largerChoice';
@@ -30,8 +31,11 @@ export type PowerSimulator = {
  *
  * Per participant: true rates from the truth's prior (priorPoints); in a personalised design
  * with a simulated calibration block, calibration choices from the truth and rates
- * re-estimated under the design's model (with 'known' rates the true rates stand in for the
- * estimates); the probe block built from those rates (probeSet). As the item bank serves
+ * re-estimated under the design's model ('adaptive': the design's adaptive calibration simulated,
+ * AdaptiveCalibrationModel, posterior medians handed on; with 'known' rates the true rates stand in for the
+ * estimates), or, for a design whose stage 1 estimates delay sensitivity, k, K and s under the
+ * stage-1 model (CalibrationModel, docs/mathematics.md "Stage 1 with delay sensitivity"); the
+ * probe block built from those estimates (probeSet). As the item bank serves
  * them, a population design, a participant flagged all-sooner, all-later or non-monotone, or
  * one with no zone at the estimates gets the fallback set built at the design prior's
  * medians. Every pair's two choices come from the truth: P(LL far) = choice(γ, ε, A) and
@@ -49,7 +53,13 @@ export function createPowerSimulator(scenario: PowerScenario): PowerSimulator {
   }
   const personal = design.spec.mode === 'personalised';
   const cover = Math.max(...fallback.probe, ...fallback.lateAnchor, ...fallback.soonAnchor);
-  const calibration = personal && scenario.calibration === 'simulated' ? new CalibrationModel(scenario, cover) : null;
+  const calibration = !personal
+    ? null
+    : scenario.calibration === 'simulated'
+      ? new CalibrationModel(scenario, cover)
+      : scenario.calibration === 'adaptive'
+        ? new AdaptiveCalibrationModel(scenario, cover)
+        : null;
   const pValues = new Map<number, number>();
   const nMax = scenario.sampleSizes[scenario.sampleSizes.length - 1];
   const signFlip = scenario.test.kind === 'sign-flip' ? new SignFlipDistribution(nMax * Math.max(design.spec.probePairs, fallback.probe.length)) : null;
@@ -75,7 +85,7 @@ const ROLES = ['probe', 'lateAnchor', 'soonAnchor'] as const;
 function simulateReplicate(
   scenario: PowerScenario,
   random: SeededRandom,
-  calibration: CalibrationModel | null,
+  calibration: CalibrationModel | AdaptiveCalibrationModel | null,
   fallback: ProbeSet,
   pValues: Map<number, number>,
   signFlip: SignFlipDistribution | null,
@@ -109,18 +119,13 @@ function simulateReplicate(
     const s = range ? range.low + (range.high - range.low) * random.uniform() : modelS;
     let probes = fallback;
     if (personal) {
-      let kHat = kTrue;
-      let KHat = KTrue;
-      let useFallback = false;
+      let own: ProbeSet | null;
       if (calibration) {
-        const small = calibration.answer(0, kTrue, s, random);
-        const large = calibration.answer(1, KTrue, s, random);
-        kHat = small.rate;
-        KHat = large.rate;
+        const [small, large] = calibration.answerBoth(kTrue, KTrue, s, random);
         if (small.flagged || large.flagged) flagged++;
-        useFallback = small.fallback || large.fallback;
-      }
-      const own = useFallback ? null : probeSet(design, kHat, KHat);
+        // adaptive calibration hands on posterior medians under the design model
+        own = small.fallback || large.fallback ? null : calibration instanceof CalibrationModel ? calibration.probeSet(small, large) : probeSet(design, small.rate, large.rate);
+      } else own = probeSet(design, kTrue, KTrue); // 'known': the true rates stand in for the estimates
       if (own) probes = own;
       else fallbacks++;
     }

@@ -39,7 +39,13 @@ export const STRESS_DEFAULTS = {
 
 const EXPONENTIAL_FAMILY: readonly ModelId[] = ['exponential', 'exponential-power', 'quasi-hyperbolic'];
 
-function sensitivityModel(model: ModelSpec): ModelSpec['id'] {
+/**
+ * The model with a delay sensitivity s in a model's family: exponential with delay sensitivity
+ * for the exponential family, hyperboloid for the hyperboloid, else the power-delay hyperbola.
+ *
+ * @example sensitivityModel({ id: 'hyperbolic' }) // 'power-delay'
+ */
+export function sensitivityModel(model: ModelSpec): 'exponential-power' | 'hyperboloid' | 'power-delay' {
   if (EXPONENTIAL_FAMILY.includes(model.id)) return 'exponential-power';
   return model.id === 'hyperboloid' ? 'hyperboloid' : 'power-delay';
 }

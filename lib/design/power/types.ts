@@ -49,8 +49,12 @@ export type PowerTruth = {
 export type PowerScenario = {
   design: PowerDesign;
   truth: PowerTruth;
-  /** 'simulated': calibration choices are simulated and rates re-estimated; 'known': probes use the true rates */
-  calibration: 'simulated' | 'known';
+  /**
+   * 'simulated': the fixed calibration block's choices are simulated and rates re-estimated;
+   * 'adaptive': adaptive calibration is simulated (the design's stop rule, else 12 items / SD 0.3);
+   * 'known': probes use the true rates
+   */
+  calibration: 'simulated' | 'adaptive' | 'known';
   test: { kind: PowerTestKind; alpha: number; alternative: Extract<Alternative, 'two-sided' | 'greater'> };
   /** participants per simulated study, ascending, distinct */
   sampleSizes: number[];

@@ -69,6 +69,8 @@ export const apiPermissions: Record<string, Partial<Record<Method, Access>>> = {
   // needs the participant's session token and a listed origin (CORS preflights, OPTIONS, are public).
   '/api/v1/studies/[id]/calibration': { GET: 'api-key' },
   '/api/v1/studies/[id]/stage2-answers': { POST: 'api-key' },
+  // Adaptive calibration (issue 17): the next-item step, same keys and token rule as the session API.
+  '/api/v1/studies/[id]/calibration-next': { POST: 'api-key' },
   '/api/studies/[id]/item-bank/[versionId]/starter': { GET: 'operator' },
   '/api/studies/[id]/sessions': { GET: 'viewer', PATCH: 'operator' },
   // Session page (issue 13): operators manage participant links and preview them; participants

@@ -49,3 +49,10 @@ export async function readBodyText(request: Request, maxBytes: number, tooBig: s
   }
   return Buffer.concat(chunks).toString('utf8');
 }
+
+/** Parses a request's query parameters with `schema` (strict): unknown or bad parameters → 422 naming them. */
+export function readQuery<S extends z.ZodType>(request: Request, schema: S): z.infer<S> {
+  const parsed = schema.safeParse(Object.fromEntries(new URL(request.url).searchParams));
+  if (!parsed.success) throw new ValidationError(parsed.error.issues.map((i) => ({ path: i.path.map(String).join('.') || '(query)', message: i.message })));
+  return parsed.data;
+}

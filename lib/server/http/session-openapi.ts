@@ -149,6 +149,80 @@ export function sessionPaths() {
       },
       options: { operationId: 'stage2AnswersPreflight', summary: 'CORS preflight', parameters: [id], responses: { '204': { description: 'allowed methods and headers for a listed origin' } }, security: [] },
     },
+    // Adaptive calibration (issue 17): the "next calibration item" step.
+    '/api/v1/studies/{id}/calibration-next': {
+      post: {
+        operationId: 'nextCalibrationItem',
+        summary: 'The next adaptive calibration item of a participant',
+        description:
+          'For a design version whose calibration is adaptive (adaptive design optimisation: each item is the candidate with the largest expected information ' +
+          'about the participant\'s rates, given their answers so far). Step 0 sends no answer and returns the first item; step n sends the answer to the item ' +
+          'step n − 1 returned and returns the next one, until `done` (the design\'s most items, or the posterior SD of ln k and ln K at its target). ' +
+          'Answers are stored by the server; the same step sent again with the same answer returns the same reply and writes nothing, a different answer to ' +
+          'a step already answered gives 409. When done, send `responses` to probe-items as the calibration responses. Estimates are posterior medians and ' +
+          '95 % intervals from the participant\'s choices, not a clinical assessment. ' +
+          corsNote,
+        parameters: [id, token],
+        requestBody: {
+          required: true,
+          content: {
+            'application/json': {
+              schema: {
+                type: 'object',
+                additionalProperties: false,
+                required: ['participantId', 'step'],
+                properties: {
+                  participantId: { type: 'string', maxLength: 128, pattern: '^[\\w.:@-]+$' },
+                  step: { type: 'integer', minimum: 0, maximum: 200, description: 'answers given so far, this one included' },
+                  answer: {
+                    type: 'object',
+                    additionalProperties: false,
+                    required: ['itemId', 'chosen'],
+                    properties: { itemId: { type: 'string', maxLength: 64, description: 'the item the previous step returned' }, chosen: { type: 'string', enum: ['sooner', 'later'] } },
+                  },
+                },
+              },
+              example: { participantId: 'P-017', step: 1, answer: { itemId: 'acal-small-07-11', chosen: 'later' } },
+            },
+          },
+        },
+        responses: {
+          '200': {
+            description: 'the next item, or the end of calibration with the estimates',
+            content: {
+              'application/json': {
+                schema: {
+                  type: 'object',
+                  required: ['participantId', 'designVersionId', 'step', 'answered', 'done', 'item', 'estimates', 'responses', 'caution'],
+                  properties: {
+                    participantId: { type: 'string' },
+                    designVersionId: { type: 'integer' },
+                    step: { type: 'integer' },
+                    answered: { type: 'integer' },
+                    done: { type: 'boolean' },
+                    reason: { type: ['string', 'null'], enum: ['max-items', 'target-sd', 'no-candidates', null] },
+                    item: { oneOf: [{ $ref: '#/components/schemas/Item' }, { type: 'null' }] },
+                    information: { type: ['number', 'null'], description: 'expected information gain of the item, nats' },
+                    estimates: { type: 'object', description: 'kSmall and kLarge: posterior median rate (per day), SD of ln k, 95 % interval; sensitivity: posterior median s or null' },
+                    responses: { type: 'object', additionalProperties: { type: 'string', enum: ['sooner', 'later'] }, description: 'the answers so far as calibration responses for probe-items' },
+                    caution: { type: 'string' },
+                  },
+                },
+              },
+            },
+          },
+          '400': { description: 'the body is not JSON', content: errorContent('The request body is not valid JSON.') },
+          '401': { description: 'missing, unknown or revoked key', content: errorContent('This API key is unknown or has been revoked.') },
+          '403': { description: 'browser key: origin not listed, or the participant\'s session token missing or wrong', content: errorContent("Send participant P-017's session token (X-Session-Token, from the calibration reply that started the session).") },
+          '404': { description: 'the key belongs to another study', content: errorContent('Study not found.') },
+          '409': { description: 'the step was already answered differently, or the participant is calibrated with another design version', content: errorContent('Step 1 of participant P-017 was already answered (acal-small-07-11: later); the first answer is kept.') },
+          '413': { description: 'body over 1 MB', content: errorContent('The request body is larger than 1 MB.') },
+          '422': { description: 'the design is not adaptive (path calibration), a step beyond the answers stored + 1 (step), an answer to another item than the one returned (answer.itemId), an answer after the end (answer)', content: errorContent('Some fields are invalid.') },
+          '429': { description: 'rate limit of the key', headers: { 'Retry-After': { schema: { type: 'integer' } } }, content: errorContent('Too many requests for this key; retry in 2 s.') },
+        },
+      },
+      options: { operationId: 'calibrationNextPreflight', summary: 'CORS preflight', parameters: [id], responses: { '204': { description: 'allowed methods and headers for a listed origin' } }, security: [] },
+    },
     // Real rewards (issue 20)
     '/api/v1/studies/{id}/payment-details': {
       post: {

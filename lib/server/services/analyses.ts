@@ -7,7 +7,7 @@ import { analyseStudy, ANALYSIS_ENGINE_VERSION, designChoiceModel, DesignInputEr
 import { queueEnv } from '@/lib/server/env';
 import { queueWorkerCount } from '@/lib/server/jobs/chunk-queue';
 import { runRefitsOnQueue } from '@/lib/server/jobs/analysis/queue';
-import { recordsToCsv } from '@/lib/shared/csv';
+import { personRecordsCsv } from '@/lib/shared/csv';
 import { patternsSvg, zonesSvg } from '@/lib/shared/figures/results-figures';
 import { storeAnalysis, type StoredAnalysis } from '@/lib/shared/results/stored-analysis';
 import type { AnalysisCreate } from '@/lib/shared/validations/analysis';
@@ -158,7 +158,7 @@ export function analysisFigures(a: AnalysisDto & { result: StoredAnalysis }) {
   };
 }
 
-/** Per participant and model: estimates with intervals, fit, prediction and the zone diagnosis, through the formula guard. */
+/** Per participant and model: estimates with intervals, fit, prediction and the zone diagnosis, through the formula guard, with the analysis it came from and the caution as columns. */
 export function analysisCsv(a: AnalysisDto & { result: StoredAnalysis }): string {
   const zones = new Map((a.result.zones?.participants ?? []).map((z) => [z.participantId, z]));
   const rows = a.result.participants.flatMap((p) =>
@@ -194,8 +194,10 @@ export function analysisCsv(a: AnalysisDto & { result: StoredAnalysis }): string
       };
     }),
   );
-  const comments = [`Switchback analysis "${a.label}" · design version ${a.designVersion.number} · hash ${a.designVersion.hash} · ${a.software}`, CAUTION];
-  return recordsToCsv({ records: rows, comments });
+  // A plain table (no comment lines, which break spreadsheet and survey imports): where each row
+  // comes from rides along as columns, and the caution is the last column of every row.
+  const provenance = { analysis: a.label, designVersion: a.designVersion.number, designHash: a.designVersion.hash, software: a.software };
+  return personRecordsCsv({ records: rows.map((row) => ({ ...row, ...provenance })) });
 }
 
 /** A download of a saved analysis: CSV, JSON, or either figure as SVG or PNG (300 dpi). */

@@ -2,7 +2,7 @@ import Papa from 'papaparse';
 import type { DesignVersion } from '@/db/models';
 import { ApiError, ValidationError } from '@/lib/server/errors';
 import { BATCH_MAX_ROWS, participantIdSchema } from '@/lib/shared/validations/item-bank';
-import { recordsToCsv, restoreCell } from '@/lib/shared/csv';
+import { personRecordsCsv, restoreCell } from '@/lib/shared/csv';
 import { serveProbeItems, type ProbeItemsReply } from './participants';
 
 export type BatchResult =
@@ -44,7 +44,7 @@ export async function serveBatch(version: DesignVersion, csv: string, userId: nu
   return results;
 }
 
-/** Batch results as CSV: one row per served item, and one row per refused participant with the reason. */
+/** Batch results as CSV: one row per served item, and one row per refused participant with the reason; the caution in the last column. */
 export function batchCsv(results: readonly BatchResult[]): string {
   const rows = results.flatMap((r): Record<string, unknown>[] =>
     r.status === 'served'
@@ -52,5 +52,5 @@ export function batchCsv(results: readonly BatchResult[]): string {
       : [{ participantId: r.participantId, status: 'refused', flag: '', kSmall: '', kLarge: '', message: [r.message, ...r.issues.map((i) => `${i.path}: ${i.message}`)].join(' | ') }],
   );
   const fields = ['participantId', 'status', 'flag', 'kSmall', 'kLarge', 'message', 'id', 'block', 'role', 'set', 'view', 'pairId', 'soonerAmount', 'soonerDelay', 'laterAmount', 'laterDelay', 'soonerSide', 'position', 'text'];
-  return recordsToCsv({ records: rows, columns: fields });
+  return personRecordsCsv({ records: rows, columns: fields });
 }

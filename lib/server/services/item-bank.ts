@@ -2,7 +2,7 @@ import { Design, DesignVersion } from '@/db/models';
 import { db } from '@/db';
 import { NotFoundError, ValidationError } from '@/lib/server/errors';
 import { recordsToCsv } from '@/lib/shared/csv';
-import { CHOICE_SENSITIVITY_UNIT, DesignInputError, designChoiceModel, type BankItem } from '@/lib/design';
+import { CHOICE_SENSITIVITY_UNIT, DesignInputError, describeCalibration, designChoiceModel, type BankItem } from '@/lib/design';
 import type { Study } from '@/db/models';
 import { exportOptionsSchema, type ExportOptions } from '@/lib/shared/validations/item-bank';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
@@ -81,6 +81,8 @@ export function previewItemBank(study: Study, version: DesignVersion, options: E
       /** the id an API key bound to the same settings reports; send it with calibration answers so a mismatch is refused */
       itemBankId: itemBankId(version.hash, presentationOf(version.hash, { seed, delayUnit: bank.delayUnit, minGap: bank.minGap })),
       choiceModel: { ...designChoiceModel(version.content.spec), unit: CHOICE_SENSITIVITY_UNIT },
+      /** where the calibration delays go and which model stage 1 fits (describeCalibration) */
+      calibration: describeCalibration(version.content.spec),
     },
     designPoint: bank.designPoint,
     probeRule:
@@ -90,6 +92,19 @@ export function previewItemBank(study: Study, version: DesignVersion, options: E
           'or whose estimates have no reversal zone within the limits.'
         : null,
     items: bank.items,
+    /** adaptive calibration (issue 17): the stop rule and every candidate the next-item step may ask; null for the fixed block alone */
+    adaptiveCalibration: bank.adaptive
+      ? {
+          rule:
+            `Calibration is adaptive (adaptive design optimisation): the session API's next-item step (POST /api/v1/studies/{id}/calibration-next) asks each participant ` +
+            `up to ${bank.adaptive.maxItems} of these ${bank.adaptive.candidates.length} candidates, one at a time, each the one with the largest expected information about their rates, ` +
+            `stopping early once the posterior SD of ln k and ln K is at most ${bank.adaptive.targetSd}.`,
+          maxItems: bank.adaptive.maxItems,
+          targetSd: bank.adaptive.targetSd,
+          candidateCount: bank.adaptive.candidates.length,
+          candidates: bank.adaptive.candidates,
+        }
+      : null,
     rounding: bank.rounding,
     extrapolation: bank.extrapolation,
     extrapolationRisk: riskFor(version),
@@ -102,7 +117,7 @@ export const ITEM_COLUMN_MEANINGS: Record<(typeof ITEM_COLUMNS)[number], string>
   id: 'item id, unique in the bank (the probe-items API and stage-2 answers use it)',
   block: 'calibration (stage 1) or probe (stage 2)',
   role: 'calibration, attention-check, late-anchor, reversal-probe or soon-anchor',
-  set: 'shared (everyone), personal, or fallback (served when a participant’s estimates cannot place a personal block)',
+  set: 'shared (everyone), personal, or fallback (served when a participant’s estimates cannot place a personal block); candidate: an item adaptive calibration may ask (annotated CSV of an adaptive design)',
   view: 'far or near view of a question pair (empty for calibration items and attention checks)',
   pairId: 'the pair a far and a near view belong to',
   magnitude: 'small or large reward, for calibration items (empty for pairs and checks)',
@@ -125,7 +140,7 @@ export function exportFileName(study: { id: number; name: string }, hash: string
  * Items as CSV, one row per item, formula-safe. Without header lines it is a plain CSV (header
  * row first); with them, each comes first as a "#" comment line (study, design hash, seed, units).
  */
-export function itemsCsv(items: readonly BankItem[], headerLines: string[] = []): string {
+export function itemsCsv(items: ReadonlyArray<Omit<BankItem, 'set'> & { set: string }>, headerLines: string[] = []): string {
   return recordsToCsv({ records: items, columns: ITEM_COLUMNS, comments: headerLines });
 }
 
@@ -144,17 +159,21 @@ export async function exportItemBank(actorId: number, study: Study, version: Des
     body = itemsCsv(preview.items);
   } else if (options.format === 'csv-annotated') {
     filename = csvName;
-    body = itemsCsv(preview.items, [
+    const adaptive = preview.adaptiveCalibration;
+    body = itemsCsv(adaptive ? [...preview.items, ...adaptive.candidates.map((c) => Object.assign({}, c, { set: 'candidate' }))] : preview.items, [
       `Switchback item bank · study ${study.id} "${study.name}"`,
       `design version ${version.number} · hash ${version.hash} · seed ${seed} · item bank ${preview.header.itemBankId} (gap ${options.minGap})`,
       `choice model: logistic, sensitivity γ = ${preview.header.choiceModel.sensitivity} ${CHOICE_SENSITIVITY_UNIT}, no lapse (rate estimates use it)`,
+      `calibration: ${preview.header.calibration}`,
       `mode ${preview.header.mode} · currency ${preview.header.currency} · amounts rounded to ${preview.header.amountUnit} · delays in whole ${preview.header.delayUnit} (a month is 30 days)`,
       preview.probeRule ?? 'Population design: every participant runs these items.',
+      ...(adaptive ? [`${adaptive.rule} The candidates are the last ${adaptive.candidateCount} rows (set "candidate"); the fixed calibration block stays for software that cannot call the step.`] : []),
     ]);
   } else if (options.format === 'metadata') {
     filename = exportFileName(study, version.hash, seed, 'meta.json');
-    const { items, ...rest } = preview;
-    body = `${JSON.stringify({ describes: csvName, itemCount: items.length, columns: ITEM_COLUMN_MEANINGS, ...rest }, null, 2)}\n`;
+    const { items, adaptiveCalibration, ...rest } = preview;
+    const adaptive = adaptiveCalibration ? { rule: adaptiveCalibration.rule, maxItems: adaptiveCalibration.maxItems, targetSd: adaptiveCalibration.targetSd, candidateCount: adaptiveCalibration.candidateCount } : null;
+    body = `${JSON.stringify({ describes: csvName, itemCount: items.length, columns: ITEM_COLUMN_MEANINGS, ...rest, adaptiveCalibration: adaptive }, null, 2)}\n`;
   } else {
     filename = exportFileName(study, version.hash, seed, 'json');
     body = `${JSON.stringify(preview, null, 2)}\n`;

@@ -1,8 +1,7 @@
 import { Participant } from '@/db/models';
-import { db, rawQuery } from '@/db';
+import { rawQuery } from '@/db';
 import { ConflictError, ValidationError } from '@/lib/server/errors';
 import { contentHash } from '@/lib/shared/canonical-json';
-import { recordsToCsv, toCsv } from '@/lib/shared/csv';
 import { ItemBankInputError, serveParticipant, type ServedItems } from '@/lib/design';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import { markApiKeyRevoked, RevokedKeyError, type CachedKey } from './api-keys';
@@ -108,33 +107,4 @@ export function participantJson(p: Participant) {
     items: result.items,
     servedAt: p.createdAt.toISOString(),
   };
-}
-
-/** The study's participants, newest first (at most `limit`). */
-export async function listParticipants(studyId: number, limit = 500) {
-  db();
-  const rows = await Participant.findAll({ where: { studyId }, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit });
-  return rows.map(participantJson);
-}
-
-/** Participants as CSV: one row per item served, with the participant's estimates; formula-safe. */
-export function participantsCsv(participants: ReturnType<typeof participantJson>[]): string {
-  const rows = participants.flatMap((p) =>
-    p.items.map((item) => ({
-      participantId: p.participantId,
-      servedAt: p.servedAt,
-      source: p.source,
-      itemSet: p.itemSet,
-      flag: p.flag ?? '',
-      kSmall: p.kSmall.rate,
-      kSmallSeLog: p.kSmall.standardErrorLog ?? '',
-      kLarge: p.kLarge.rate,
-      kLargeSeLog: p.kLarge.standardErrorLog ?? '',
-      attentionCheck: p.attentionCheck,
-      extrapolation: p.extrapolation ?? '',
-      ...item,
-    })),
-  );
-  if (rows.length === 0) return toCsv({ columns: ['participantId'], rows: [] });
-  return recordsToCsv({ records: rows });
 }

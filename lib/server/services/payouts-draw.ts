@@ -86,8 +86,10 @@ async function answeredItems(participant: Participant, transaction?: Transaction
  * with drawIncentive. UNIQUE (study, participant) makes parallel completions record one payout;
  * the loser reads the winner's row back.
  */
-export async function drawPayoutOnCompletion(input: { studyId: number; participantId: string }): Promise<RewardPromise | null> {
+export async function drawPayoutOnCompletion(input: { studyId: number; participantId: string; designVersionId?: number }): Promise<RewardPromise | null> {
   db();
+  // A caller that knows the version (the stage-2 answers path) spares studies without real rewards every other query.
+  if (input.designVersionId !== undefined && !(await RewardSettings.findOne({ where: { designVersionId: input.designVersionId, enabled: true }, attributes: ['id'] }))) return null;
   const session = await ParticipantSession.findOne({ where: { studyId: input.studyId, participantId: input.participantId } });
   if (!session || session.status !== 'completed' || !session.completedAt) return null;
   const existing = await Payout.findOne({ where: { studyId: input.studyId, participantId: input.participantId } });

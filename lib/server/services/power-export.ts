@@ -38,15 +38,20 @@ export function runFigureSvg(runs: Array<{ run: PowerRunDto; result: PowerResult
 /**
  * CSV, one row per truth and sample size (the assumed truth first, then each stress truth):
  * power, interval, Monte Carlo standard error, mean reversals, pattern shares per role, flags,
- * and the truth's choice sensitivity γ per unit of the larger amount. Every cell goes through
+ * and the truth's choice sensitivity γ per unit of the larger amount; `calibration` says whether
+ * the row simulates the design's own calibration ('design') or, in a run comparing calibrations,
+ * the other one ('other', described in the JSON and the method text). Every cell goes through
  * the formula guard.
  */
 export function runCsv(run: PowerRunDto, result: PowerResultDto): string {
   const replicates = result.summary.replicates;
-  const curves = [
-    { truth: 'assumed', gamma: run.spec.truth.gamma, summary: result.summary },
-    ...(result.stress ?? []).map((s) => ({ truth: stressLegend(s.stress), gamma: s.stress.kind === 'choice-noise' ? run.spec.truth.gamma * s.stress.factor : run.spec.truth.gamma, summary: s.summary })),
+  const own = [
+    { truth: 'assumed', gamma: run.spec.truth.gamma, summary: result.summary, calibration: 'design' },
+    ...(result.stress ?? []).map((s) => ({ truth: stressLegend(s.stress), gamma: s.stress.kind === 'choice-noise' ? run.spec.truth.gamma * s.stress.factor : run.spec.truth.gamma, summary: s.summary, calibration: 'design' })),
   ];
+  // a run comparing calibrations: the same truths again with the design's other calibration
+  const other = (result.calibrationComparison?.rows ?? []).map((r, i) => ({ ...own[i], summary: r.other, calibration: 'other' }));
+  const curves = [...own, ...other];
   const rows = curves.flatMap((curve) =>
     curve.summary.points.map((p) => {
       const row: Record<string, number | string> = {
@@ -68,6 +73,7 @@ export function runCsv(run: PowerRunDto, result: PowerResultDto): string {
       row.test = run.spec.test.kind;
       row.design_hash = run.design.hash;
       row.seed = run.spec.seed;
+      row.calibration = curve.calibration;
       return row;
     }),
   );
@@ -84,6 +90,7 @@ export function runJson(run: PowerRunDto, result: PowerResultDto) {
     software: result.software,
     summary: result.summary,
     stress: result.stress ?? [],
+    ...(result.calibrationComparison ? { calibrationComparison: result.calibrationComparison } : {}),
     methodText: result.methodText,
   };
 }

@@ -122,15 +122,18 @@ export async function createPowerRun(actorId: number, studyId: number, spec: Pow
   db();
   const version = await DesignVersion.findOne({ where: { id: spec.designVersionId, studyId } });
   if (!version) throw new ValidationError([{ path: 'designVersionId', message: 'Choose a frozen design version of this study.' }]);
+  let scenarioCount = 0;
   try {
-    for (const scenario of buildScenarios(spec, decodeJson<FrozenDesign>(version.content))) createPowerSimulator(scenario);
+    const scenarios = buildScenarios(spec, decodeJson<FrozenDesign>(version.content));
+    for (const scenario of scenarios) createPowerSimulator(scenario);
+    scenarioCount = scenarios.length;
   } catch (error) {
     if (error instanceof DesignInputError) throw new ValidationError([{ path: error.field, message: error.message }]);
     throw error;
   }
   const row = await db().transaction(async (transaction) => {
     const created = await PowerRun.create(
-      { studyId, designVersionId: version.id, label: spec.label, spec, total: spec.replications * (1 + spec.stress.length), engineVersion: POWER_ENGINE_VERSION, createdBy: actorId, heartbeatAt: new Date() },
+      { studyId, designVersionId: version.id, label: spec.label, spec, total: spec.replications * scenarioCount, engineVersion: POWER_ENGINE_VERSION, createdBy: actorId, heartbeatAt: new Date() },
       { transaction },
     );
     await recordAudit({ actorId, studyId, action: 'power-run.start', details: { runId: created.id, designVersionId: version.id, replications: spec.replications } }, transaction);

@@ -13,6 +13,7 @@ import { bankOrInvalid, frozenVersionById, loadVersion } from './item-bank';
 import { countByStatus, sessionState, type SessionStatus } from './session-status';
 import { newSlug, pageItems, pageLinkOf } from './session-page/session-page';
 import { currentStep } from './session-page/steps';
+import { nextCalibrationItem } from './session-page/calibration-step';
 
 // Participant links to the session page, as operators manage them (a "Session links" area of the study).
 
@@ -156,15 +157,12 @@ export async function previewSessionLink(studyId: number, rawLinkId: string, raw
   const { items, bank, locate } = pageItems(version);
   const known = new Set(items.calibration.map((i) => i.id));
   const calibration = Object.fromEntries(Object.entries(state.calibration).filter(([id]) => known.has(id)));
-  const complete = items.calibration.every((i) => calibration[i.id] !== undefined);
   let served = null;
-  if (complete) {
-    try {
-      served = serveParticipant(version.content, bank, { participantId: 'preview', responses: calibration, locate }).items;
-    } catch (error) {
-      if (error instanceof ItemBankInputError) throw new ValidationError(error.issues, 'Some calibration responses are invalid.');
-      throw error;
-    }
+  try {
+    if (nextCalibrationItem(items, calibration, 'preview') === null) served = serveParticipant(version.content, bank, { participantId: 'preview', responses: calibration, locate }).items;
+  } catch (error) {
+    if (error instanceof ItemBankInputError) throw new ValidationError(error.issues, 'Some calibration responses are invalid.');
+    throw error;
   }
   const servedIds = new Set((served ?? []).map((i) => i.id));
   const stage2 = new Map(Object.entries(state.stage2).filter(([id]) => servedIds.has(id)));

@@ -2,7 +2,7 @@ import { QueryTypes } from 'sequelize';
 import { db } from '@/db';
 import { Study } from '@/db/models';
 import type { StoredSessionStatus } from '@/db/models/session';
-import { toCsv } from '@/lib/shared/csv';
+import { personRecordsCsv } from '@/lib/shared/csv';
 import { NotFoundError } from '@/lib/server/errors';
 import { recordAudit } from './audit';
 
@@ -63,21 +63,42 @@ const SESSIONS_SQL = `
          JSON_LENGTH(p.result, '$.items') AS item_count
     FROM participant_sessions s
     LEFT JOIN participants p ON p.study_id = s.study_id AND p.participant_id = s.participant_id
-   WHERE s.study_id = :studyId
+   WHERE s.study_id = :studyId /*session-filters*/
   UNION ALL
   SELECT p.participant_id, p.design_version_id, NULL, 1, p.source,
          p.created_at, p.created_at, NULL, p.created_at,
          0, JSON_LENGTH(p.result, '$.items')
     FROM participants p
     LEFT JOIN participant_sessions s ON s.study_id = p.study_id AND s.participant_id = p.participant_id
-   WHERE p.study_id = :studyId AND s.id IS NULL`;
+   WHERE p.study_id = :studyId AND s.id IS NULL /*participant-filters*/`;
+
+/** Which sessions a list reads: part of a participant id (any letter case), one frozen version. */
+export type SessionFilter = { search?: string; versionId?: number };
+
+// Ids keep their exact (binary) collation for identity; a search compares them case-insensitively.
+function filteredSql(filter: SessionFilter): string {
+  const conditions = (alias: string) =>
+    [
+      filter.search ? ` AND ${alias}.participant_id COLLATE utf8mb4_unicode_ci LIKE :like ESCAPE '!'` : '',
+      filter.versionId !== undefined ? ` AND ${alias}.design_version_id = :versionId` : '',
+    ].join('');
+  return SESSIONS_SQL.replace('/*session-filters*/', conditions('s')).replace('/*participant-filters*/', conditions('p'));
+}
+
+/** A LIKE pattern matching `text` anywhere, its own wildcards taken literally. */
+function containsPattern(text: string): string {
+  return `%${text.replace(/[!%_]/g, (c) => `!${c}`)}%`;
+}
 
 const iso = (d: Date | string | null) => (d === null ? null : new Date(d).toISOString());
 
 /** Every session of a study with its status (abandoned after the study's idle time), most recent activity first. */
-export async function listSessionStatuses(studyId: number, options: { idleMinutes: number; now?: Date }): Promise<SessionStatusRow[]> {
+export async function listSessionStatuses(studyId: number, options: { idleMinutes: number; now?: Date } & SessionFilter): Promise<SessionStatusRow[]> {
   const now = options.now ?? new Date();
-  const rows = await db().query<Raw>(SESSIONS_SQL, { replacements: { studyId }, type: QueryTypes.SELECT });
+  const rows = await db().query<Raw>(filteredSql(options), {
+    replacements: { studyId, like: containsPattern(options.search ?? ''), versionId: options.versionId ?? 0 },
+    type: QueryTypes.SELECT,
+  });
   return rows
     .map((r) => {
       const lastActivityAt = new Date(r.last_activity_at);
@@ -94,7 +115,7 @@ export async function listSessionStatuses(studyId: number, options: { idleMinute
         itemCount: Number(r.item_count ?? 0),
       };
     })
-    .sort((a, b) => (a.lastActivityAt < b.lastActivityAt ? 1 : a.lastActivityAt > b.lastActivityAt ? -1 : 0));
+    .sort((a, b) => (a.lastActivityAt < b.lastActivityAt ? 1 : a.lastActivityAt > b.lastActivityAt ? -1 : a.participantId < b.participantId ? -1 : a.participantId > b.participantId ? 1 : 0));
 }
 
 /** How many sessions are in each status. */
@@ -104,16 +125,19 @@ export function countByStatus(rows: readonly { status: SessionStatus }[]): Recor
   return counts;
 }
 
-/** Sessions as CSV (one row per participant), every cell through the formula guard. */
+/** Sessions as CSV (one row per participant), every cell through the formula guard, the caution in the last column. */
 export function sessionsCsv(rows: readonly SessionStatusRow[]): string {
-  const header = ['participantId', 'status', 'answered', 'itemCount', 'source', 'designVersionId', 'startedAt', 'servedAt', 'completedAt', 'lastActivityAt'];
-  return toCsv({ columns: header, rows: rows.map((r) => [r.participantId, r.status, r.answered, r.itemCount, r.source, r.designVersionId, r.startedAt, r.servedAt, r.completedAt, r.lastActivityAt]) });
+  const columns = ['participantId', 'status', 'answered', 'itemCount', 'source', 'designVersionId', 'startedAt', 'servedAt', 'completedAt', 'lastActivityAt'];
+  return personRecordsCsv({ records: rows, columns });
 }
 
-/** The study's sessions with counts per status, optionally only one status. */
-export async function studySessions(study: { id: number; sessionIdleMinutes: number }, filter: SessionStatus | null) {
-  const all = await listSessionStatuses(study.id, { idleMinutes: study.sessionIdleMinutes });
-  return { idleMinutes: study.sessionIdleMinutes, counts: countByStatus(all), sessions: filter ? all.filter((r) => r.status === filter) : all };
+/**
+ * The study's sessions matching a search and version, with counts per status among them, then
+ * only one status if asked (the counts say what each status filter would show).
+ */
+export async function studySessions(study: { id: number; sessionIdleMinutes: number }, filter: SessionFilter & { status?: SessionStatus | null; now?: Date } = {}) {
+  const all = await listSessionStatuses(study.id, { idleMinutes: study.sessionIdleMinutes, search: filter.search, versionId: filter.versionId, now: filter.now });
+  return { idleMinutes: study.sessionIdleMinutes, counts: countByStatus(all), sessions: filter.status ? all.filter((r) => r.status === filter.status) : all };
 }
 
 /** Sets after how many idle minutes an unfinished session reads as abandoned (audited). */

@@ -153,7 +153,7 @@ export async function recordStage2Answers(input: RecordAnswersInput): Promise<Re
   // Real rewards: the paid choice is drawn when the session completes (once; a replay reads it back).
   // Uploaded answers record sessions run elsewhere and draw nothing.
   if (status === 'completed' && input.source !== 'upload') {
-    const reward = await drawPayoutOnCompletion({ studyId: input.studyId, participantId: input.participantId });
+    const reward = await drawPayoutOnCompletion({ studyId: input.studyId, participantId: input.participantId, designVersionId: served.designVersionId });
     if (reward) result.reward = reward;
   }
   return result;

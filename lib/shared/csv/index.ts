@@ -2,6 +2,7 @@
 // participants, batch results, power results, the audit trail, the offline answer sheet) is built
 // here, so every cell — column names and comment lines included — passes the formula guard.
 
+import { PERSON_CAUTION } from '@/lib/shared/cautions';
 import { neutraliseCell } from './formula-guard';
 
 export { neutraliseCell, restoreCell } from './formula-guard';
@@ -63,4 +64,19 @@ export function toCsv({ columns, rows, comments = [] }: CsvDocument): string {
 export function recordsToCsv({ records, columns, comments }: { records: ReadonlyArray<Record<string, unknown>>; columns?: readonly string[]; comments?: readonly string[] }): string {
   const keys = columns ?? [...new Set(records.flatMap((record) => Object.keys(record)))];
   return toCsv({ columns: keys, rows: records.map((record) => keys.map((key) => record[key])), comments });
+}
+
+/** The last column of every per-person CSV: the caution, on every row, as an ordinary cell. */
+export const CAUTION_COLUMN = 'caution';
+
+/**
+ * A CSV of records about people (participants, sessions, estimates, analyses): recordsToCsv with a
+ * last column `caution` holding PERSON_CAUTION on every row. A column rather than comment lines,
+ * so the file stays a plain table for spreadsheets and survey imports, and the caution travels
+ * with any row copied out of it.
+ * @example personRecordsCsv({ records: [{ a: 1 }] }).split('\r\n')[0] === 'a,caution'
+ */
+export function personRecordsCsv({ records, columns }: { records: ReadonlyArray<Record<string, unknown>>; columns?: readonly string[] }): string {
+  const keys = (columns ?? [...new Set(records.flatMap((record) => Object.keys(record)))]).filter((key) => key !== CAUTION_COLUMN);
+  return toCsv({ columns: [...keys, CAUTION_COLUMN], rows: records.map((record) => [...keys.map((key) => record[key]), PERSON_CAUTION]) });
 }

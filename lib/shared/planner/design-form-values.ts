@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { designSpecSchema, type DesignSpec } from '@/lib/shared/validations/planner';
+import { DEFAULT_ADAPTIVE_STOP } from '@/lib/design';
 import { DEFAULT_CHOICE_SENSITIVITY } from './types';
 
 /**
@@ -8,8 +9,13 @@ import { DEFAULT_CHOICE_SENSITIVITY } from './types';
  * loses nothing. `toSpec` keeps only what the chosen options use; the zod issue paths of the
  * spec are the same as the form's field names.
  */
-export type DesignFormValues = Omit<DesignSpec, 'model' | 'soonDelay' | 'choiceSensitivity'> & {
+export type DesignFormValues = Omit<DesignSpec, 'model' | 'soonDelay' | 'choiceSensitivity' | 'calibration'> & {
   model: { id: DesignSpec['model']['id']; sensitivity: number; presentBias: number };
+  calibration: Omit<DesignSpec['calibration'], 'adaptive' | 'placement' | 'fit'> & {
+    adaptive: { enabled: boolean; maxItems: number; targetSd: number };
+    placement: NonNullable<DesignSpec['calibration']['placement']>;
+    fit: NonNullable<DesignSpec['calibration']['fit']>;
+  };
   soonDelay: { mode: 'fixed' | 'optimised'; days: number; min: number; max: number };
   choiceSensitivity: number;
 };
@@ -22,7 +28,15 @@ export function toSpec(v: DesignFormValues): DesignSpec {
   if (USES_S.has(v.model.id)) model.sensitivity = v.model.sensitivity;
   if (v.model.id === 'quasi-hyperbolic') model.presentBias = v.model.presentBias;
   const soonDelay: DesignSpec['soonDelay'] = v.soonDelay.mode === 'fixed' ? { mode: 'fixed', days: v.soonDelay.days } : { mode: 'optimised', min: v.soonDelay.min, max: v.soonDelay.max };
-  return { ...v, model, soonDelay, choiceSensitivity: v.choiceSensitivity };
+  // the defaults are left out, so a design that does not use the options keeps the spec (and hash) it had before them
+  const { adaptive, placement, fit, ...fixedBlock } = v.calibration;
+  const calibration: DesignSpec['calibration'] = {
+    ...fixedBlock,
+    ...(adaptive.enabled ? { adaptive: { maxItems: adaptive.maxItems, targetSd: adaptive.targetSd } } : {}),
+    ...(placement !== 'range' ? { placement } : {}),
+    ...(fit !== 'design-model' ? { fit } : {}),
+  };
+  return { ...v, model, soonDelay, calibration, choiceSensitivity: v.choiceSensitivity };
 }
 
 /** Form values for a stored spec, with defaults for the controls the spec does not use. */
@@ -33,6 +47,12 @@ export function toForm(spec: DesignSpec): DesignFormValues {
     model: { id: spec.model.id, sensitivity: spec.model.sensitivity ?? 1, presentBias: spec.model.presentBias ?? 0.9 },
     soonDelay: soon.mode === 'fixed' ? { mode: 'fixed', days: soon.days, min: Math.max(1, Math.min(soon.days, 7)), max: Math.max(soon.days, 60) } : { mode: 'optimised', days: soon.min, min: soon.min, max: soon.max },
     choiceSensitivity: spec.choiceSensitivity ?? DEFAULT_CHOICE_SENSITIVITY,
+    calibration: {
+      ...spec.calibration,
+      adaptive: spec.calibration.adaptive ? { enabled: true, ...spec.calibration.adaptive } : { enabled: false, ...DEFAULT_ADAPTIVE_STOP },
+      placement: spec.calibration.placement ?? 'range',
+      fit: spec.calibration.fit ?? 'design-model',
+    },
   };
 }
 
@@ -58,4 +78,25 @@ export function defaultSpec(name: string, priorSetId: number): DesignSpec {
     calibration: { itemsPerMagnitude: 10, minDelay: 7, maxDelay: 365 },
     choiceSensitivity: DEFAULT_CHOICE_SENSITIVITY,
   };
+}
+
+/** Whether two plain values (objects, arrays, numbers, text) are the same, whatever the key order; NaN equals nothing. */
+function sameValue(a: unknown, b: unknown): boolean {
+  if (a === b) return true;
+  if (typeof a !== 'object' || typeof b !== 'object' || a === null || b === null) return false;
+  if (Array.isArray(a) !== Array.isArray(b)) return false;
+  const keysA = Object.keys(a).filter((k) => (a as Record<string, unknown>)[k] !== undefined);
+  const keysB = Object.keys(b).filter((k) => (b as Record<string, unknown>)[k] !== undefined);
+  return keysA.length === keysB.length && keysA.every((k) => sameValue((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k]));
+}
+
+/**
+ * Whether the form holds edits the saved design does not have: the spec the values stand for
+ * against the saved spec, both read through the same toForm/toSpec round trip (so controls the
+ * chosen options do not use are not edits). Read from the values themselves, never from the
+ * form library's dirty flag, which a reset under a just-typed edit can clear.
+ * @example hasUnsavedEdits(toForm(spec), spec) === false
+ */
+export function hasUnsavedEdits(values: DesignFormValues, saved: DesignSpec): boolean {
+  return !sameValue(toSpec(values), toSpec(toForm(saved)));
 }

@@ -49,10 +49,28 @@ export const soonDelaySchema = z.discriminatedUnion('mode', [
   }),
 ]);
 
+/** Where the calibration block's later delays go (absent in designs saved before the option: 'range'). */
+export const CALIBRATION_PLACEMENT_CHOICES = ['range', 'span-probes'] as const;
+/** The model stage 1 fits (absent: 'design-model'); the others estimate delay sensitivity s as well. */
+export const STAGE_ONE_FIT_CHOICES = ['design-model', 'hyperboloid', 'power-delay', 'exponential-power'] as const;
+
 export const calibrationSchema = z.strictObject({
   itemsPerMagnitude: z.number().int().min(4, 'Use at least 4 calibration items per magnitude.').max(40, 'Use at most 40 calibration items per magnitude.'),
   minDelay: z.number().int().min(1).max(MAX_LATE_DELAY_DAYS),
   maxDelay: z.number().int().min(1).max(MAX_LATE_DELAY_DAYS),
+  /**
+   * Adaptive calibration (adaptive design optimisation): items chosen one at a time by expected
+   * information from a candidate set over the same delays; absent = the fixed block.
+   */
+  adaptive: z
+    .strictObject({
+      maxItems: z.number().int().min(2, 'Ask at least 2 adaptive calibration items.').max(80, 'Ask at most 80 adaptive calibration items.'),
+      targetSd: z.number().min(0, 'The target SD of ln k must be 0 or more.').max(2, 'The target SD of ln k must be at most 2.'),
+    })
+    .optional(),
+  // calibration that covers the probes (issue 15): optional, so versions frozen before keep their hash
+  placement: z.enum(CALIBRATION_PLACEMENT_CHOICES, { error: "Choose 'range' or 'span-probes' for the calibration delays." }).optional(),
+  fit: z.enum(STAGE_ONE_FIT_CHOICES, { error: 'Choose the design model, hyperboloid, power-delay or exponential-power for stage 1.' }).optional(),
 });
 
 /** The fields a user edits on a candidate design. */
@@ -80,6 +98,16 @@ export const designSpecSchema = z
       ctx.addIssue({ code: 'custom', path: ['soonDelay', 'max'], message: 'The upper bound must not be below the lower bound.' });
     if (spec.calibration.minDelay >= spec.calibration.maxDelay)
       ctx.addIssue({ code: 'custom', path: ['calibration', 'maxDelay'], message: 'The longest calibration delay must exceed the shortest.' });
+    if ((spec.calibration.fit ?? 'design-model') !== 'design-model' && (spec.calibration.placement ?? 'range') !== 'span-probes')
+      ctx.addIssue({
+        code: 'custom',
+        path: ['calibration', 'fit'],
+        message: 'Estimating delay sensitivity needs calibration delays that span the probes: with one delay per rate, s and k cannot be told apart.',
+      });
+    if ((spec.calibration.fit ?? 'design-model') !== 'design-model' && spec.calibration.adaptive)
+      ctx.addIssue({ code: 'custom', path: ['calibration', 'fit'], message: 'Adaptive calibration estimates rates its own way: choose the design model for stage 1, or the fixed block.' });
+    if ((spec.calibration.fit ?? 'design-model') !== 'design-model' && spec.mode !== 'personalised')
+      ctx.addIssue({ code: 'custom', path: ['calibration', 'fit'], message: 'Only a personalised design builds probes from stage-1 estimates.' });
     const soonest = spec.soonDelay.mode === 'fixed' ? spec.soonDelay.days : spec.soonDelay.max;
     if (spec.lateDelayLimit <= soonest)
       ctx.addIssue({ code: 'custom', path: ['lateDelayLimit'], message: 'The late-delay limit must exceed the soon delay.' });

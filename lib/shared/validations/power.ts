@@ -80,9 +80,11 @@ export const powerRunSpecSchema = z
     designVersionId: z.number({ error: 'Choose a frozen design version.' }).int().positive('Choose a frozen design version.'),
     label: nameText({ label: 'The label', min: 0, max: 120, tooLong: 'Keep the label under 120 characters.' }).default(''),
     truth: powerTruthSchema,
-    calibration: z.enum(['simulated', 'known']),
+    calibration: z.enum(['simulated', 'adaptive', 'known']),
     /** stress truths simulated beside the assumed one; absent in runs saved before they existed */
     stress: z.array(stressTruthSchema).max(5, 'Add at most five stress truths.').default([]),
+    /** also simulate the design with its other calibration (calibrationVariant) under every truth; absent in older runs */
+    compareCalibration: z.boolean({ error: 'Say true or false for comparing calibrations.' }).optional(),
     test: z.strictObject({
       kind: z.enum(POWER_TESTS),
       alpha: z.number().gt(0, 'α must be above 0.').max(0.5, 'α must be at most 0.5.'),
@@ -104,6 +106,8 @@ export const powerRunSpecSchema = z
         ctx.addIssue({ code: 'custom', path: ['stress', i, 'high'], message: 'The highest delay sensitivity must be at least the lowest.' });
       }
     });
+    if (spec.compareCalibration === true && spec.calibration !== 'simulated')
+      ctx.addIssue({ code: 'custom', path: ['compareCalibration'], message: 'Comparing calibrations needs a simulated calibration block.' });
     spec.sampleSizes.forEach((n, i) => {
       if (i > 0 && n <= spec.sampleSizes[i - 1]) ctx.addIssue({ code: 'custom', path: ['sampleSizes', i], message: 'List sample sizes in increasing order, each once.' });
     });

@@ -14,7 +14,7 @@ const content = frozenDesign();
 const version = { hash: contentHash(content), content };
 const { bank, locate } = bankFor(version);
 const calibration = bank.items.filter((i) => i.block === 'calibration').sort((a, b) => a.position - b.position);
-const items: PageItems = { calibration, probeLength: bank.items.filter((i) => i.block === 'probe').length, currency: 'EUR', delayUnit: 'days' };
+const items: PageItems = { calibration, adaptive: null, probeLength: bank.items.filter((i) => i.block === 'probe').length, currency: 'EUR', delayUnit: 'days' };
 const link = { completionCode: 'DONE-1', redirectUrl: 'https://panel.example.org/back?wave=2', participantParam: 'pid' };
 const start = { consented: false, instructionsRead: false, calibration: {}, served: null, stage2: new Map<string, 'sooner' | 'later'>() };
 
@@ -29,7 +29,7 @@ describe('the session page steps', () => {
   it('runs the calibration block in the bank order, attention check included, then the served block with no break, then completes', () => {
     const answers: Record<string, 'sooner' | 'later'> = {};
     const order: string[] = [];
-    for (let next = nextCalibrationItem(calibration, answers); next; next = nextCalibrationItem(calibration, answers)) {
+    for (let next = nextCalibrationItem(items, answers, 'P1'); next; next = nextCalibrationItem(items, answers, 'P1')) {
       order.push(next.id);
       answers[next.id] = next.id === 'check-calibration' ? 'sooner' : 'later';
     }

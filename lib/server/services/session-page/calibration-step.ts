@@ -1,18 +1,30 @@
-import type { BankItem } from '@/lib/design';
+import { nextCalibrationItem as nextAdaptiveItem, type BankDesign, type BankItem, type ItemBank } from '@/lib/design';
 
 /** A calibration answer as the session page keeps it before serving (item id → option). */
 export type CalibrationAnswers = Readonly<Record<string, 'sooner' | 'later'>>;
 
 /**
- * The next calibration item a participant is shown, or null when the block is done. Today the
- * block runs in the bank's order (as exported, attention check included); this is the one
- * place that decides, so an adaptive choice of the next item replaces this function only.
+ * The calibration a link runs: the bank's fixed block (`calibration`, in the bank's order), or, when
+ * the version calibrates adaptively (`adaptive` set), the candidates (`calibration`) with the design
+ * and bank the next-item choice needs.
  */
-export function nextCalibrationItem(items: readonly BankItem[], answers: CalibrationAnswers): BankItem | null {
-  return items.find((item) => answers[item.id] === undefined) ?? null;
+export type CalibrationSource = { calibration: readonly BankItem[]; adaptive: { design: BankDesign; bank: ItemBank } | null };
+
+/**
+ * The next calibration item a participant is shown, or null when calibration is over. The fixed
+ * block runs in the bank's order (as exported, attention check included). Adaptive calibration asks
+ * the item nextCalibrationItem of the core chooses — the same choice, seed and stop rule as the
+ * session API's next-item step — from the answers kept so far, in the order they were given.
+ */
+export function nextCalibrationItem(source: CalibrationSource, answers: CalibrationAnswers, participantId: string): BankItem | null {
+  if (source.adaptive) {
+    const given = Object.entries(answers).map(([itemId, chosen]) => ({ itemId, chosen }));
+    return nextAdaptiveItem(source.adaptive.design, source.adaptive.bank, { participantId, answers: given }).item;
+  }
+  return source.calibration.find((item) => answers[item.id] === undefined) ?? null;
 }
 
-/** How many calibration items the participant will answer in all (for the progress shown). */
-export function calibrationLength(items: readonly BankItem[]): number {
-  return items.length;
+/** How many calibration items the participant will answer at most (for the progress shown). */
+export function calibrationLength(source: CalibrationSource): number {
+  return source.adaptive?.bank.adaptive ? source.adaptive.bank.adaptive.maxItems : source.calibration.length;
 }

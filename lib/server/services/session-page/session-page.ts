@@ -58,11 +58,11 @@ type OpenLink = { link: SessionLink; version: FrozenVersionRef; items: PageItems
 /** The frozen version's items as a link presents them (the version's default presentation, as the default export). */
 export function pageItems(version: FrozenVersionRef): { items: PageItems; bank: ReturnType<typeof bankOrInvalid>['bank']; locate: ReturnType<typeof bankOrInvalid>['locate'] } {
   const { bank, locate } = bankOrInvalid(version);
-  const calibration = bank.items.filter((i) => i.block === 'calibration').sort((a, b) => a.position - b.position);
+  const calibration = bank.adaptive ? bank.adaptive.candidates : bank.items.filter((i) => i.block === 'calibration').sort((a, b) => a.position - b.position);
   return {
     bank,
     locate,
-    items: { calibration, probeLength: bank.items.filter((i) => i.block === 'probe').length, currency: version.content.spec.currency, delayUnit: bank.delayUnit },
+    items: { calibration, adaptive: bank.adaptive ? { design: version.content, bank } : null, probeLength: bank.items.filter((i) => i.block === 'probe').length, currency: version.content.spec.currency, delayUnit: bank.delayUnit },
   };
 }
 
@@ -124,7 +124,7 @@ async function progressOf(link: SessionLink, row: ParticipantSession): Promise<P
  * `served`. Runs again harmlessly after a lost reply or a crash between the two writes.
  */
 async function ensureServed(open: OpenLink, row: ParticipantSession, progress: PageProgress): Promise<PageProgress> {
-  if (progress.served || nextCalibrationItem(open.items.calibration, progress.calibration) !== null) return progress;
+  if (progress.served || nextCalibrationItem(open.items, progress.calibration, row.participantId) !== null) return progress;
   await serveProbeItemsJson(open.version, row.participantId, { ...progress.calibration }, { source: 'page' });
   const now = new Date();
   await rawQuery(
@@ -277,10 +277,10 @@ async function answerCalibration(open: OpenLink, row: ParticipantSession, action
     const answers: Record<string, 'sooner' | 'later'> = { ...((decodeJson(locked.calibrationAnswers) ?? {}) as CalibrationAnswers) };
     const previous = answers[action.itemId];
     if (previous !== undefined) return previous === action.chosen ? 'replay' : 'changed';
-    if (nextCalibrationItem(open.items.calibration, answers)?.id !== action.itemId) return 'not-current';
+    if (nextCalibrationItem(open.items, answers, row.participantId)?.id !== action.itemId) return 'not-current';
     answers[action.itemId] = action.chosen;
     const now = new Date();
-    const complete = nextCalibrationItem(open.items.calibration, answers) === null;
+    const complete = nextCalibrationItem(open.items, answers, row.participantId) === null;
     await locked.update({ calibrationAnswers: answers, lastActivityAt: now, ...(complete ? { status: 'calibrated' as const, calibratedAt: now } : {}) }, { transaction });
     return 'recorded';
   });

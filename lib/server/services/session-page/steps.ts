@@ -1,6 +1,6 @@
 import { amountText, delayText, type BankItem, type DelayUnit } from '@/lib/design';
 import type { PageChoice, PageStep } from '@/lib/shared/session-page';
-import { calibrationLength, nextCalibrationItem, type CalibrationAnswers } from './calibration-step';
+import { calibrationLength, nextCalibrationItem, type CalibrationAnswers, type CalibrationSource } from './calibration-step';
 import { completionFor, type CompletionLink } from './completion';
 
 /** What the session page knows of one participant (stored for a real session, sent along in a preview). */
@@ -16,7 +16,10 @@ export type PageProgress = {
 
 /** The frozen version's items as the link presents them. */
 export type PageItems = {
+  /** the fixed calibration block, or the adaptive candidates when `adaptive` is set */
   calibration: readonly BankItem[];
+  /** adaptive calibration: the design and bank the next-item choice needs; null for the fixed block */
+  adaptive: CalibrationSource['adaptive'];
   /** the length of the bank's stage-2 block, for the progress shown before serving */
   probeLength: number;
   currency: string;
@@ -52,8 +55,8 @@ export function nextProbeItem(served: readonly BankItem[], answers: ReadonlyMap<
 export function currentStep(link: CompletionLink, participantId: string, items: PageItems, progress: PageProgress): PageStep {
   if (!progress.consented) return { kind: 'consent' };
   if (!progress.instructionsRead) return { kind: 'instructions' };
-  const calibrationTotal = calibrationLength(items.calibration);
-  const next = nextCalibrationItem(items.calibration, progress.calibration);
+  const calibrationTotal = calibrationLength(items);
+  const next = nextCalibrationItem(items, progress.calibration, participantId);
   if (next) {
     const answered = Object.keys(progress.calibration).length;
     return { kind: 'choice', choice: choiceOf(next, items), number: answered + 1, total: calibrationTotal + items.probeLength };
@@ -61,5 +64,7 @@ export function currentStep(link: CompletionLink, participantId: string, items: 
   if (!progress.served) throw new Error('The calibration block is complete: serve the stage-2 items before asking for the step.');
   const probe = nextProbeItem(progress.served, progress.stage2);
   if (!probe) return { kind: 'complete', completion: completionFor(link, participantId) };
-  return { kind: 'choice', choice: choiceOf(probe, items), number: calibrationTotal + progress.stage2.size + 1, total: calibrationTotal + progress.served.length };
+  // adaptive calibration may stop before its most items: count what was asked
+  const asked = items.adaptive ? Object.keys(progress.calibration).length : calibrationTotal;
+  return { kind: 'choice', choice: choiceOf(probe, items), number: asked + progress.stage2.size + 1, total: asked + progress.served.length };
 }

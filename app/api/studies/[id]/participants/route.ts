@@ -1,17 +1,22 @@
 import { NextResponse } from 'next/server';
 import { route } from '@/lib/server/http/handler';
 import { requireRole } from '@/lib/server/auth/session';
-import { listParticipants, participantsCsv } from '@/lib/server/services/participants';
+import { readQuery } from '@/lib/server/http/read-json';
+import { filteredParticipantsCsv, listStudyParticipants } from '@/lib/server/services/participant-list';
+import { participantsQuerySchema } from '@/lib/shared/validations/session';
 
-/** Participants served in this study (?format=csv downloads one row per item served). */
+/**
+ * A study's participants: ?q= part of an id, ?status=, ?version= (frozen version id), ?page=,
+ * ?pageSize= (10, 25, 50, 100); ?format=csv downloads every participant the filters select.
+ */
 export const GET = route<{ id: string }>(async (request, { params }) => {
   const { id } = await params;
   const { study } = await requireRole(request, id, 'viewer');
-  const participants = await listParticipants(study.id);
-  if (new URL(request.url).searchParams.get('format') === 'csv') {
-    return new Response(participantsCsv(participants), {
+  const query = readQuery(request, participantsQuerySchema);
+  if (query.format === 'csv') {
+    return new Response(await filteredParticipantsCsv(study, query), {
       headers: { 'Content-Type': 'text/csv; charset=utf-8', 'Content-Disposition': `attachment; filename="switchback-participants-${study.id}.csv"`, 'Cache-Control': 'no-store' },
     });
   }
-  return NextResponse.json({ participants });
+  return NextResponse.json(await listStudyParticipants(study, query));
 });

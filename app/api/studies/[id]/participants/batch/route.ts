@@ -4,6 +4,7 @@ import { readJson } from '@/lib/server/http/read-json';
 import { requireRole } from '@/lib/server/auth/session';
 import { loadVersion } from '@/lib/server/services/item-bank';
 import { batchCsv, serveBatch } from '@/lib/server/services/item-bank-batch';
+import { PERSON_CAUTION } from '@/lib/shared/cautions';
 import { batchRequestSchema } from '@/lib/shared/validations/item-bank';
 
 /** Serves many participants from a CSV of offline calibration answers; ?format=csv returns CSV. */
@@ -18,5 +19,5 @@ export const POST = route<{ id: string }>(async (request, { params }) => {
       headers: { 'Content-Type': 'text/csv; charset=utf-8', 'Content-Disposition': `attachment; filename="switchback-batch-${study.id}-${version.hash.slice(0, 12)}.csv"` },
     });
   }
-  return NextResponse.json({ results });
+  return NextResponse.json({ results, caution: PERSON_CAUTION });
 });
