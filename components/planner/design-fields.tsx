@@ -73,8 +73,8 @@ export function DesignFields({ register, errors: e, values, priors }: Props) {
         <div className="sm:col-span-3">
           <SelectField label="Criterion" {...register('criterion')} error={e.criterion?.message} hint={
               <>
-                what the delays are chosen to maximise: <TermHelp id="gap-product">gap product</TermHelp>, <TermHelp id="expected-reversal-rate">expected reversal rate</TermHelp> or{' '}
-                <TermHelp id="maximin-gap">maximin gap</TermHelp>
+                what the delays are chosen to maximise: <TermHelp id="gap-product">gap product</TermHelp>, <TermHelp id="expected-reversal-rate">expected reversal rate</TermHelp>,{' '}
+                <TermHelp id="maximin-gap">maximin gap</TermHelp> or <TermHelp id="model-discrimination">model discrimination</TermHelp> (probes that tell the hyperbolic and exponential models apart)
               </>
             }
           >
@@ -85,6 +85,18 @@ export function DesignFields({ register, errors: e, values, priors }: Props) {
             ))}
           </SelectField>
         </div>
+        {values.criterion === 'model-discrimination' ? (
+          <div className="sm:col-span-3">
+            <TextField
+              label="Reversal weight"
+              type="number"
+              step="any"
+              {...register('reversalWeight', num)}
+              error={e.reversalWeight?.message}
+              hint="weight of the expected reversal beside the models’ divergence; 0 = pure discrimination (probes may fall outside the reversal zone)"
+            />
+          </div>
+        ) : null}
       </fieldset>
       <fieldset className="grid gap-3 sm:grid-cols-3">
         <legend className="mb-1 text-sm font-semibold">

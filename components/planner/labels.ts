@@ -13,6 +13,7 @@ export const CRITERION_LABELS: Record<DesignSpec['criterion'], string> = {
   'gap-product': 'Gap product',
   'expected-reversal-rate': 'Expected reversal rate',
   maximin: 'Maximin gap',
+  'model-discrimination': 'Model discrimination',
 };
 
 /** The glossary entry explaining each criterion. */
@@ -20,6 +21,7 @@ export const CRITERION_TERMS: Record<DesignSpec['criterion'], string> = {
   'gap-product': 'gap-product',
   'expected-reversal-rate': 'expected-reversal-rate',
   maximin: 'maximin-gap',
+  'model-discrimination': 'model-discrimination',
 };
 
 export const ROLE_LABELS = { 'late-anchor': 'Late anchor', probe: 'Reversal probe', 'soon-anchor': 'Soon anchor' } as const;

@@ -6,3 +6,5 @@ export { priorScenarios } from './priorScenarios';
 export { optimisePopulationDesign, type PopulationCriterion, type PopulationDesign, type PopulationDesignOptions } from './optimisePopulationDesign';
 export type { PairSetting } from './pairSetting';
 export { expectedRateNodes, EXPECTED_RATE_TARGET } from './expectedRateNodes';
+export { modelDiscrimination, DEFAULT_REVERSAL_WEIGHT, RIVAL_MODELS, type Discrimination, type DiscriminationOptions } from './modelDiscrimination';
+export { modelRecovery, type ModelRecovery, type ModelRecoveryOptions, type ProbePlacement } from './modelRecovery';

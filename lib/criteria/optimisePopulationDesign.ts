@@ -2,12 +2,15 @@ import { checkInteger, checkModel, checkRatio, DesignInputError, maximiseBrent, 
 import { expectedReversalRate } from './expectedReversalRate';
 import { gapProduct } from './gapProduct';
 import { maximinGap } from './maximinGap';
+import { discriminationAt, modelDiscrimination } from './modelDiscrimination';
 import { checkChoiceModel, checkPoints } from './pairSetting';
 
 export type PopulationCriterion =
   | { kind: 'expected-reversal-rate'; choice: ChoiceModel; points: RatePoints }
   | { kind: 'maximin-gap'; scenarios: readonly { kSmall: number; kLarge: number }[] }
-  | { kind: 'gap-product'; kSmall: number; kLarge: number };
+  | { kind: 'gap-product'; kSmall: number; kLarge: number }
+  /** hyperbolic-vs-exponential divergence at one rate pair plus the weighted reversal term (modelDiscrimination) */
+  | { kind: 'model-discrimination'; kSmall: number; kLarge: number; choice: ChoiceModel; reversalWeight?: number };
 
 export type PopulationDesignOptions = {
   model: ModelSpec;
@@ -30,7 +33,7 @@ export type PopulationDesign = { soonDelay: number; lateDelay: number; value: nu
 /**
  * Soon and late delays (days) for a whole population that maximise a criterion within bounds:
  * the expected reversal rate over prior points, the maximin gap over scenarios, or the gap
- * product at one rate pair. Method: a grid over ln(1 + d) and ln(D − d) (every D ≤ lateDelayMax,
+ * product or the model-discrimination criterion at one rate pair. Method: a grid over ln(1 + d) and ln(D − d) (every D ≤ lateDelayMax,
  * D − d ≥ minSeparation), then coordinate-wise Brent maximisation (in ln(1 + d) with D fixed,
  * then in ln(D − d) with d fixed) inside the neighbouring grid cells, halving the search
  * window each round. Monte Carlo points are held fixed (common random numbers), so the
@@ -129,7 +132,16 @@ function criterionFunction(model: ModelSpec, ratio: number, criterion: Populatio
       if (!(kLarge > 0 && kLarge < Infinity)) throw new DesignInputError('criterion.kLarge', 'a finite rate greater than 0 (per day)', kLarge);
       return (d, D) => gapProduct({ model, ratio, soonDelay: d, lateDelay: D, kSmall, kLarge });
     }
+    case 'model-discrimination': {
+      const { kSmall, kLarge, choice } = criterion;
+      const w = criterion.reversalWeight ?? 0;
+      // validates rates, choice model and weight once; the loop runs unchecked
+      modelDiscrimination({ model, ratio, soonDelay: 1, lateDelay: 2, kSmall, kLarge, choice, reversalWeight: w });
+      const gamma = choice.sensitivity;
+      const lapse = choice.lapse ?? 0;
+      return (d, D) => discriminationAt(model, ratio, d, D, kSmall, kLarge, gamma, lapse, w).value;
+    }
     default:
-      throw new DesignInputError('criterion.kind', "'expected-reversal-rate', 'maximin-gap' or 'gap-product'", (criterion as { kind?: unknown })?.kind);
+      throw new DesignInputError('criterion.kind', "'expected-reversal-rate', 'maximin-gap', 'gap-product' or 'model-discrimination'", (criterion as { kind?: unknown })?.kind);
   }
 }

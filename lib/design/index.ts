@@ -17,7 +17,7 @@ export { gaussHermite, type QuadratureRule } from './gaussHermite';
 export { priorPoints, checkPrior, type RatePrior, type RatePoints, type PriorPointsOptions } from './ratePrior';
 export { fitPrior } from './fitPrior';
 export { reversibleShare } from './reversibleShare';
-export { choiceProbability, checkChoiceModel, probabilityLarger, type ChoiceModel } from './choiceProbability';
+export { choiceProbability, checkChoiceModel, logChoiceProbability, probabilityLarger, type ChoiceModel } from './choiceProbability';
 export { designChoiceModel, DEFAULT_CHOICE_SENSITIVITY, CHOICE_SENSITIVITY_UNIT } from './designChoiceModel';
 export { indifferenceRate, type ChoiceItem } from './indifferenceRate';
 export { calibrationItems, type CalibrationItem, type CalibrationOptions, type Magnitude } from './calibrationItems';

@@ -133,6 +133,20 @@ export const GLOSSARY: GlossaryEntry[] = [
     group: 'The reversal zone and design criteria',
   },
   {
+    id: 'model-discrimination',
+    term: 'Model discrimination',
+    aliases: ['model discrimination', 'Jeffreys divergence', 'Kullback–Leibler divergence', 'reversal weight', 'models told apart'],
+    short: 'Chooses the probe delays where the hyperbolic and the exponential model predict the most different choices at the participant’s estimates, so the answers show which model fits.',
+    body: 'The divergence is the symmetric Kullback–Leibler (Jeffreys) divergence between the two models’ predicted choice probabilities, summed over the far and near view, with the design’s logistic choice sensitivity γ. The reversal weight w adds w times the probability of a preference reversal under the design model: 0 is pure discrimination (probes may fall outside the reversal zone); a larger w pulls the probes back towards reversals. The compare page’s “models told apart” figure is the simulated share of participants whose better-fitting model is the true one. These are estimates from choices, not a clinical assessment.',
+    formulas: ['J(p, q) = (p − q) · (logit p − logit q)', 'value = J_far + J_near + w · P(LL at far view) · P(SS at near view)'],
+    sources: [
+      'Box, G. E. P., & Hill, W. J. (1967). Discrimination among mechanistic models. Technometrics, 9(1), 57–71.',
+      'Cavagnaro, D. R., Myung, J. I., Pitt, M. A., & Kujala, J. V. (2010). Adaptive design optimization: A mutual information-based approach to model discrimination in cognitive science. Neural Computation, 22(4), 887–905.',
+      HERE,
+    ],
+    group: 'The reversal zone and design criteria',
+  },
+  {
     id: 'anchor-clarity',
     term: 'Anchor clarity',
     aliases: ['clarity'],

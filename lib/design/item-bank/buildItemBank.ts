@@ -82,6 +82,12 @@ export function buildItemBank(design: BankDesign, options: PresentationOptions &
         `stopping early once the posterior SD of ln k and ln K is at most ${adaptive.targetSd}. The fixed calibration block stays in the bank for software that cannot ask the next-item step.`,
     );
   }
+  if (spec.criterion === 'model-discrimination') {
+    notes.push(
+      `Probe delays chosen by model discrimination: the late delays (and a free soon delay) maximise the symmetric Kullback–Leibler divergence between the hyperbolic and the exponential model's predicted choices ` +
+        `at the participant's estimates (Box & Hill 1967), plus ${spec.reversalWeight ?? 0} × the probability of a preference reversal under the design model; probes may lie outside the reversal zone.`,
+    );
+  }
   if (delays.omitted.lateAnchors || delays.omitted.soonAnchors) {
     notes.push(
       `${delays.omitted.lateAnchors} late and ${delays.omitted.soonAnchors} soon anchor(s) did not fit (no room below the zone, or beyond the ${spec.lateDelayLimit}-day limit).`,

@@ -1,7 +1,7 @@
 import { anchorsAround } from '../anchorDelays';
 import { optimiseLateDelay } from '../optimiseLateDelay';
-import { reversalZone } from '../reversalZone';
-import type { LateDelayOptimum } from '../types';
+import { reversalZone, type ReversalZone } from '../reversalZone';
+import type { LateDelayOptimum, PairInput } from '../types';
 import type { BankDesign, DesignPoint, RatePair } from './types';
 
 /** Late delays (days, unrounded) of the probe and anchor pairs for one set of rates. */
@@ -22,7 +22,10 @@ export type PairDelays = {
  *   well inside the zone;
  * - the first late and soon anchors come from anchorDelays (as clear-cut as the probe); each
  *   further anchor steps the same distance in ln(D − d) again away from the zone;
- * - every delay stays at or below the design's late-delay limit (anchors that cannot are omitted).
+ * - every delay stays at or below the design's late-delay limit (anchors that cannot are omitted);
+ * - under the model-discrimination criterion the main delay is kept where the criterion put it, even
+ *   outside the zone (that is where the models' predictions differ most), and n > 1 probes spread
+ *   evenly over ±DISCRIMINATION_SPREAD in ln(D − d) around it, capped at the limit.
  *
  * @returns null when the rates have no reversal zone at the point's soon delay, or the zone starts beyond the limit
  */
@@ -41,14 +44,27 @@ export function pairDelaysAround(design: BankDesign, point: DesignPoint, rates: 
   const zone = reversalZone(input);
   const limit = spec.lateDelayLimit;
   if (!zone || zone.lower >= limit) return null;
+  const n = spec.probePairs;
+  const probes: number[] = [];
+  if (spec.criterion === 'model-discrimination') {
+    const t = Math.log(Math.min(Math.max(point.lateDelay, d + 1), limit) - d);
+    for (let i = 0; i < n; i++) probes.push(Math.min(limit, d + Math.exp(n === 1 ? t : t + DISCRIMINATION_SPREAD * ((2 * i) / (n - 1) - 1))));
+    return withAnchors(design, input, zone, d, probes, known);
+  }
   const tMain = Math.log(Math.min(Math.max(point.lateDelay, zone.lower), limit) - d);
   const tLow = zone.lower > d ? Math.log(zone.lower - d) : tMain - 1;
   const tUp = Number.isFinite(zone.upper) ? Math.log(Math.min(zone.upper, limit) - d) : tMain + 1;
   const half = 0.5 * Math.max(0, Math.min(tMain - tLow, tUp - tMain));
-  const n = spec.probePairs;
-  const probes: number[] = [];
   for (let i = 0; i < n; i++) probes.push(d + Math.exp(n === 1 ? tMain : tMain + half * ((2 * i) / (n - 1) - 1)));
+  return withAnchors(design, input, zone, d, probes, known);
+}
 
+/** Half-width in ln(D − d) over which a model-discrimination design spreads its probes (rule of ours: a factor e^0.25 ≈ 1.28 either side). */
+export const DISCRIMINATION_SPREAD = 0.25;
+
+function withAnchors(design: BankDesign, input: PairInput, zone: ReversalZone, d: number, probes: number[], known: LateDelayOptimum | null | undefined): PairDelays {
+  const { spec } = design;
+  const limit = spec.lateDelayLimit;
   // anchorDelays(input) with its defaults, reusing the caller's optimum when it has one
   const optimum = known === undefined ? optimiseLateDelay(input) : known;
   const anchors = optimum === null ? null : anchorsAround(input, optimum, 4, optimum.gapProduct);

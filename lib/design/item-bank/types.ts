@@ -51,6 +51,10 @@ export type BankDesign = {
     probePairs: number;
     lateAnchors: number;
     soonAnchors: number;
+    /** what the probe delays maximise; 'model-discrimination' may put probes outside the reversal zone (pairDelays) */
+    criterion?: 'gap-product' | 'expected-reversal-rate' | 'maximin' | 'model-discrimination';
+    /** the model-discrimination criterion's reversal weight; absent: 0 */
+    reversalWeight?: number;
     calibration: {
       itemsPerMagnitude: number;
       minDelay: number;

@@ -1,15 +1,16 @@
 import { maximiseBrent, optimiseLateDelay, type ModelSpec, type RatePoints } from '@/lib/design';
-import { maximinGap, optimisePopulationDesign, priorScenarios, type PopulationCriterion } from '@/lib/criteria';
+import { maximinGap, modelDiscrimination, optimisePopulationDesign, priorScenarios, type PopulationCriterion } from '@/lib/criteria';
 import type { DesignSpec, PriorValues } from '@/lib/shared/validations/planner';
 import { personalDelays, sharesAt } from './personal';
 import { priorNodes } from './points';
 
-export type Setting = { model: ModelSpec; ratio: number; limit: number; gamma: number; prior: PriorValues; nodes: RatePoints };
+export type Setting = { model: ModelSpec; ratio: number; limit: number; gamma: number; prior: PriorValues; nodes: RatePoints; /** model discrimination's reversal weight */ reversalWeight?: number };
 
 /** The population criterion object of the core's optimiser for a design's criterion. */
 export function populationCriterion(criterion: DesignSpec['criterion'], s: Setting): PopulationCriterion {
   if (criterion === 'expected-reversal-rate') return { kind: 'expected-reversal-rate', choice: { sensitivity: s.gamma }, points: s.nodes };
   if (criterion === 'maximin') return { kind: 'maximin-gap', scenarios: priorScenarios(s.prior) };
+  if (criterion === 'model-discrimination') return { kind: 'model-discrimination', kSmall: s.prior.medianSmall, kLarge: s.prior.medianLarge, choice: { sensitivity: s.gamma }, reversalWeight: s.reversalWeight ?? 0 };
   return { kind: 'gap-product', kSmall: s.prior.medianSmall, kLarge: s.prior.medianLarge };
 }
 
@@ -33,10 +34,15 @@ export function populationDelays(spec: Pick<DesignSpec, 'soonDelay' | 'criterion
 /**
  * A personalised design's criterion at soon delay d, each participant (point) at their own
  * optimal late delay: the typical participant's gap product, the expected reversal rate over
- * the prior, or the smallest gap over the prior's scenarios.
+ * the prior, the smallest gap over the prior's scenarios, or the typical participant's model
+ * discrimination (divergence plus weighted reversal term).
  */
 export function personalCriterion(criterion: DesignSpec['criterion'], s: Setting, d: number, fallbackProbe: number): number {
   if (!(d > 0)) return 0;
+  if (criterion === 'model-discrimination') {
+    const D = discriminationProbe(s, d, s.prior.medianSmall, s.prior.medianLarge);
+    return discriminationValue(s, d, D, s.prior.medianSmall, s.prior.medianLarge);
+  }
   if (criterion === 'gap-product') return optimiseLateDelay({ model: s.model, ratio: s.ratio, soonDelay: d, kSmall: s.prior.medianSmall, kLarge: s.prior.medianLarge })?.gapProduct ?? 0;
   if (criterion === 'maximin') {
     let worst = Infinity;
@@ -50,6 +56,17 @@ export function personalCriterion(criterion: DesignSpec['criterion'], s: Setting
   const fallback = { probe: fallbackProbe, late: NaN, soon: NaN };
   const delays = personalDelays(s.model, s.ratio, d, s.limit, s.nodes, fallback);
   return sharesAt(s.model, s.ratio, d, s.nodes, delays.probe, s.gamma)?.LS ?? 0;
+}
+
+/** The model-discrimination criterion's value at one pair and rate pair. */
+export function discriminationValue(s: Setting, d: number, D: number, kSmall: number, kLarge: number): number {
+  return modelDiscrimination({ model: s.model, ratio: s.ratio, soonDelay: d, lateDelay: D, kSmall, kLarge, choice: { sensitivity: s.gamma }, reversalWeight: s.reversalWeight ?? 0 }).value;
+}
+
+/** A model-discrimination design's probe late delay for given rates at soon delay d (the divergence plus weighted reversal term, maximised). */
+export function discriminationProbe(s: Setting, d: number, kSmall: number, kLarge: number): number {
+  const criterion: PopulationCriterion = { kind: 'model-discrimination', kSmall, kLarge, choice: { sensitivity: s.gamma }, reversalWeight: s.reversalWeight ?? 0 };
+  return optimisePopulationDesign({ model: s.model, ratio: s.ratio, criterion, soonDelay: { min: d, max: d }, lateDelayMax: s.limit, grid: { soon: 1, late: 24 }, refinementRounds: 2 }).lateDelay;
 }
 
 /** The fallback late delay for participants without a zone: the population optimum of the expected reversal rate at d. */

@@ -9,7 +9,7 @@ import { DEFAULT_CHOICE_SENSITIVITY } from './types';
  * loses nothing. `toSpec` keeps only what the chosen options use; the zod issue paths of the
  * spec are the same as the form's field names.
  */
-export type DesignFormValues = Omit<DesignSpec, 'model' | 'soonDelay' | 'choiceSensitivity' | 'calibration'> & {
+export type DesignFormValues = Omit<DesignSpec, 'model' | 'soonDelay' | 'choiceSensitivity' | 'calibration' | 'reversalWeight'> & {
   model: { id: DesignSpec['model']['id']; sensitivity: number; presentBias: number };
   calibration: Omit<DesignSpec['calibration'], 'adaptive' | 'placement' | 'fit'> & {
     adaptive: { enabled: boolean; maxItems: number; targetSd: number };
@@ -18,6 +18,8 @@ export type DesignFormValues = Omit<DesignSpec, 'model' | 'soonDelay' | 'choiceS
   };
   soonDelay: { mode: 'fixed' | 'optimised'; days: number; min: number; max: number };
   choiceSensitivity: number;
+  /** the model-discrimination criterion's reversal weight (kept while another criterion is chosen) */
+  reversalWeight: number;
 };
 
 const USES_S = new Set(['hyperboloid', 'power-delay', 'exponential-power']);
@@ -36,7 +38,8 @@ export function toSpec(v: DesignFormValues): DesignSpec {
     ...(placement !== 'range' ? { placement } : {}),
     ...(fit !== 'design-model' ? { fit } : {}),
   };
-  return { ...v, model, soonDelay, calibration, choiceSensitivity: v.choiceSensitivity };
+  const { reversalWeight, ...rest } = v;
+  return { ...rest, model, soonDelay, calibration, choiceSensitivity: v.choiceSensitivity, ...(v.criterion === 'model-discrimination' ? { reversalWeight } : {}) };
 }
 
 /** Form values for a stored spec, with defaults for the controls the spec does not use. */
@@ -47,6 +50,7 @@ export function toForm(spec: DesignSpec): DesignFormValues {
     model: { id: spec.model.id, sensitivity: spec.model.sensitivity ?? 1, presentBias: spec.model.presentBias ?? 0.9 },
     soonDelay: soon.mode === 'fixed' ? { mode: 'fixed', days: soon.days, min: Math.max(1, Math.min(soon.days, 7)), max: Math.max(soon.days, 60) } : { mode: 'optimised', days: soon.min, min: soon.min, max: soon.max },
     choiceSensitivity: spec.choiceSensitivity ?? DEFAULT_CHOICE_SENSITIVITY,
+    reversalWeight: spec.reversalWeight ?? 0,
     calibration: {
       ...spec.calibration,
       adaptive: spec.calibration.adaptive ? { enabled: true, ...spec.calibration.adaptive } : { enabled: false, ...DEFAULT_ADAPTIVE_STOP },

@@ -10,6 +10,7 @@ export type PersonalDelays = { probe: Float64Array; late: Float64Array; soon: Fl
  * calibration block recovered each participant's rates exactly: the probe at the late delay
  * with the largest gap product, the anchors where anchorDelays puts them. Delays beyond the
  * late-delay limit are cut to the limit. Points without a zone get the `fallback` delays.
+ * `probeAt` replaces the gap-product probe delay of points with a zone (a model-discrimination design).
  */
 export function personalDelays(
   model: ModelSpec,
@@ -18,6 +19,7 @@ export function personalDelays(
   limit: number,
   points: RatePoints,
   fallback: { probe: number; late: number; soon: number },
+  probeAt?: (kSmall: number, kLarge: number) => number,
 ): PersonalDelays {
   const n = points.kSmall.length;
   const out: PersonalDelays = { probe: new Float64Array(n), late: new Float64Array(n), soon: new Float64Array(n), hasZone: new Uint8Array(n) };
@@ -33,7 +35,7 @@ export function personalDelays(
     }
     const anchors = anchorDelays({ model, ratio, soonDelay, kSmall: points.kSmall[i], kLarge: points.kLarge[i] });
     out.hasZone[i] = 1;
-    out.probe[i] = Math.min(limit, lateDelay);
+    out.probe[i] = Math.min(limit, probeAt ? probeAt(points.kSmall[i], points.kLarge[i]) : lateDelay);
     out.late[i] = anchors?.late ? Math.min(limit, anchors.late.lateDelay) : NaN;
     out.soon[i] = anchors?.soon && anchors.soon.lateDelay <= limit ? anchors.soon.lateDelay : NaN;
   }

@@ -1,7 +1,7 @@
 import { anchorDelays, extrapolationWarning, optimiseLateDelay, reversalZone, reversibleShare, type ModelSpec, type RatePoints } from '@/lib/design';
 import { expectedRateNodes } from '@/lib/criteria';
 import { gapCurve, valueCurve } from './curves';
-import { fallbackProbe, personalCriterion, personalSoonDelay, populationDelays, type Setting } from './choose-delays';
+import { discriminationProbe, fallbackProbe, personalCriterion, personalSoonDelay, populationDelays, type Setting } from './choose-delays';
 import { personalDelays, sharesAt } from './personal';
 import { expectationNodes, priorDraws, quantileSorted } from './points';
 import { designChoiceModel } from '@/lib/design/designChoiceModel';
@@ -32,7 +32,7 @@ export function computeDesignSummary(input: PlannerInput, options: { draws?: Rat
   const gamma = designChoiceModel(spec).sensitivity;
   const nodes = options.nodes ?? expectationNodes(prior, gamma);
   const draws = options.draws ?? priorDraws(prior);
-  const s: Setting = { model, ratio: spec.ratio, limit: spec.lateDelayLimit, gamma, prior, nodes };
+  const s: Setting = { model, ratio: spec.ratio, limit: spec.lateDelayLimit, gamma, prior, nodes, reversalWeight: spec.reversalWeight };
   const typicalRates = { kSmall: prior.medianSmall, kLarge: prior.medianLarge };
 
   const population = spec.mode === 'population' ? populationDelays(spec, s) : null;
@@ -60,8 +60,10 @@ export function computeDesignSummary(input: PlannerInput, options: { draws?: Rat
     probeDelays = [population.lateDelay, ...(soon ? [soon] : [])];
   } else {
     const fallback = fallbackProbe(s, d);
-    const delays = personalDelays(model, spec.ratio, d, spec.lateDelayLimit, nodes, { probe: fallback, late: NaN, soon: NaN });
-    const typicalProbe = optimum ? Math.min(spec.lateDelayLimit, optimum.lateDelay) : fallback;
+    const discriminating = spec.criterion === 'model-discrimination';
+    const probeAt = discriminating ? (kSmall: number, kLarge: number) => discriminationProbe(s, d, kSmall, kLarge) : undefined;
+    const delays = personalDelays(model, spec.ratio, d, spec.lateDelayLimit, nodes, { probe: fallback, late: NaN, soon: NaN }, probeAt);
+    const typicalProbe = optimum ? Math.min(spec.lateDelayLimit, probeAt ? probeAt(typicalRates.kSmall, typicalRates.kLarge) : optimum.lateDelay) : fallback;
     roles = [
       { role: 'late-anchor', count: spec.lateAnchors, lateDelay: lateAnchor ? Math.min(spec.lateDelayLimit, lateAnchor.lateDelay) : null, shares: sharesAt(model, spec.ratio, d, nodes, delays.late, gamma) },
       { role: 'probe', count: spec.probePairs, lateDelay: typicalProbe, shares: sharesAt(model, spec.ratio, d, nodes, delays.probe, gamma) },

@@ -10,7 +10,7 @@ export const PRIOR_SEED = 20260;
 
 /** What the planner computes from: a design's settings and its prior's values. */
 export type PlannerInput = {
-  spec: Pick<DesignSpec, 'model' | 'ratio' | 'mode' | 'soonDelay' | 'lateDelayLimit' | 'probePairs' | 'lateAnchors' | 'soonAnchors' | 'criterion' | 'calibration' | 'largeAmount' | 'choiceSensitivity'>;
+  spec: Pick<DesignSpec, 'model' | 'ratio' | 'mode' | 'soonDelay' | 'lateDelayLimit' | 'probePairs' | 'lateAnchors' | 'soonAnchors' | 'criterion' | 'calibration' | 'largeAmount' | 'choiceSensitivity' | 'reversalWeight'>;
   prior: PriorValues;
 };
 

@@ -73,6 +73,9 @@ export const calibrationSchema = z.strictObject({
   fit: z.enum(STAGE_ONE_FIT_CHOICES, { error: 'Choose the design model, hyperboloid, power-delay or exponential-power for stage 1.' }).optional(),
 });
 
+/** What a design's probe delays maximise; 'model-discrimination' tells the hyperbolic and exponential models apart. */
+export const CRITERION_CHOICES = ['gap-product', 'expected-reversal-rate', 'maximin', 'model-discrimination'] as const;
+
 /** The fields a user edits on a candidate design. */
 export const designSpecSchema = z
   .strictObject({
@@ -88,7 +91,9 @@ export const designSpecSchema = z
     probePairs: z.number().int().min(1, 'Use at least 1 probe pair.').max(20),
     lateAnchors: z.number().int().min(0).max(10),
     soonAnchors: z.number().int().min(0).max(10),
-    criterion: z.enum(['gap-product', 'expected-reversal-rate', 'maximin']),
+    criterion: z.enum(CRITERION_CHOICES, { error: "Choose 'gap-product', 'expected-reversal-rate', 'maximin' or 'model-discrimination' as the criterion." }),
+    /** model discrimination: weight of the reversal term beside the models' divergence (0 = pure discrimination); absent = 0, so older versions keep their hash */
+    reversalWeight: z.number().min(0, 'The reversal weight must be 0 or more.').max(100, 'The reversal weight must be at most 100.').optional(),
     calibration: calibrationSchema,
     /** logistic choice sensitivity γ per unit of the large amount, for expected rates; the planner assumes 20 when absent */
     choiceSensitivity: z.number().positive('Choice sensitivity γ must be above 0.').max(1000, 'Choice sensitivity γ must be at most 1000.').optional(),
@@ -108,6 +113,8 @@ export const designSpecSchema = z
       ctx.addIssue({ code: 'custom', path: ['calibration', 'fit'], message: 'Adaptive calibration estimates rates its own way: choose the design model for stage 1, or the fixed block.' });
     if ((spec.calibration.fit ?? 'design-model') !== 'design-model' && spec.mode !== 'personalised')
       ctx.addIssue({ code: 'custom', path: ['calibration', 'fit'], message: 'Only a personalised design builds probes from stage-1 estimates.' });
+    if (spec.reversalWeight !== undefined && spec.criterion !== 'model-discrimination')
+      ctx.addIssue({ code: 'custom', path: ['reversalWeight'], message: 'The reversal weight belongs to the model-discrimination criterion: remove it or choose that criterion.' });
     const soonest = spec.soonDelay.mode === 'fixed' ? spec.soonDelay.days : spec.soonDelay.max;
     if (spec.lateDelayLimit <= soonest)
       ctx.addIssue({ code: 'custom', path: ['lateDelayLimit'], message: 'The late-delay limit must exceed the soon delay.' });
