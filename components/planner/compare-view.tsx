@@ -21,6 +21,7 @@ const ROW_TERMS: Record<string, string> = {
   'reversal-own': 'expected-reversal-rate',
   'late-clarity': 'anchor-clarity',
   'soon-clarity': 'anchor-clarity',
+  'models-told-apart': 'model-discrimination',
 };
 
 /** One number format for every value of a row. */

@@ -1,4 +1,4 @@
-import { checkChoiceModel, DesignInputError, discountAt, probabilityLarger, type ChoiceModel, type ModelSpec } from '@/lib/design';
+import { checkChoiceModel, DesignInputError, discriminationAt, type ChoiceModel, type Discrimination } from '@/lib/design';
 import { checkSetting, type PairSetting } from './pairSetting';
 
 /** The two rival models a model-discrimination design tells apart. */
@@ -17,14 +17,7 @@ export type DiscriminationOptions = PairSetting & {
   reversalWeight?: number;
 };
 
-export type Discrimination = {
-  /** symmetric (Jeffreys) Kullback–Leibler divergence, nats, summed over the far and near view */
-  divergence: number;
-  /** P(LL at far view)·P(SS at near view) under the design model at the estimates */
-  reversal: number;
-  /** divergence + w·reversal, the value the delays maximise */
-  value: number;
-};
+export type { Discrimination };
 
 /**
  * Model-discrimination criterion of a question pair: the expected Kullback–Leibler divergence
@@ -54,33 +47,3 @@ export function modelDiscrimination(options: DiscriminationOptions): Discriminat
   if (!(w >= 0 && w <= 1000)) throw new DesignInputError('reversalWeight', 'a number from 0 to 1000', w);
   return discriminationAt(options.model, options.ratio, options.soonDelay, options.lateDelay, kSmall, kLarge, options.choice.sensitivity, options.choice.lapse ?? 0, w);
 }
-
-/** Unchecked modelDiscrimination for the optimiser's hot loop. */
-export function discriminationAt(model: ModelSpec, x: number, d: number, D: number, k: number, K: number, gamma: number, lapse: number, w: number): Discrimination {
-  const far = (id: ModelSpec['id']) => discountAt(id, K, 1, 1, D) - x * discountAt(id, k, 1, 1, d);
-  const near = (id: ModelSpec['id']) => discountAt(id, K, 1, 1, D - d) - x; // V_LL − V_SS at the near view
-  const divergence = jeffreys(gamma, lapse, far('hyperbolic'), far('exponential')) + jeffreys(gamma, lapse, near('hyperbolic'), near('exponential'));
-  let reversal = 0;
-  if (w > 0) {
-    const s = model.sensitivity ?? 1;
-    const beta = model.presentBias ?? 1;
-    const gapFar = discountAt(model.id, K, s, beta, D) - x * discountAt(model.id, k, s, beta, d);
-    const gapNear = x - discountAt(model.id, K, s, beta, D - d);
-    reversal = probabilityLarger(gamma, lapse, gapFar) * probabilityLarger(gamma, lapse, gapNear);
-  }
-  return { divergence, reversal, value: divergence + w * reversal };
-}
-
-/**
- * J between two Bernoulli choices with value differences a and b: (p − q)(logit p − logit q).
- * Without lapse logit p = γ·a exactly; with lapse 1 − p is computed as P(LL | −a), so neither
- * tail loses digits.
- */
-function jeffreys(gamma: number, lapse: number, a: number, b: number): number {
-  const p = probabilityLarger(gamma, lapse, a);
-  const q = probabilityLarger(gamma, lapse, b);
-  const logitP = lapse === 0 ? gamma * a : Math.log(p) - Math.log(probabilityLarger(gamma, lapse, -a));
-  const logitQ = lapse === 0 ? gamma * b : Math.log(q) - Math.log(probabilityLarger(gamma, lapse, -b));
-  return (p - q) * (logitP - logitQ);
-}
-

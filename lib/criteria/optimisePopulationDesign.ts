@@ -1,8 +1,8 @@
-import { checkInteger, checkModel, checkRatio, DesignInputError, maximiseBrent, type ChoiceModel, type ModelSpec, type RatePoints } from '@/lib/design';
+import { checkInteger, checkModel, checkRatio, DesignInputError, discriminationAt, maximiseBrent, type ChoiceModel, type ModelSpec, type RatePoints } from '@/lib/design';
 import { expectedReversalRate } from './expectedReversalRate';
 import { gapProduct } from './gapProduct';
 import { maximinGap } from './maximinGap';
-import { discriminationAt, modelDiscrimination } from './modelDiscrimination';
+import { modelDiscrimination } from './modelDiscrimination';
 import { checkChoiceModel, checkPoints } from './pairSetting';
 
 export type PopulationCriterion =

@@ -18,6 +18,7 @@ export { priorPoints, checkPrior, type RatePrior, type RatePoints, type PriorPoi
 export { fitPrior } from './fitPrior';
 export { reversibleShare } from './reversibleShare';
 export { choiceProbability, checkChoiceModel, logChoiceProbability, probabilityLarger, type ChoiceModel } from './choiceProbability';
+export { discriminationAt, discriminationLateDelay, type Discrimination } from './modelDivergence';
 export { designChoiceModel, DEFAULT_CHOICE_SENSITIVITY, CHOICE_SENSITIVITY_UNIT } from './designChoiceModel';
 export { indifferenceRate, type ChoiceItem } from './indifferenceRate';
 export { calibrationItems, type CalibrationItem, type CalibrationOptions, type Magnitude } from './calibrationItems';

@@ -6,7 +6,7 @@ export { amountUnit, minorUnit, roundDelay, roundTo, unitDays } from './rounding
 export { amountText, delayText, itemText } from './wording';
 export { orderBlock, meetsGap, maxFeasibleGap, shuffle, type Orderable } from './orderBlock';
 export { counterbalancedSides, assembleBlock } from './assembleBlock';
-export { pairDelays, type PairDelays } from './pairDelays';
+export { pairDelays, pairDelaysAround, type PairDelays, type PairDelaysDesign } from './pairDelays';
 export { pairItems, type DraftItem, type PairRoundingEntry } from './pairItems';
 export { calibrationBlock, type CalibrationRounding } from './calibrationBlock';
 export {

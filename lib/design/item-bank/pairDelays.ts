@@ -15,6 +15,9 @@ export type PairDelays = {
   omitted: { lateAnchors: number; soonAnchors: number };
 };
 
+/** The part of a design pairDelays reads. */
+export type PairDelaysDesign = { spec: Pick<BankDesign['spec'], 'model' | 'ratio' | 'lateDelayLimit' | 'probePairs' | 'lateAnchors' | 'soonAnchors' | 'criterion'> };
+
 /**
  * Probe and anchor late delays around the main probe delay for given rates. Rule of ours:
  * - one probe sits at the point's late delay; n > 1 probes spread evenly in ln(D − d) over the
@@ -29,7 +32,7 @@ export type PairDelays = {
  *
  * @returns null when the rates have no reversal zone at the point's soon delay, or the zone starts beyond the limit
  */
-export function pairDelays(design: BankDesign, point: DesignPoint, rates: RatePair): PairDelays | null {
+export function pairDelays(design: PairDelaysDesign, point: DesignPoint, rates: RatePair): PairDelays | null {
   return pairDelaysAround(design, point, rates);
 }
 
@@ -37,7 +40,7 @@ export function pairDelays(design: BankDesign, point: DesignPoint, rates: RatePa
  * pairDelays, for callers that already hold optimiseLateDelay's result for these rates at the
  * point's soon delay (the power simulation's probe sets): the same delays without solving it twice.
  */
-export function pairDelaysAround(design: BankDesign, point: DesignPoint, rates: RatePair, known?: LateDelayOptimum | null): PairDelays | null {
+export function pairDelaysAround(design: PairDelaysDesign, point: DesignPoint, rates: RatePair, known?: LateDelayOptimum | null): PairDelays | null {
   const { spec } = design;
   const d = point.soonDelay;
   const input = { model: spec.model, ratio: spec.ratio, soonDelay: d, kSmall: rates.kSmall, kLarge: rates.kLarge };
@@ -62,7 +65,7 @@ export function pairDelaysAround(design: BankDesign, point: DesignPoint, rates: 
 /** Half-width in ln(D − d) over which a model-discrimination design spreads its probes (rule of ours: a factor e^0.25 ≈ 1.28 either side). */
 export const DISCRIMINATION_SPREAD = 0.25;
 
-function withAnchors(design: BankDesign, input: PairInput, zone: ReversalZone, d: number, probes: number[], known: LateDelayOptimum | null | undefined): PairDelays {
+function withAnchors(design: PairDelaysDesign, input: PairInput, zone: ReversalZone, d: number, probes: number[], known: LateDelayOptimum | null | undefined): PairDelays {
   const { spec } = design;
   const limit = spec.lateDelayLimit;
   // anchorDelays(input) with its defaults, reusing the caller's optimum when it has one

@@ -1,5 +1,8 @@
 import { pairDelaysAround } from '../item-bank/pairDelays';
+import { designChoiceModel } from '../designChoiceModel';
+import { discriminationLateDelay } from '../modelDivergence';
 import { optimiseLateDelay, type LateDelayOptimum } from '../optimiseLateDelay';
+import { reversalZone } from '../reversalZone';
 import type { PowerDesign } from './types';
 
 /** Late delays (days) of one participant's probe block, per pair role. */
@@ -9,7 +12,8 @@ export type ProbeSet = { probe: number[]; lateAnchor: number[]; soonAnchor: numb
  * The probe block a participant with rates (kSmall, kLarge) is served under the design's
  * model, as the item bank builds it: the main probe at the late delay with the largest gap
  * product at these rates (optimiseLateDelay), further probes and the anchors placed around it
- * by pairDelays; with `point`, around that design point instead. Null when the rates give no
+ * by pairDelays (a model-discrimination design: the main probe where modelDiscrimination is largest);
+ * with `point`, around that design point instead. Null when the rates give no
  * reversal zone within the design's limits.
  */
 export function probeSet(design: PowerDesign, kSmall: number, kLarge: number, point?: { soonDelay: number; lateDelay: number }): ProbeSet | null {
@@ -18,6 +22,12 @@ export function probeSet(design: PowerDesign, kSmall: number, kLarge: number, po
   const rates = { kSmall, kLarge };
   let lateDelay = point?.lateDelay;
   let optimum: LateDelayOptimum | null | undefined;
+  if (lateDelay === undefined && spec.criterion === 'model-discrimination') {
+    // a model-discrimination design's own placement at these rates; anchors still from the gap-product optimum (pairDelays)
+    if (!reversalZone({ model: spec.model, ratio: spec.ratio, soonDelay: d, ...rates })) return null;
+    const choice = designChoiceModel(spec);
+    lateDelay = discriminationLateDelay(spec.model, spec.ratio, d, kSmall, kLarge, choice.sensitivity, 0, spec.reversalWeight ?? 0, spec.lateDelayLimit);
+  }
   if (lateDelay === undefined) {
     optimum = optimiseLateDelay({ model: spec.model, ratio: spec.ratio, soonDelay: d, ...rates });
     if (optimum === null) return null;

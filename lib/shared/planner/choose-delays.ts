@@ -1,4 +1,4 @@
-import { maximiseBrent, optimiseLateDelay, type ModelSpec, type RatePoints } from '@/lib/design';
+import { discriminationLateDelay, maximiseBrent, optimiseLateDelay, type ModelSpec, type RatePoints } from '@/lib/design';
 import { maximinGap, modelDiscrimination, optimisePopulationDesign, priorScenarios, type PopulationCriterion } from '@/lib/criteria';
 import type { DesignSpec, PriorValues } from '@/lib/shared/validations/planner';
 import { personalDelays, sharesAt } from './personal';
@@ -64,9 +64,8 @@ export function discriminationValue(s: Setting, d: number, D: number, kSmall: nu
 }
 
 /** A model-discrimination design's probe late delay for given rates at soon delay d (the divergence plus weighted reversal term, maximised). */
-export function discriminationProbe(s: Setting, d: number, kSmall: number, kLarge: number): number {
-  const criterion: PopulationCriterion = { kind: 'model-discrimination', kSmall, kLarge, choice: { sensitivity: s.gamma }, reversalWeight: s.reversalWeight ?? 0 };
-  return optimisePopulationDesign({ model: s.model, ratio: s.ratio, criterion, soonDelay: { min: d, max: d }, lateDelayMax: s.limit, grid: { soon: 1, late: 24 }, refinementRounds: 2 }).lateDelay;
+export function discriminationProbe(s: Pick<Setting, 'model' | 'ratio' | 'limit' | 'gamma' | 'reversalWeight'>, d: number, kSmall: number, kLarge: number): number {
+  return discriminationLateDelay(s.model, s.ratio, d, kSmall, kLarge, s.gamma, 0, s.reversalWeight ?? 0, s.limit);
 }
 
 /** The fallback late delay for participants without a zone: the population optimum of the expected reversal rate at d. */

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { expectedReversalRate, modelDiscrimination, modelRecovery, optimisePopulationDesign, type ProbePlacement } from '@/lib/criteria';
-import { DesignInputError, optimiseLateDelay, type BankDesign, type ModelSpec } from '@/lib/design';
+import { DesignInputError, discriminationLateDelay, optimiseLateDelay, type BankDesign, type ModelSpec } from '@/lib/design';
 import { pairDelaysAround } from '@/lib/design/item-bank/pairDelays';
 
 // docs/mathematics.md, "Model discrimination"
@@ -67,6 +67,20 @@ describe('modelDiscrimination', () => {
       const D = 14 + Math.exp(Math.log(1) + (i / 400) * Math.log(716));
       const v = modelDiscrimination({ model: hyperbolic, ratio: 0.6, soonDelay: 14, lateDelay: D, ...rates, choice }).value;
       expect(v).toBeLessThanOrEqual(best.value + 1e-9);
+    }
+  });
+});
+
+describe('discriminationLateDelay (the power simulation’s and planner’s fixed-d search)', () => {
+  it('agrees with the population optimiser at one soon delay over a sweep of rates and weights', () => {
+    for (const [k, K] of [[0.02, 0.01], [0.005, 0.003], [0.08, 0.04], [0.3, 0.1]]) {
+      for (const w of [0, 1, 5]) {
+        const choice = { sensitivity: 10 };
+        const best = optimisePopulationDesign({ model: hyperbolic, ratio: 0.6, criterion: { kind: 'model-discrimination', kSmall: k, kLarge: K, choice, reversalWeight: w }, soonDelay: { min: 14, max: 14 }, lateDelayMax: 730 });
+        const D = discriminationLateDelay(hyperbolic, 0.6, 14, k, K, 10, 0, w, 730);
+        const value = modelDiscrimination({ model: hyperbolic, ratio: 0.6, soonDelay: 14, lateDelay: D, kSmall: k, kLarge: K, choice, reversalWeight: w }).value;
+        expect(value).toBeGreaterThanOrEqual(best.value - 1e-8);
+      }
     }
   });
 });
