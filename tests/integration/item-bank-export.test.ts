@@ -6,7 +6,8 @@ import { GET as exportBank } from '@/app/api/studies/[id]/item-bank/[versionId]/
 import { GET as preview } from '@/app/api/studies/[id]/item-bank/[versionId]/route';
 import { GET as versions } from '@/app/api/studies/[id]/item-bank/route';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
-import { makeFrozenVersion } from './item-bank-support';
+import { modelDiscrimination } from '@/lib/criteria';
+import { demoContent, makeFrozenVersion } from './item-bank-support';
 
 describe('item-bank export', () => {
   beforeAll(migrateUp);
@@ -70,5 +71,25 @@ describe('item-bank export', () => {
     expect(paths).toEqual(expect.arrayContaining(['delayUnit', 'minGap']));
     expect((await preview(await requestAs(team.operator, 'GET', `/api/studies/${study.id}/item-bank/${foreign.id}`), at(foreign.id))).status).toBe(404);
     expect(await AuditEvent.count({ where: { studyId: study.id, action: 'item-bank.export' } })).toBe(0);
+  });
+
+  it('names the model-discrimination criterion and its reversal weight in the export, with probes where the criterion puts them', async () => {
+    const { study, team } = await makeStudyWithTeam('Discrimination study');
+    const version = await makeFrozenVersion(study.id, demoContent({ criterion: 'model-discrimination', reversalWeight: 0.5 }));
+    const json = await exportBank(await requestAs(team.operator, 'GET', `/api/studies/${study.id}/item-bank/${version.id}/export?format=json&seed=7`), ctx({ id: String(study.id), versionId: String(version.id) }));
+    expect(json.status).toBe(200);
+    const body = (await json.json()) as { header: { probeCriterion: { name: string; reversalWeight: number | null } }; notes: string[]; designPoint: { soonDelay: number; lateDelay: number; kSmall: number; kLarge: number } };
+    expect(body.header.probeCriterion).toEqual({ name: 'model-discrimination', reversalWeight: 0.5 });
+    expect(body.notes.join(' ')).toMatch(/model discrimination.*Kullback–Leibler.*0\.5 ×/);
+    // the design point is the criterion's optimum at the medians, not the gap product's
+    const { designPoint: p } = body;
+    const content = demoContent({ criterion: 'model-discrimination', reversalWeight: 0.5 });
+    const choice = { sensitivity: content.spec.choiceSensitivity ?? 10 };
+    const at = (D: number) => modelDiscrimination({ model: content.spec.model, ratio: content.spec.ratio, soonDelay: p.soonDelay, lateDelay: D, kSmall: p.kSmall, kLarge: p.kLarge, choice, reversalWeight: 0.5 }).value;
+    for (const factor of [0.8, 0.95, 1.05, 1.25]) expect(at(p.lateDelay)).toBeGreaterThanOrEqual(at(p.soonDelay + (p.lateDelay - p.soonDelay) * factor));
+
+    const plain = await makeFrozenVersion(study.id, demoContent({ name: 'Plain' }));
+    const other = (await (await exportBank(await requestAs(team.operator, 'GET', `/api/studies/${study.id}/item-bank/${plain.id}/export?format=json&seed=7`), ctx({ id: String(study.id), versionId: String(plain.id) }))).json()) as { header: { probeCriterion: unknown } };
+    expect(other.header.probeCriterion).toEqual({ name: demoContent().spec.criterion, reversalWeight: null });
   });
 });

@@ -83,6 +83,11 @@ export function previewItemBank(study: Study, version: DesignVersion, options: E
       choiceModel: { ...designChoiceModel(version.content.spec), unit: CHOICE_SENSITIVITY_UNIT },
       /** where the calibration delays go and which model stage 1 fits (describeCalibration) */
       calibration: describeCalibration(version.content.spec),
+      /** what the probe delays maximise (issue 17: 'model-discrimination' tells the hyperbolic and exponential models apart) */
+      probeCriterion: {
+        name: version.content.spec.criterion,
+        reversalWeight: version.content.spec.criterion === 'model-discrimination' ? (version.content.spec.reversalWeight ?? 0) : null,
+      },
     },
     designPoint: bank.designPoint,
     probeRule:
