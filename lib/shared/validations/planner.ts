@@ -101,7 +101,8 @@ export const designSpecSchema = z
       // discounting S later is worth at most β·S today, so β·S ≤ one unit leaves no question with an indifference point
       const unit = amountUnit({ currency: spec.currency, largeAmount: spec.largeAmount, smallAmount: spec.ratio * spec.largeAmount });
       const small = roundTo(spec.ratio * spec.largeAmount, unit);
-      if (!(beta * small > unit))
+      // (amounts below one unit are their own problem, not β's: left to the amount checks downstream)
+      if (small > unit && !(beta * small > unit))
         ctx.addIssue({
           code: 'custom',
           path: ['model', 'presentBias'],

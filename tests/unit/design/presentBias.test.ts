@@ -11,7 +11,7 @@ import { frozenDesignSchema } from '@/lib/shared/validations/planner';
 
 // Quasi-hyperbolic optimum over the whole range of present bias β the schema accepts, (0, 1].
 // Reference values: tests/unit/design/fixtures/present-bias/generate.py (scipy brentq and bounded Brent on the
-// gaps written from the model's definition; docs/mathematics.md "Optimal late delay").
+// gaps written from the model's definition; docs/mathematics.md "Closed forms").
 type Case = { presentBias: number; ratio: number; soonDelay: number; kSmall: number; kLarge: number; lower: number; upper: number; lateDelay: number; gapProduct: number };
 const fixture = JSON.parse(readFileSync(path.join(__dirname, 'fixtures/present-bias/present-bias.json'), 'utf8')) as { cases: Case[] };
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
