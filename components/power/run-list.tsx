@@ -9,6 +9,7 @@ import { Table, Td, Th } from '@/components/ui/table';
 import { useStudyContext } from '@/components/studies/study-context';
 import { usePowerRuns } from '@/lib/client/power';
 import { formatDateTime } from '@/lib/shared/format';
+import { WAITING_FOR_WORKER_MESSAGE } from '@/lib/shared/power-queue';
 import { STATUS_LABELS } from './run-status';
 
 /** The study's runs with live progress; tick two or more finished runs to compare them on one chart. */
@@ -58,6 +59,11 @@ export function RunList() {
                   <Td className="text-sm">
                     {STATUS_LABELS[run.status]}
                     {run.status === 'running' ? ` · ${run.percent} %` : ''}
+                    {run.status === 'running' && run.message === WAITING_FOR_WORKER_MESSAGE ? (
+                      <span data-testid="waiting-for-worker" className="block text-xs text-amber-800">
+                        waiting for a queue worker: start <code>npm run worker</code>
+                      </span>
+                    ) : null}
                     {run.status === 'queued' && run.queuePosition !== null ? <span data-testid="queue-position"> · position {run.queuePosition} in the queue</span> : null}
                   </Td>
                   <Td className="text-xs text-ink-soft">

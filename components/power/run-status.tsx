@@ -4,6 +4,7 @@ import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/notice';
 import { useStudyContext } from '@/components/studies/study-context';
 import { useCancelPowerRun, useRestartPowerRun, type PowerRunDto } from '@/lib/client/power';
+import { WAITING_FOR_WORKER_MESSAGE } from '@/lib/shared/power-queue';
 
 export const STATUS_LABELS: Record<PowerRunDto['status'], string> = {
   queued: 'Queued',
@@ -47,6 +48,11 @@ export function RunStatus({ run }: { run: PowerRunDto }) {
         <div role="progressbar" aria-label="Simulation progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={run.percent} className="h-3 w-full overflow-hidden rounded-full bg-paper-sunk">
           <div className="h-full bg-teal-600 transition-[width]" style={{ width: `${run.percent}%` }} />
         </div>
+        {run.status === 'running' && run.message ? (
+          <Notice tone={run.message === WAITING_FOR_WORKER_MESSAGE ? 'warning' : 'info'}>
+            <span data-testid="power-run-note">{run.message}</span>
+          </Notice>
+        ) : null}
         {editor ? (
           <Button variant="secondary" size="sm" onClick={() => cancel.mutate()} disabled={cancel.isPending}>
             {cancel.isPending ? 'Cancelling…' : 'Cancel run'}

@@ -6,7 +6,7 @@ export { discountFactor, discountAt } from './discountFactor';
 export { preferenceGaps, type PreferenceGaps } from './preferenceGaps';
 export { predictPattern } from './predictPattern';
 export { reversalZone, type ReversalZone } from './reversalZone';
-export { optimiseLateDelay, type LateDelayOptimum } from './optimiseLateDelay';
+export { LATE_DELAY_STEP, optimiseLateDelay, type LateDelayOptimum } from './optimiseLateDelay';
 export { optimiseLateDelayBatch, type LateDelayBatchInput, type LateDelayBatchOutput } from './optimiseLateDelayBatch';
 export { anchorDelays, type AnchorOptions, type AnchorPair, type Anchors } from './anchorDelays';
 export { findRoot, type RootOptions, type RootResult } from './findRoot';

@@ -5,6 +5,12 @@ import type { LateDelayOptimum, ModelId, PairInput } from './types';
 export type { LateDelayOptimum } from './types';
 
 /**
+ * Smallest gap between the soon and the late delay the optimiser returns, days: delays are planned
+ * in whole days, and a late delay equal to the soon one is no choice (quasi-hyperbolic optimum at d⁺).
+ */
+export const LATE_DELAY_STEP = 1;
+
+/**
  * The late delay D* that maximises the gap product C(D) = A(D)·B(D) inside the reversal zone.
  *
  * Hyperbolic (closed form). Write p = 1 + KD, c = Kd, a = x/(1 + kd), so A = 1/p − a and
@@ -18,8 +24,14 @@ export type { LateDelayOptimum } from './types';
  * B = x − βe^(Kd)u are linear in u, so C is a concave quadratic in u with vertex
  * u* = x(1 + βe^((K−k)d)) / (2βe^(Kd)), i.e.
  *   D* = d + [ln(2β/x) − ln(1 + βe^(−(k−K)d))] / K   (β = 1 for the exponential model).
- * For quasi-hyperbolic with β ≤ x the zone starts at D = d and the vertex can fall below it;
- * then C is largest as D → d⁺ and D* = d is returned with the limiting gap product.
+ * For quasi-hyperbolic with β ≤ x the zone starts at D = d and the vertex can fall below it
+ * (always so for β ≤ x/(2 − x·e^((K−k)d)), e.g. β ≤ 0.3 at x = 0.6 with K ≈ k): then C falls
+ * on the whole zone and its supremum, approached as D → d⁺, is not attained (at D = d the near
+ * view's late reward is immediate and escapes β, so the pair is not a choice at all). Delays are
+ * planned in whole days, so the late delay is held at least LATE_DELAY_STEP (one day) after the
+ * soon one, or at the zone's middle when the zone is shorter than two steps:
+ *   D* = max(vertex, d + min(1, (D_upper − d)/2)),
+ * the maximum of the concave-in-u C over that feasible part of the zone, with its own C(D*).
  * For the exponential model (β = 1 > x) the vertex always lies inside a non-empty zone, and
  * with m = e^(−(k−K)d) − 1 it reads D* = D_lower − ln(1 + m/2)/K, C* = x²·e^(−Kd)·m²/4.
  *
@@ -214,14 +226,10 @@ function presentBiasOptimum(x: number, d: number, k: number, K: number, beta: nu
     return store(o, i, lower, upper, lateDelay, 0.25 * x * x * Math.exp(-K * d) * m * m);
   }
   const log1pEy = y > 0 ? y + Math.log1p(Math.exp(-y)) : Math.log1p(Math.exp(y));
-  let lateDelay = d + (Math.LN2 + lnBeta + lnR - log1pEy) / K;
-  let nearFactor: number; // f_K(D − d) just right of d
-  if (lateDelay > d) {
-    nearFactor = beta * Math.exp(-K * (lateDelay - d));
-  } else {
-    lateDelay = d; // the zone starts at d and C is largest as D → d⁺
-    nearFactor = beta;
-  }
+  // the zone starts at d; C's supremum at d⁺ is not a pair, so the late delay keeps a step after d
+  const first = d + Math.min(LATE_DELAY_STEP, 0.5 * (upper - d));
+  const lateDelay = Math.max(d + (Math.LN2 + lnBeta + lnR - log1pEy) / K, first);
+  const nearFactor = beta * Math.exp(-K * (lateDelay - d)); // f_K(D − d), D − d > 0
   const far = beta * (Math.exp(-K * lateDelay) - x * Math.exp(-k * d));
   return store(o, i, lower, upper, lateDelay, far * (x - nearFactor));
 }

@@ -51,6 +51,9 @@ const probeApiSchema = z.object({
   PROBE_API_PER_SECOND: positiveOr(100),
   BROWSER_API_BURST: positiveOr(120),
   BROWSER_API_PER_SECOND: positiveOr(30),
+  // the participant-facing session page: per client address and link
+  SESSION_PAGE_BURST: positiveOr(120),
+  SESSION_PAGE_PER_SECOND: positiveOr(10),
 });
 
 /** A worker-thread count: a whole number 1 or more (at most 16), anything else undefined (automatic). */

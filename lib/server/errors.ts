@@ -39,3 +39,16 @@ export class ValidationError extends ApiError {
     super(422, message, issues);
   }
 }
+
+/**
+ * 503 with Retry-After: a service the request needs (the shared Redis) cannot be reached now; the
+ * same request succeeds once it is back.
+ */
+export class ServiceUnavailableError extends ApiError {
+  constructor(
+    message: string,
+    readonly retryAfterS = 5,
+  ) {
+    super(503, message);
+  }
+}

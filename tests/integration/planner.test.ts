@@ -7,6 +7,7 @@ import { GET as getDesign, PUT as putDesign, DELETE as deleteDesign } from '@/ap
 import { GET as getSummary } from '@/app/api/studies/[id]/designs/[designId]/summary/route';
 import { POST as freeze } from '@/app/api/studies/[id]/designs/[designId]/freeze/route';
 import { GET as listComments, POST as postComment } from '@/app/api/studies/[id]/designs/[designId]/comments/route';
+import { POST as startRun } from '@/app/api/studies/[id]/power-runs/route';
 import { GET as listVersions } from '@/app/api/studies/[id]/design-versions/route';
 import { GET as getVersion } from '@/app/api/studies/[id]/design-versions/[versionId]/route';
 import { AuditEvent, DesignVersion } from '@/db/models';
@@ -112,6 +113,26 @@ describe('designs, summaries, freezing and comments', () => {
     const bad = await call(createDesign, team.editor, 'POST', '/designs', {}, { json: { ...defaultSpec('Bad', 1), ratio: 1.5 } });
     expect(bad.status).toBe(422);
     expect(bad.body.issues.map((i: { path: string }) => i.path)).toContain('ratio');
+  });
+
+  it('plans strong present bias (β = 0.1) through to a power run, and refuses a β no question can measure with 422 naming spec.model.presentBias', async () => {
+    const { team, call, priorId } = await setUp();
+    const tiny = await call(createDesign, team.editor, 'POST', '/designs', {}, { json: { ...defaultSpec('Tiny β', priorId), model: { id: 'quasi-hyperbolic', presentBias: 1e-300 } } });
+    expect(tiny.status).toBe(422);
+    expect(tiny.body.issues.map((i: { path: string }) => i.path)).toEqual(['model.presentBias']);
+    expect(tiny.body.issues[0].message).toMatch(/no choice could reveal a discount rate/);
+    const model = { id: 'quasi-hyperbolic', presentBias: 0.1 };
+    const created = await call(createDesign, team.editor, 'POST', '/designs', {}, { json: { ...defaultSpec('Strong present bias', priorId), model } });
+    expect(created.status).toBe(201);
+    const designId = String(created.body.design.id);
+    const frozen = await call(freeze, team.editor, 'POST', `/designs/${designId}/freeze`, { designId });
+    expect(frozen.status).toBe(201);
+    const { name: _name, ...rates } = priorBody;
+    const run = await call(startRun, team.editor, 'POST', '/power-runs', {}, {
+      json: { designVersionId: frozen.body.version.id, truth: { model, prior: rates, gamma: 10, lapse: 0.02 }, calibration: 'simulated', test: { kind: 'mcnemar', alpha: 0.05, alternative: 'greater' }, sampleSizes: [5], replications: 10, seed: 1 },
+    });
+    // before the fix: 422 "delayRange.max must be a finite number … (received NaN)"
+    expect(run.status, JSON.stringify(run.body)).toBeLessThan(300);
   });
 
   it('lets exactly one of two saves from the same version win', async () => {

@@ -176,7 +176,7 @@ describe('the probe-items API', () => {
     // every error status the session endpoints answer is documented, and each endpoint has an example
     const text = JSON.stringify(doc.paths);
     const answers = (doc.paths['/api/v1/studies/{id}/stage2-answers'] as { post: { responses: Record<string, unknown>; requestBody: { content: { 'application/json': { example: unknown } } } } }).post;
-    expect(Object.keys(answers.responses).sort()).toEqual(['200', '400', '401', '403', '404', '409', '413', '422', '429']);
+    expect(Object.keys(answers.responses).sort()).toEqual(['200', '400', '401', '403', '404', '409', '413', '422', '429', '503']);
     expect(answers.requestBody.content['application/json'].example).toBeDefined();
     expect(text).toContain('length varies');
   });

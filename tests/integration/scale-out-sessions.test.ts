@@ -1,7 +1,7 @@
 // The session API behind several app processes sharing one Redis (REDIS_URL): two processes of
 // their own answer it over HTTP as production does, and this test process is a third (it revokes
 // keys through the app's route). A revocation anywhere is refused at once everywhere, and a key's
-// rate limit is one budget however its requests are spread.
+// rate limit (and the session page's per address and link) is one budget however its requests are spread.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { POST as createKey } from '@/app/api/studies/[id]/api-keys/route';
 import { DELETE as revokeKey } from '@/app/api/studies/[id]/api-keys/[keyId]/route';
@@ -19,7 +19,13 @@ let operator: TestUser;
 
 async function startApp(): Promise<{ app: Child; base: string }> {
   // a burst of 4 and a trickle of one token per 100 s: the test's requests never earn a new one
-  const app = startTsx('tests/support/session-app.ts', [], { REDIS_URL: testRedisUrl(), PROBE_API_BURST: String(BURST), PROBE_API_PER_SECOND: '0.01' });
+  const app = startTsx('tests/support/session-app.ts', [], {
+    REDIS_URL: testRedisUrl(),
+    PROBE_API_BURST: String(BURST),
+    PROBE_API_PER_SECOND: '0.01',
+    SESSION_PAGE_BURST: String(BURST),
+    SESSION_PAGE_PER_SECOND: '0.01',
+  });
   const [, port] = await app.waitFor(/listening on port (\d+)/);
   return { app, base: `http://127.0.0.1:${port}` };
 }
@@ -75,5 +81,17 @@ describe('session API state shared through Redis', () => {
     expect(statuses).toEqual([200, 200, 200, 200, 429, 429]);
     const refused = await calibration(bases[0], key.secret);
     expect(refused.headers.get('retry-after')).toMatch(/^\d+$/);
+  });
+
+  it("holds the session page's budget per address and link across app processes", async () => {
+    // a link that does not exist: each request still spends the budget before it is looked up (404)
+    const slug = `no-such-link-${Date.now()}`;
+    const statuses: number[] = [];
+    for (const base of [bases[0], bases[1], bases[0], bases[1], bases[0], bases[1]]) statuses.push((await fetch(`${base}/api/session-page/${slug}`)).status);
+    expect(statuses).toEqual([404, 404, 404, 404, 429, 429]);
+    const refused = await fetch(`${bases[1]}/api/session-page/${slug}`);
+    expect(refused.headers.get('retry-after')).toMatch(/^\d+$/);
+    // another link has a budget of its own
+    expect((await fetch(`${bases[0]}/api/session-page/${slug}-other`)).status).toBe(404);
   });
 });

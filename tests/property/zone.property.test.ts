@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { discountFactor, maximiseBrent, optimiseLateDelay, predictPattern, preferenceGaps, reversalZone, type ModelSpec, type PairInput } from '@/lib/design';
+import { discountFactor, LATE_DELAY_STEP, maximiseBrent, optimiseLateDelay, predictPattern, preferenceGaps, reversalZone, type ModelSpec, type PairInput } from '@/lib/design';
 
 const logUniform = (lo: number, hi: number) =>
   fc.double({ min: Math.log(lo), max: Math.log(hi), noNaN: true }).map(Math.exp);
@@ -128,7 +128,11 @@ describe('optimal late delay properties', () => {
         const width = (o!.upper - o!.lower) / o!.upper;
         expect(o!.lateDelay).toBeGreaterThanOrEqual(o!.lower);
         expect(o!.lateDelay).toBeLessThan(o!.upper);
-        const lo = o!.lower > d ? Math.log(o!.lower - d) : Math.log(o!.upper - d) - 30;
+        // a zone that starts at d (quasi-hyperbolic, β ≤ x) is plannable from one day after d (or its middle, if
+        // shorter than two days): C's supremum at d⁺ is no pair (docs/mathematics.md "Closed forms")
+        const first = d + Math.min(LATE_DELAY_STEP, 0.5 * (o!.upper - d));
+        if (o!.lower <= d) expect(o!.lateDelay).toBeGreaterThanOrEqual(first);
+        const lo = o!.lower > d ? Math.log(o!.lower - d) : Math.log(first - d);
         const hi = Math.log(o!.upper - d);
         // the gaps are differences of discount factors (at most 1, in units of L) across a zone of
         // relative width w, so each carries relative rounding of about eps/w, and of about eps/gap

@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { ZodError } from 'zod';
-import { ApiError } from '@/lib/server/errors';
+import { ApiError, ServiceUnavailableError } from '@/lib/server/errors';
 import { isDatabaseUnavailable } from '@/lib/server/http/db-errors';
 
 /** An HTTP reply as plain data, for code that answers outside Next (scripts/serve.mjs). */
@@ -17,12 +17,14 @@ export function zodIssues(error: ZodError) {
 }
 
 /**
- * The one place errors become statuses: ApiError → its status; ZodError → 422; database down →
- * 503 with Retry-After; other → 500 with a logged reference and no internals.
+ * The one place errors become statuses: ApiError → its status (a ServiceUnavailableError with
+ * Retry-After); ZodError → 422; database down → 503 with Retry-After; other → 500 with a logged
+ * reference and no internals.
  */
 export function errorReply(error: unknown): PlainReply {
   if (error instanceof ApiError) {
-    return jsonReply(error.status, { error: error.message, ...(error.issues ? { issues: error.issues } : {}) });
+    const headers: Record<string, string> = error instanceof ServiceUnavailableError ? { 'Retry-After': String(error.retryAfterS) } : {};
+    return jsonReply(error.status, { error: error.message, ...(error.issues ? { issues: error.issues } : {}) }, headers);
   }
   if (error instanceof ZodError) {
     return jsonReply(422, { error: 'Some fields are invalid.', issues: zodIssues(error) });

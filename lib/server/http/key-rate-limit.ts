@@ -1,6 +1,6 @@
 import type { Redis } from 'ioredis';
 import { probeApiEnv } from '@/lib/server/env';
-import { sharedRedis } from '@/lib/server/redis';
+import { withRequestRedis } from '@/lib/server/redis';
 
 /**
  * Token buckets per API key: each key may burst `capacity` requests and then `perSecond` a second.
@@ -36,13 +36,14 @@ export class KeyRateLimiter {
   /**
    * Takes one token for `keyId` from the bucket every app process shares when REDIS_URL is set
    * (the same arithmetic as take, done atomically in Redis on Redis's clock), else from this process's.
+   * Redis unreachable: ServiceUnavailableError (503 with Retry-After).
    */
   async takeShared(keyId: number | string): Promise<number> {
-    const redis = sharedRedis('request');
-    if (!redis) return this.take(keyId);
     const ttlMs = Math.ceil((this.capacity / Math.max(this.perSecond, 1e-6)) * 1000) + 1000;
-    const wait = await withBucketScript(redis).switchbackTakeToken(`switchback:rate:${this.name}:${keyId}`, this.capacity, this.perSecond, Math.min(ttlMs, 86_400_000));
-    return Number(wait);
+    const wait = await withRequestRedis((redis) =>
+      withBucketScript(redis).switchbackTakeToken(`switchback:rate:${this.name}:${keyId}`, this.capacity, this.perSecond, Math.min(ttlMs, 86_400_000)),
+    );
+    return wait === null ? this.take(keyId) : Number(wait);
   }
 
   /** Forgets every bucket of this process (tests). */

@@ -4,6 +4,7 @@ import { ApiError } from '@/lib/server/errors';
 import { errorResponse } from '@/lib/server/http/handler';
 import { isHttps } from '@/lib/server/http/security-headers';
 import { KeyRateLimiter } from '@/lib/server/http/key-rate-limit';
+import { probeApiEnv } from '@/lib/server/env';
 import { StepConflictError } from '@/lib/server/services/session-page/session-page';
 import type { PageState } from '@/lib/shared/session-page';
 
@@ -13,14 +14,18 @@ import type { PageState } from '@/lib/shared/session-page';
 // write through `route()` (this origin and a JSON body, or 403); the participant id repeated in
 // each request and checked against the token; no reply names another participant's data.
 
-/** Requests per client address and link: bursts of 120, then 10 a second (a person answers far slower). */
-export const pageRateLimiter = new KeyRateLimiter(120, 10);
+/**
+ * Requests per client address and link: bursts of SESSION_PAGE_BURST (120), then
+ * SESSION_PAGE_PER_SECOND (10) a second (a person answers far slower). With REDIS_URL the budget
+ * is kept in Redis, so it holds however the requests are spread over app processes.
+ */
+export const pageRateLimiter = new KeyRateLimiter(probeApiEnv().SESSION_PAGE_BURST, probeApiEnv().SESSION_PAGE_PER_SECOND, undefined, 'page');
 
 export const SESSION_COOKIE = 'sb_session';
 
-/** 429 with Retry-After when this address has used its budget for the link. */
-export function takePageBudget(request: NextRequest, slug: string): void {
-  const wait = pageRateLimiter.take(`${clientAddress(request.headers)}:${slug}`);
+/** 429 with Retry-After when this address has used its budget for the link (503 while REDIS_URL's Redis is unreachable). */
+export async function takePageBudget(request: NextRequest, slug: string): Promise<void> {
+  const wait = await pageRateLimiter.takeShared(`${clientAddress(request.headers)}:${slug}`);
   if (wait > 0) throw Object.assign(new ApiError(429, `Too many requests; please wait ${wait} s.`), { retryAfter: wait });
 }
 

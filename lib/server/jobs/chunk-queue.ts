@@ -63,6 +63,12 @@ export type ChunkQueueOptions = {
   onChunksDone?: (done: number[]) => void | Promise<void>;
   /** how often the results are looked at (ms), default 250 */
   pollMs?: number;
+  /**
+   * called with true when chunks remain and no worker process listens on the queue, and with
+   * false when one listens again (looked at every `workerCheckMs`, default 2000)
+   */
+  onWorkerless?: (workerless: boolean) => void | Promise<void>;
+  workerCheckMs?: number;
 };
 
 /**
@@ -92,6 +98,8 @@ export async function runChunksOnQueue<Task, Result>(job: QueueJob, runKey: stri
     await Promise.all(jobIds.map((id) => queue.remove(id).catch(() => 0)));
   };
   let reported = -1;
+  let workerless = false;
+  let lastWorkerCheck = Date.now();
   try {
     for (;;) {
       if (options.shouldStop?.()) {
@@ -108,6 +116,14 @@ export async function runChunksOnQueue<Task, Result>(job: QueueJob, runKey: stri
         await options.onChunksDone?.(fields.map(Number));
       }
       if (fields.length >= tasks.length) break;
+      if (options.onWorkerless && Date.now() - lastWorkerCheck >= (options.workerCheckMs ?? 2000)) {
+        lastWorkerCheck = Date.now();
+        const none = (await queue.getWorkersCount()) === 0;
+        if (none !== workerless) {
+          workerless = none;
+          await options.onWorkerless(none);
+        }
+      }
       await new Promise((resolve) => setTimeout(resolve, options.pollMs ?? 250));
     }
     const stored = await redis.hgetall(keys.results);

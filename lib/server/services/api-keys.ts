@@ -7,7 +7,7 @@ import { recordAudit } from './audit';
 import { bankOrInvalid, loadVersion } from './item-bank';
 import { itemBankId, presentationOf } from './item-bank-id';
 import { decodeJson } from '@/db/json';
-import { sharedRedis } from '@/lib/server/redis';
+import { withRequestRedis } from '@/lib/server/redis';
 
 /** SHA-256 (hex) of a key's secret: the only form in which a key is stored. */
 export function hashSecret(secret: string): string {
@@ -92,8 +92,8 @@ export async function revokeApiKey(actorId: number, studyId: number, rawKeyId: s
   });
   // After the commit: a lookup that read the row before it would otherwise cache it as active.
   forgetApiKey(key.secretHash);
-  await announceRevoked(key.id);
   forgetStudyOrigins(studyId);
+  await announceRevoked(key.id); // Redis unreachable: 503, and a retry announces it again
   return apiKeyJson(key, null, null);
 }
 
@@ -140,12 +140,11 @@ function forgetApiKey(secretHash: string): void {
 const REVOKED_KEYS = 'switchback:api-keys:revoked';
 
 async function announceRevoked(keyId: number): Promise<void> {
-  await sharedRedis('request')?.sadd(REVOKED_KEYS, String(keyId));
+  await withRequestRedis((redis) => redis.sadd(REVOKED_KEYS, String(keyId)));
 }
 
 async function revokedElsewhere(keyId: number): Promise<boolean> {
-  const redis = sharedRedis('request');
-  return redis ? (await redis.sismember(REVOKED_KEYS, String(keyId))) === 1 : false;
+  return (await withRequestRedis((redis) => redis.sismember(REVOKED_KEYS, String(keyId)))) === 1;
 }
 
 /** Marks a cached key revoked after the database refused it (revoked through another process). */

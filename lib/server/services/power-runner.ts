@@ -8,6 +8,8 @@ import { buildScenarios, runResult } from '@/lib/shared/power-scenario';
 import { powerRunLimits, queueEnv } from '@/lib/server/env';
 import { runScenarios } from '@/lib/server/jobs/power/run-scenario';
 import { runScenariosOnQueue } from '@/lib/server/jobs/power/queue';
+import { queueWorkerCount } from '@/lib/server/jobs/chunk-queue';
+import { RAN_IN_PROCESS_MESSAGE, WAITING_FOR_WORKER_MESSAGE } from '@/lib/shared/power-queue';
 import { decodeJson } from '@/db/json';
 
 type RunState = { cancel: boolean; studyId: number };
@@ -140,12 +142,31 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
     const scenarios = buildScenarios(spec, content);
     const total = scenarios.reduce((sum, s) => sum + s.replications, 0);
     let lastWrite = 0;
-    // With REDIS_URL the chunks go to the shared queue (`npm run worker` processes take them) and
-    // this process only reads progress; without it they run on this process's threads.
-    const onQueue = queueEnv().redisUrl !== null;
+    // With REDIS_URL and at least one `npm run worker` listening, the chunks go to the shared queue
+    // and this process only reads progress; otherwise they run on this process's threads (as an
+    // analysis's refits do), and with REDIS_URL the run says why. Workers that all leave mid-run:
+    // the run says it waits for one (WAITING_FOR_WORKER_MESSAGE) until one listens again.
+    const withRedis = queueEnv().redisUrl !== null;
+    const onQueue = withRedis && (await queueWorkerCount('power')) > 0;
+    if (withRedis && !onQueue) {
+      console.warn(`[switchback] power run ${runId}: no queue worker is listening; computing it in this process (start \`npm run worker\` to use the queue)`);
+      await PowerRun.update({ message: RAN_IN_PROCESS_MESSAGE }, { where: { id: runId, status: 'running' } });
+    }
+    const setMessage = (message: string | null) =>
+      PowerRun.update({ message }, { where: { id: runId, status: 'running' } }).catch((error) =>
+        console.warn(`[switchback] power run ${runId}: message not written (${error instanceof Error ? error.message : error})`),
+      );
     const engine = onQueue ? runScenariosOnQueue : runScenarios;
     const outcomes = await engine(scenarios, {
-      ...(onQueue ? { label: `run${runId}` } : { workers: options.workers }),
+      ...(onQueue
+        ? {
+            label: `run${runId}`,
+            onWorkerless: async (workerless: boolean) => {
+              if (workerless) console.warn(`[switchback] power run ${runId}: waiting for a queue worker (none is listening); start \`npm run worker\``);
+              await setMessage(workerless ? WAITING_FOR_WORKER_MESSAGE : null);
+            },
+          }
+        : { workers: options.workers }),
       shouldStop: () => state.cancel,
       onProgress: async (completed) => {
         const t = Date.now();

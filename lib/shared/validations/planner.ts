@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import '@/lib/shared/validations/error-map';
 import { freeText, nameText } from '@/lib/shared/validations/text';
+import { amountUnit, roundTo } from '@/lib/design/item-bank/rounding';
 
 /**
  * The planner's entities, one zod schema each, shared by forms (zodResolver), route handlers
@@ -99,6 +100,20 @@ export const designSpecSchema = z
     choiceSensitivity: z.number().positive('Choice sensitivity γ must be above 0.').max(1000, 'Choice sensitivity γ must be at most 1000.').optional(),
   })
   .superRefine((spec, ctx) => {
+    const beta = spec.model.id === 'quasi-hyperbolic' ? spec.model.presentBias : undefined;
+    if (beta !== undefined && spec.ratio > 0 && spec.ratio < 1 && spec.largeAmount > 0 && /^[A-Z]{3}$/.test(spec.currency)) {
+      // the calibration block asks "c today or S later" with c at least one amount unit; under quasi-hyperbolic
+      // discounting S later is worth at most β·S today, so β·S ≤ one unit leaves no question with an indifference point
+      const unit = amountUnit({ currency: spec.currency, largeAmount: spec.largeAmount, smallAmount: spec.ratio * spec.largeAmount });
+      const small = roundTo(spec.ratio * spec.largeAmount, unit);
+      // (amounts below one unit are their own problem, not β's: left to the amount checks downstream)
+      if (small > unit && !(beta * small > unit))
+        ctx.addIssue({
+          code: 'custom',
+          path: ['model', 'presentBias'],
+          message: `With present bias β = ${beta}, the small later reward (${small} ${spec.currency}) would be worth at most ${Number((beta * small).toPrecision(3))} ${spec.currency} today, not more than the smallest amount a question can offer (${unit} ${spec.currency}): no choice could reveal a discount rate. Use β above ${Number((unit / small).toPrecision(3))} or larger amounts.`,
+        });
+    }
     if (spec.soonDelay.mode === 'optimised' && spec.soonDelay.min > spec.soonDelay.max)
       ctx.addIssue({ code: 'custom', path: ['soonDelay', 'max'], message: 'The upper bound must not be below the lower bound.' });
     if (spec.calibration.minDelay >= spec.calibration.maxDelay)

@@ -49,14 +49,15 @@ describe('optimal late delay: closed forms', () => {
     }
   });
 
-  it('quasi-hyperbolic with β ≤ x and k = K has its largest gap product at the start of the zone', () => {
-    // C is linear-times-linear in u = exp(−KD) with the vertex outside the zone here
+  it('quasi-hyperbolic with β ≤ x and k = K: C is largest as D → d⁺, so the late delay is the first plannable one, d + 1 day', () => {
+    // C is linear-times-linear in u = exp(−KD) with the vertex outside the zone here; D = d itself is no pair
     const input = { model: { id: 'quasi-hyperbolic', presentBias: 0.3 } as ModelSpec, ratio: 0.5, soonDelay: 10, kSmall: 0.01, kLarge: 0.01 };
     const o = optimiseLateDelay(input)!;
-    expect(o.lateDelay).toBe(10);
-    // limit value by direct evaluation: A(d) = 0.3(e^−0.1 − 0.5e^−0.1), B(d⁺) = 0.5 − 0.3
-    expect(o.gapProduct).toBeCloseTo(0.3 * 0.5 * Math.exp(-0.1) * 0.2, 14);
-    expect(gapProduct(input, 10.0001)).toBeLessThan(o.gapProduct);
+    expect(o.lateDelay).toBe(11);
+    // direct evaluation at D = 11: A = 0.3(e^−0.11 − 0.5e^−0.1), B = 0.5 − 0.3e^−0.01
+    expect(o.gapProduct).toBeCloseTo(0.3 * (Math.exp(-0.11) - 0.5 * Math.exp(-0.1)) * (0.5 - 0.3 * Math.exp(-0.01)), 14);
+    expect(gapProduct(input, 10.5)).toBeGreaterThan(o.gapProduct);
+    expect(gapProduct(input, 11.0001)).toBeLessThan(o.gapProduct);
   });
 });
 

@@ -2,7 +2,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 
 // The one module that reads settings (lib/server/env.ts). Each case sets the environment, imports a
 // fresh copy of the module (the database and auth groups are parsed once per process) and restores.
-const NAMES = ['DB_HOST', 'DB_PORT', 'DB_NAME', 'DB_USER', 'DB_PASSWORD', 'NEXTAUTH_SECRET', 'NEXTAUTH_URL', 'SMTP_URL', 'MAIL_FROM', 'MAILBOX_DIR', 'PROBE_API_BURST', 'PROBE_API_PER_SECOND', 'BROWSER_API_BURST', 'BROWSER_API_PER_SECOND', 'POWER_WORKERS'];
+const NAMES = ['DB_HOST', 'DB_PORT', 'DB_NAME', 'DB_USER', 'DB_PASSWORD', 'NEXTAUTH_SECRET', 'NEXTAUTH_URL', 'SMTP_URL', 'MAIL_FROM', 'MAILBOX_DIR', 'PROBE_API_BURST', 'PROBE_API_PER_SECOND', 'BROWSER_API_BURST', 'BROWSER_API_PER_SECOND', 'POWER_WORKERS', 'SESSION_PAGE_BURST', 'SESSION_PAGE_PER_SECOND'];
 const saved = Object.fromEntries(NAMES.map((n) => [n, process.env[n]]));
 
 async function envWith(values: Record<string, string | undefined>) {
@@ -44,8 +44,8 @@ describe('server settings', () => {
   });
 
   it('falls back to the documented rate limit and worker defaults for unusable values', async () => {
-    const env = await envWith({ PROBE_API_BURST: '-5', PROBE_API_PER_SECOND: 'x', POWER_WORKERS: '0' });
-    expect(env.probeApiEnv()).toEqual({ PROBE_API_BURST: 200, PROBE_API_PER_SECOND: 100, BROWSER_API_BURST: 120, BROWSER_API_PER_SECOND: 30 });
+    const env = await envWith({ PROBE_API_BURST: '-5', PROBE_API_PER_SECOND: 'x', POWER_WORKERS: '0', SESSION_PAGE_BURST: '0', SESSION_PAGE_PER_SECOND: 'fast' });
+    expect(env.probeApiEnv()).toEqual({ PROBE_API_BURST: 200, PROBE_API_PER_SECOND: 100, BROWSER_API_BURST: 120, BROWSER_API_PER_SECOND: 30, SESSION_PAGE_BURST: 120, SESSION_PAGE_PER_SECOND: 10 });
     expect(env.powerEnv().POWER_WORKERS).toBeUndefined();
     process.env.PROBE_API_BURST = '5';
     process.env.POWER_WORKERS = '40';

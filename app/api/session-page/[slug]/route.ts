@@ -9,7 +9,7 @@ import { pageActionSchema } from '@/lib/shared/validations/session-links';
 export const GET = route<{ slug: string }>(async (request: NextRequest, { params }) => {
   const { slug } = await params;
   try {
-    takePageBudget(request, slug);
+    await takePageBudget(request, slug);
     const url = new URL(request.url);
     return pageReply(request, slug, await readPageState(slug, url.searchParams.get('participantId'), sessionTokenOf(request)));
   } catch (error) {
@@ -21,7 +21,7 @@ export const GET = route<{ slug: string }>(async (request: NextRequest, { params
 export const POST = route<{ slug: string }>(async (request: NextRequest, { params }) => {
   const { slug } = await params;
   try {
-    takePageBudget(request, slug);
+    await takePageBudget(request, slug);
     const action = await readJson(request, pageActionSchema);
     const outcome = await takePageAction(slug, action, sessionTokenOf(request));
     return pageReply(request, slug, outcome.state, outcome.token);

@@ -9,6 +9,10 @@ export type QueueRunOptions = Omit<RunScenarioOptions, 'workers'> & {
   label?: string;
   /** how often progress is read from Redis (ms), default 250 */
   pollMs?: number;
+  /** told when no worker process listens while chunks remain (true) and when one does again (false) */
+  onWorkerless?: (workerless: boolean) => void | Promise<void>;
+  /** how often the listening workers are counted (ms), default 2000 */
+  workerCheckMs?: number;
 };
 
 /**
@@ -27,6 +31,8 @@ export async function runScenariosOnQueue(scenarios: readonly PowerScenario[], o
   const results = await runChunksOnQueue<ChunkTask, ChunkResult>('power', runKey, tasks, {
     shouldStop: options.shouldStop,
     pollMs: options.pollMs,
+    onWorkerless: options.onWorkerless,
+    workerCheckMs: options.workerCheckMs,
     onChunksDone: (done) => options.onProgress?.(done.reduce((sum, chunk) => sum + (chunks[chunk].to - chunks[chunk].from), 0)),
   });
   return results ? mergeChunkResults(scenarios.length, chunks, results) : null;
