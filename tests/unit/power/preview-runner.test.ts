@@ -10,8 +10,11 @@ class TickWorker {
   onerror: ((event: ErrorEvent) => void) | null = null;
   requests: PreviewChunkRequest[] = [];
   terminated = false;
+  /** Called as each chunk is handed out, before its answer can arrive. */
+  onPost: (() => void) | null = null;
   postMessage(request: PreviewChunkRequest) {
     this.requests.push(request);
+    this.onPost?.();
     setTimeout(() => {
       if (!this.terminated) this.onmessage?.({ data: answerPreviewChunk(request) } as MessageEvent<PreviewChunkReply>);
     }, 0);
@@ -64,11 +67,20 @@ describe('live power preview on workers', () => {
   it('cancels the running preview when a newer change comes, and shows only the newer one', async () => {
     const states: PreviewState[] = [];
     const { runner: r, made, finished } = runner(1, states);
+    // change a field as soon as the first preview hands out its first chunk (in a microtask, so
+    // before that chunk's answer can arrive, however fast or slow the machine is)
+    const changed = new Promise<void>((resolve) => {
+      made[0].onPost = () => {
+        made[0].onPost = null;
+        queueMicrotask(() => {
+          r.request(input(0.7));
+          resolve();
+        });
+      };
+    });
     r.request(input(0.82));
-    // let the first preview start and hand out its first chunk, then change a field
-    await new Promise((resolve) => setTimeout(resolve, 5));
+    await changed;
     expect(made[0].requests.length).toBeGreaterThan(0);
-    r.request(input(0.7));
     const done = await finished;
     expect(done.summaryInput?.content.spec.ratio).toBe(0.7);
     const scenario = previewScenario(input(0.7));
