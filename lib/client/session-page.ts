@@ -1,7 +1,7 @@
 'use client';
 
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { PageState } from '@/lib/shared/session-page';
+import type { PageState, SessionLinkDto } from '@/lib/shared/session-page';
 import type { PageAction, PreviewState, SessionLinkCreateInput } from '@/lib/shared/validations/session-links';
 import { apiFetch } from './api';
 
@@ -56,22 +56,8 @@ export function previewDriver(studyId: number, linkId: number): PageDriver {
   };
 }
 
-export type SessionLinkDto = {
-  id: number;
-  name: string;
-  title: string;
-  designVersionId: number;
-  status: 'open' | 'paused' | 'closed';
-  path: string;
-  participantParam: string;
-  consentText: string;
-  instructions: string;
-  completionCode: string;
-  redirectUrl: string | null;
-  createdAt: string;
-  counts: Record<'started' | 'calibrated' | 'served' | 'completed' | 'abandoned', number>;
-  attentionFailures: Array<{ participantId: string; checks: string[] }>;
-};
+
+export type { SessionLinkDto };
 
 export const sessionLinkKeys = { list: (studyId: number) => ['study', studyId, 'session-links'] as const };
 

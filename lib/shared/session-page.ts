@@ -43,3 +43,22 @@ export type PageState = {
 
 /** The caution every session page carries. */
 export const PAGE_CAUTION = 'This is a research study about choices between rewards. It is not a test or an assessment of you, and there are no right or wrong answers.';
+
+/** One participant link as the operators' screen lists it, with its sessions counted by status and the failed attention checks. */
+export type SessionLinkDto = {
+  id: number;
+  name: string;
+  title: string;
+  designVersionId: number;
+  status: 'open' | 'paused' | 'closed';
+  path: string;
+  participantParam: string;
+  consentText: string;
+  instructions: string;
+  completionCode: string;
+  redirectUrl: string | null;
+  createdAt: string;
+  counts: Record<'started' | 'calibrated' | 'served' | 'completed' | 'abandoned', number>;
+  /** participants who chose the dominated option of an attention check (calibration or stage 2) */
+  attentionFailures: Array<{ participantId: string; checks: string[] }>;
+};

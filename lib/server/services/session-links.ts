@@ -10,31 +10,14 @@ import { sessionLinkCreateSchema, sessionLinkStatusSchema, type PreviewState, pr
 import type { PageState } from '@/lib/shared/session-page';
 import { recordAudit } from './audit';
 import { bankOrInvalid, frozenVersionById, loadVersion } from './item-bank';
-import { countByStatus, sessionState, type SessionStatus } from './session-status';
+import { countByStatus, sessionState } from './session-status';
 import { newSlug, pageItems, pageLinkOf } from './session-page/session-page';
+import type { SessionLinkDto } from '@/lib/shared/session-page';
 import { currentStep } from './session-page/steps';
 import { nextCalibrationItem } from './session-page/calibration-step';
 
 // Participant links to the session page, as operators manage them (a "Session links" area of the study).
 
-/** One link as the operators' screen lists it, with its sessions counted by status and the failed attention checks. */
-export type SessionLinkDto = {
-  id: number;
-  name: string;
-  title: string;
-  designVersionId: number;
-  status: 'open' | 'paused' | 'closed';
-  path: string;
-  participantParam: string;
-  consentText: string;
-  instructions: string;
-  completionCode: string;
-  redirectUrl: string | null;
-  createdAt: string;
-  counts: Record<SessionStatus, number>;
-  /** participants who chose the dominated option of an attention check (calibration or stage 2) */
-  attentionFailures: Array<{ participantId: string; checks: string[] }>;
-};
 
 function linkJson(link: SessionLink, sessions: SessionRow[], idleMinutes: number, now: Date): SessionLinkDto {
   const mine = sessions.filter((s) => Number(s.session_link_id) === link.id);
