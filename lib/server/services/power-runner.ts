@@ -183,6 +183,8 @@ async function execute(runId: number, state: { cancel: boolean }, options: { wor
       {
         status: 'finished',
         completed: total,
+        // a finished queued run waits for nothing, whether or not the worker watch saw a worker return
+        ...(onQueue ? { message: null } : {}),
         // the assumed truth's tally (the stress truths' summaries are in the result)
         tally: outcomes[0].tally,
         result,
