@@ -20,7 +20,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { parseArgs, parseEnv } from 'node:util';
-import { aptInstall, findExecutable, isRoot } from './system.mjs';
+import { aptInstall, awaitProcessEnd, findExecutable, isLiveProcess, isRoot, readPidFile } from './system.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const ENV_FILE = path.join(ROOT, '.env.local');
@@ -146,34 +146,10 @@ async function sql(cfg, statements) {
 
 // --- process state -----------------------------------------------------------------------------
 
-function readPid(cfg) {
-  try {
-    const pid = Number.parseInt(fs.readFileSync(cfg.pidFile, 'utf8'), 10);
-    return Number.isInteger(pid) && pid > 0 ? pid : null;
-  } catch {
-    return null;
-  }
-}
-
-// A pid counts as our server only if it is a live (not zombie) mariadbd: after `kill -9` the
-// process can linger as a zombie when nothing reaps it, and pids get reused after a reboot.
-function isServerProcess(pid) {
-  if (!pid) return false;
-  try {
-    const stat = fs.readFileSync(`/proc/${pid}/stat`, 'utf8');
-    const state = stat.slice(stat.lastIndexOf(')') + 2, stat.lastIndexOf(')') + 3);
-    const comm = fs.readFileSync(`/proc/${pid}/comm`, 'utf8').trim();
-    return state !== 'Z' && state !== 'X' && /^(mariadbd|mysqld)$/.test(comm);
-  } catch (error) {
-    if (error.code !== 'ENOENT' || fs.existsSync('/proc/self/stat')) return false;
-    try {
-      process.kill(pid, 0); // No /proc (not Linux): existence is the best we can tell.
-      return true;
-    } catch {
-      return false;
-    }
-  }
-}
+const SERVER_NAME = /^(mariadbd|mysqld)$/;
+const readPid = (cfg) => readPidFile(cfg.pidFile);
+// A pid counts as our server only if it is a live mariadbd (see isLiveProcess).
+const isServerProcess = (pid) => isLiveProcess(pid, SERVER_NAME);
 
 function removeStaleFiles(cfg) {
   for (const file of [cfg.pidFile, cfg.socket, `${cfg.socket}.lock`]) fs.rmSync(file, { force: true });
@@ -410,13 +386,7 @@ export async function stopDatabase({ instance = 'app', log = () => {} } = {}) {
   const result = await runTool('mariadb-admin', cfg, [`--user=${adminUser()}`, 'shutdown'], { timeoutMs: STOP_TIMEOUT_MS });
   if (result.code !== 0) log(`mariadb-admin shutdown failed (${result.stderr.trim()}); sending SIGTERM instead.`);
   const signals = result.code === 0 ? [null, 'SIGTERM', 'SIGKILL'] : ['SIGTERM', 'SIGKILL'];
-  for (const signal of signals) {
-    if (signal && isServerProcess(pid)) process.kill(pid, signal);
-    const deadline = Date.now() + (signal === 'SIGKILL' ? 10_000 : STOP_TIMEOUT_MS);
-    while (isServerProcess(pid) && Date.now() < deadline) await sleep(100);
-    if (!isServerProcess(pid)) break;
-  }
-  if (isServerProcess(pid)) throw new Error(`mariadbd (pid ${pid}) did not stop`);
+  await awaitProcessEnd(pid, SERVER_NAME, { signals, graceMs: STOP_TIMEOUT_MS, killMs: 10_000, label: 'mariadbd' });
   removeStaleFiles(cfg);
   return true;
 }

@@ -16,7 +16,7 @@ import net from 'node:net';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { parseArgs } from 'node:util';
-import { aptInstall, findExecutable } from './system.mjs';
+import { aptInstall, awaitProcessEnd, findExecutable, isLiveProcess, readPidFile } from './system.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const SBIN = ['/usr/bin', '/usr/sbin', '/usr/local/bin', '/usr/local/sbin'];
@@ -104,27 +104,10 @@ async function ping(port) {
   return (await command(port, 'PING')) === '+PONG';
 }
 
-function readPid(cfg) {
-  try {
-    const pid = Number.parseInt(fs.readFileSync(cfg.pidFile, 'utf8'), 10);
-    return Number.isInteger(pid) && pid > 0 ? pid : null;
-  } catch {
-    return null;
-  }
-}
-
-// A pid counts as our server only if it is a live (not zombie) redis-server: pids get reused.
-function isServerProcess(pid) {
-  if (!pid) return false;
-  try {
-    const stat = fs.readFileSync(`/proc/${pid}/stat`, 'utf8');
-    const state = stat.slice(stat.lastIndexOf(')') + 2, stat.lastIndexOf(')') + 3);
-    const comm = fs.readFileSync(`/proc/${pid}/comm`, 'utf8').trim();
-    return state !== 'Z' && state !== 'X' && comm.startsWith('redis-server');
-  } catch {
-    return false;
-  }
-}
+const SERVER_NAME = /^redis-server/;
+const readPid = (cfg) => readPidFile(cfg.pidFile);
+// A pid counts as our server only if it is a live redis-server (see isLiveProcess).
+const isServerProcess = (pid) => isLiveProcess(pid, SERVER_NAME);
 
 function portIsFree(port) {
   return new Promise((resolve) => {
@@ -189,13 +172,7 @@ export async function stopRedis({ instance = 'app', log = () => {} } = {}) {
   }
   log(`Stopping Redis (${instance}) ...`);
   await command(cfg.port, cfg.spec.persist ? 'SHUTDOWN SAVE' : 'SHUTDOWN NOSAVE');
-  for (const signal of [null, 'SIGTERM', 'SIGKILL']) {
-    if (signal && isServerProcess(pid)) process.kill(pid, signal);
-    const deadline = Date.now() + (signal === 'SIGKILL' ? 5_000 : STOP_TIMEOUT_MS / 2);
-    while (isServerProcess(pid) && Date.now() < deadline) await sleep(100);
-    if (!isServerProcess(pid)) break;
-  }
-  if (isServerProcess(pid)) throw new Error(`redis-server (pid ${pid}) did not stop`);
+  await awaitProcessEnd(pid, SERVER_NAME, { signals: [null, 'SIGTERM', 'SIGKILL'], graceMs: STOP_TIMEOUT_MS / 2, killMs: 5_000, label: 'redis-server' });
   fs.rmSync(cfg.pidFile, { force: true });
   return true;
 }

@@ -1,7 +1,7 @@
 // Helpers shared by the start, test and database scripts: system packages and child processes.
 // Plain Node ESM with built-ins only, so it runs before (or without) `npm ci`.
 import { spawn, spawnSync } from 'node:child_process';
-import { existsSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 
@@ -137,4 +137,50 @@ export async function startLocalServices(root, env) {
   const { startServices } = await import(pathToFileURL(file).href);
   const started = (await startServices(env)) ?? {};
   return { env: started.env ?? {}, stop: started.stop ?? (async () => {}) };
+}
+
+/** The pid a private server wrote to `file`, or null when there is none. */
+export function readPidFile(file) {
+  try {
+    const pid = Number.parseInt(readFileSync(file, 'utf8'), 10);
+    return Number.isInteger(pid) && pid > 0 ? pid : null;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * Whether `pid` is a live (not zombie) process whose name matches `name`: after `kill -9` a
+ * process can linger as a zombie when nothing reaps it, and pids get reused after a reboot.
+ */
+export function isLiveProcess(pid, name) {
+  if (!pid) return false;
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
+    const state = stat.slice(stat.lastIndexOf(')') + 2, stat.lastIndexOf(')') + 3);
+    const comm = readFileSync(`/proc/${pid}/comm`, 'utf8').trim();
+    return state !== 'Z' && state !== 'X' && name.test(comm);
+  } catch (error) {
+    if (error.code !== 'ENOENT' || existsSync('/proc/self/stat')) return false;
+    try {
+      process.kill(pid, 0); // No /proc (not Linux): existence is the best we can tell.
+      return true;
+    } catch {
+      return false;
+    }
+  }
+}
+
+/**
+ * Waits for a server asked to stop to be gone, sending each of `signals` in turn (null: only wait)
+ * and waiting `graceMs` after each (`killMs` after SIGKILL); throws naming `label` if it outlives them.
+ */
+export async function awaitProcessEnd(pid, name, { signals, graceMs, killMs, label }) {
+  for (const signal of signals) {
+    if (signal && isLiveProcess(pid, name)) process.kill(pid, signal);
+    const deadline = Date.now() + (signal === 'SIGKILL' ? killMs : graceMs);
+    while (isLiveProcess(pid, name) && Date.now() < deadline) await new Promise((resolve) => setTimeout(resolve, 100));
+    if (!isLiveProcess(pid, name)) return;
+  }
+  throw new Error(`${label} (pid ${pid}) did not stop`);
 }
