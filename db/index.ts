@@ -59,6 +59,53 @@ export async function rawQuery(sql: string, values: readonly unknown[]): Promise
   }
 }
 
+/** One statement of a pipeline: SQL with `?` placeholders and its values (strings, numbers or null). */
+export type RawStatement = readonly [sql: string, values: readonly unknown[]];
+
+type Prepared = { execute(values: readonly unknown[]): Promise<RawResult>; close(): void };
+type PreparingConnection = { prepare(sql: string): Promise<Prepared> };
+
+/**
+ * Several statements on one pooled driver connection, each sent without waiting for the reply to
+ * the one before (the driver pipelines them: one round trip for the lot), as prepared statements
+ * (the server parses a statement's text once per connection; values travel in binary, so a long
+ * JSON text is neither escaped here nor lexed there). For the session API's hot path.
+ *
+ * Each statement runs on its own (autocommit), in the order given, and a later one runs even when
+ * an earlier one failed: when it must depend on an earlier one, say so in its SQL (`ROW_COUNT()`
+ * is the number of rows the statement before it wrote, -1 after an error). Pass dates as text
+ * (UTC), not Date objects. Resolves with every statement's outcome, in order.
+ */
+export async function rawPipeline(statements: readonly RawStatement[]): Promise<PromiseSettledResult<RawResult>[]> {
+  const manager = db().connectionManager;
+  const connection = (await manager.getConnection({ type: 'write' })) as unknown as PreparingConnection;
+  try {
+    // All prepared (from the connection's cache once it has seen the text) before any is executed:
+    // the driver's own execute() may send a later statement's execution before an earlier one's
+    // when only the later one is cached, and the order is what makes ROW_COUNT() mean anything.
+    const prepared = await Promise.allSettled(statements.map(([sql]) => connection.prepare(sql)));
+    try {
+      // Called in order, so the executions are queued, sent and run in order.
+      return await Promise.allSettled(prepared.map((p, i) => (p.status === 'fulfilled' ? p.value.execute(statements[i][1]) : Promise.reject(p.reason))));
+    } finally {
+      for (const p of prepared) if (p.status === 'fulfilled') p.value.close();
+    }
+  } finally {
+    manager.releaseConnection(connection as never);
+  }
+}
+
+/** One statement as rawPipeline sends it (prepared; dates as UTC text): its result, or its error thrown. */
+export async function rawExecute(sql: string, values: readonly unknown[]): Promise<RawResult> {
+  return settled((await rawPipeline([[sql, values]]))[0]);
+}
+
+/** The outcome of a pipelined statement: its result, or its error thrown. */
+export function settled<T>(outcome: PromiseSettledResult<T>): T {
+  if (outcome.status === 'rejected') throw outcome.reason;
+  return outcome.value;
+}
+
 /** Closes the pool (tests and scripts call this before exiting). */
 export async function closeDb(): Promise<void> {
   if (holder.switchbackSequelize) {

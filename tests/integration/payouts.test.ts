@@ -146,6 +146,18 @@ describe('the draw at completion', () => {
     expect(offReply.replies[0].body.reward).toBeUndefined();
     expect(await Payout.count({ where: { studyId: off.study.id } })).toBe(0);
   });
+
+  it('follows the real-rewards setting as an owner changes it: the next completion through the API draws, or does not', async () => {
+    const s = await setUp('Payouts: setting changes', { enabled: false });
+    const put = (enabled: boolean) =>
+      call(rewardSettingsRoute as never, s.team.owner, 'PUT', `/api/studies/${s.id}/rewards/${s.version.id}`, { id: s.id, versionId: String(s.version.id) }, { json: { enabled, blocks: 'both', cap: null, approvalThreshold: null } });
+    expect((await s.complete('P-before')).replies[0].body.reward).toBeUndefined();
+    expect((await put(true)).status).toBe(200);
+    expect((await s.complete('P-on')).replies[0].body.reward).toMatchObject({ currency: 'EUR', status: 'held' });
+    expect((await put(false)).status).toBe(200);
+    expect((await s.complete('P-off-again')).replies[0].body.reward).toBeUndefined();
+    expect((await Payout.findAll({ where: { studyId: s.study.id } })).map((p) => p.participantId)).toEqual(['P-on']);
+  });
 });
 
 describe('the scheduler', () => {

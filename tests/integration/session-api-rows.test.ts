@@ -3,7 +3,7 @@
 // with their stage-2 answers), and a revoked browser key's 401 is readable by the page holding it
 // (CORS headers of the key's own origins, even when no active key of the study lists them).
 import { beforeAll, describe, expect, it } from 'vitest';
-import { ParticipantSession } from '@/db/models';
+import { ApiKey, ParticipantSession } from '@/db/models';
 import { GET as calibrationRoute } from '@/app/api/v1/studies/[id]/calibration/route';
 import { POST as probeRoute } from '@/app/api/v1/studies/[id]/probe-items/route';
 import { POST as answersRoute } from '@/app/api/v1/studies/[id]/stage2-answers/route';
@@ -60,6 +60,30 @@ describe('session rows of API participants', () => {
     expect(done.body.status).toBe('completed');
     const statuses = await listSessionStatuses(s.study.id, { idleMinutes: 60 });
     expect(statuses.map((r) => [r.participantId, r.status]).sort()).toEqual([['R-1', 'completed'], ['R-2', 'served']]);
+  });
+});
+
+describe('session rows written in the same round trip as the participant', () => {
+  it('are left alone when the insert records nobody: a changed replay (409) and a key revoked by another process', async () => {
+    const s = await setUp('API session rows, nothing recorded');
+    const server = await s.key({});
+    const auth = { authorization: `Bearer ${server.secret}` };
+    const items = bankFor(s.version).bank.items;
+    const responses = answersOf(items, { kSmall: 0.05, kLarge: 0.01 });
+    const probe = (participantId: string, answers: Record<string, string>) => call(probeRoute, 'POST', `/api/v1/studies/${s.study.id}/probe-items`, s.study.id, auth, { participantId, responses: answers });
+    expect((await probe('N-1', responses)).status).toBe(200);
+    const long = new Date('2026-01-02T03:04:05.000Z');
+    await ParticipantSession.update({ lastActivityAt: long }, { where: { studyId: s.study.id, participantId: 'N-1' } });
+    // other calibration answers for a served participant: 409, and their session row is untouched
+    expect((await probe('N-1', answersOf(items, { kSmall: 0.2, kLarge: 0.001 }))).status).toBe(409);
+    expect((await ParticipantSession.findOne({ where: { studyId: s.study.id, participantId: 'N-1' } }))?.lastActivityAt.toISOString()).toBe(long.toISOString());
+    // the same answers again: a replay, which counts as activity
+    expect((await probe('N-1', responses)).status).toBe(200);
+    expect((await ParticipantSession.findOne({ where: { studyId: s.study.id, participantId: 'N-1' } }))?.lastActivityAt.getTime()).toBeGreaterThan(long.getTime());
+    // revoked through another process: this one still has the key cached, the insert refuses it, and no session row appears
+    await ApiKey.update({ revokedAt: new Date() }, { where: { id: server.key.id } });
+    expect((await probe('N-2', responses)).status).toBe(401);
+    expect(await ParticipantSession.count({ where: { studyId: s.study.id, participantId: 'N-2' } })).toBe(0);
   });
 });
 

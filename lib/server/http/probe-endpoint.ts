@@ -2,7 +2,7 @@ import { ValidationError } from '@/lib/server/errors';
 import type { PlainReply } from '@/lib/server/http/error-reply';
 import { parseJsonText } from '@/lib/server/http/read-json';
 import { keyPresentation, sessionEndpoint, versionOfKey, type SessionCall } from './session-endpoints';
-import { recordServedSession, requireParticipantToken } from '@/lib/server/services/session-tokens';
+import { requireParticipantToken } from '@/lib/server/services/session-tokens';
 import { itemBankId } from '@/lib/server/services/item-bank-id';
 import { serveProbeItemsJson } from '@/lib/server/services/participants';
 import { probeItemsRequestSchema } from '@/lib/shared/validations/item-bank';
@@ -33,9 +33,9 @@ export function handleProbeItems(call: ProbeItemsCall): Promise<PlainReply> {
       }
     }
     await requireParticipantToken(key, body.participantId, call.sessionToken ?? null);
-    // The reply's JSON text as stored with the participant: built once, sent as is.
+    // The reply's JSON text as stored with the participant: built once, sent as is. Serving through
+    // a key also records the participant's session as served.
     const json = await serveProbeItemsJson(version, body.participantId, body.responses, { source: 'api', key }, presentation);
-    await recordServedSession(key, version, body.participantId);
     return { status: 200, headers: { 'content-type': 'application/json' }, body: json };
   });
 }

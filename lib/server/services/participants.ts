@@ -1,11 +1,13 @@
 import { Participant } from '@/db/models';
-import { rawQuery } from '@/db';
+import { rawPipeline, rawQuery, settled } from '@/db';
 import { ConflictError, ValidationError } from '@/lib/server/errors';
 import { contentHash } from '@/lib/shared/canonical-json';
 import { ItemBankInputError, serveParticipant, type ServedItems } from '@/lib/design';
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import { markApiKeyRevoked, RevokedKeyError, type CachedKey } from './api-keys';
 import { bankOrInvalid } from './item-bank';
+import { recordServedSession, servedSessionAfterInsert } from './session-tokens';
+import { rememberServedParticipant } from './stage2-answers';
 
 /** Who serves: a key (the probe-items API), an operator (a batch), or a participant on the session page. */
 export type ServeSource = { source: 'api'; key: CachedKey } | { source: 'batch'; userId: number } | { source: 'page' };
@@ -37,6 +39,7 @@ function sqlDate(date: Date): string {
  * responses for a participant already served → 409 and nothing changes. Concurrency relies on
  * the UNIQUE (study_id, participant_id) index: the insert is tried first, and a request that
  * loses the race reads the winner's record back (no application locks).
+ * Served through a key, the participant's session row reaches `served` as well (recordServedSession).
  */
 export async function serveProbeItemsJson(
   version: ServedVersion,
@@ -59,20 +62,25 @@ export async function serveProbeItemsJson(
   const reply: ProbeItemsReply = Object.assign({}, served, { designHash: version.hash, servedAt: servedAt.toISOString() });
   const json = JSON.stringify(reply);
   const row = [version.studyId, version.id, participantId, responsesHash, JSON.stringify(responses), json, served.flag];
+  const at = sqlDate(servedAt);
   try {
     // Plain single statements on the driver: the probe API's hot path, where a model instance
     // or Sequelize's escaping of the 4 kB reply costs more than the query.
-    const result =
-      by.source === 'api'
-        ? await rawQuery(INSERT_VIA_KEY, [...row, sqlDate(servedAt), by.key.id])
-        : by.source === 'batch'
-          ? await rawQuery(INSERT_BY_USER, [...row, by.userId, sqlDate(servedAt)])
-          : await rawQuery(INSERT_BY_PAGE, [...row, sqlDate(servedAt)]);
-    if (result.affectedRows === 0 && by.source === 'api') {
-      // revoked (or deleted with its study) after this process cached it
-      markApiKeyRevoked(by.key);
-      throw new RevokedKeyError(by.key);
+    let result;
+    if (by.source === 'api') {
+      // The session row goes in the same round trip, written only if the insert recorded the participant.
+      const [inserted, session] = await rawPipeline([[INSERT_VIA_KEY, [...row, at, by.key.id]], servedSessionAfterInsert(by.key, version.id, participantId, at)]);
+      result = settled(inserted);
+      if (result.affectedRows === 0) {
+        // revoked (or deleted with its study) after this process cached it
+        markApiKeyRevoked(by.key);
+        throw new RevokedKeyError(by.key);
+      }
+      settled(session);
+    } else {
+      result = by.source === 'batch' ? await rawQuery(INSERT_BY_USER, [...row, by.userId, at]) : await rawQuery(INSERT_BY_PAGE, [...row, at]);
     }
+    rememberServedParticipant(version.studyId, participantId, { ref: Number(result.insertId), designVersionId: version.id, itemIds: served.items.map((i) => i.id) });
     return json;
   } catch (error) {
     if ((error as { errno?: number }).errno !== ER_DUP_ENTRY) throw error;
@@ -82,6 +90,7 @@ export async function serveProbeItemsJson(
   if (existing.responses_hash !== responsesHash || Number(existing.design_version_id) !== version.id) {
     throw new ConflictError(`Participant ${participantId} was already served with different calibration responses (or another design version); their items stay as served.`);
   }
+  if (by.source === 'api') await recordServedSession(by.key, version, participantId);
   return typeof existing.result === 'string' ? existing.result : JSON.stringify(existing.result);
 }
 

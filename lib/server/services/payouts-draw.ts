@@ -86,10 +86,12 @@ async function answeredItems(participant: Participant, transaction?: Transaction
  * with drawIncentive. UNIQUE (study, participant) makes parallel completions record one payout;
  * the loser reads the winner's row back.
  */
-export async function drawPayoutOnCompletion(input: { studyId: number; participantId: string; designVersionId?: number }): Promise<RewardPromise | null> {
+export async function drawPayoutOnCompletion(input: { studyId: number; participantId: string; designVersionId?: number; rewardsEnabled?: boolean }): Promise<RewardPromise | null> {
   db();
-  // A caller that knows the version (the stage-2 answers path) spares studies without real rewards every other query.
-  if (input.designVersionId !== undefined && !(await RewardSettings.findOne({ where: { designVersionId: input.designVersionId, enabled: true }, attributes: ['id'] }))) return null;
+  // A caller that knows the version (the stage-2 answers path) spares studies without real rewards every other
+  // query; one that has just read the version's setting (rewardsEnabled) spares this one too.
+  if (input.rewardsEnabled === false) return null;
+  if (input.rewardsEnabled === undefined && input.designVersionId !== undefined && !(await RewardSettings.findOne({ where: { designVersionId: input.designVersionId, enabled: true }, attributes: ['id'] }))) return null;
   const session = await ParticipantSession.findOne({ where: { studyId: input.studyId, participantId: input.participantId } });
   if (!session || session.status !== 'completed' || !session.completedAt) return null;
   const existing = await Payout.findOne({ where: { studyId: input.studyId, participantId: input.participantId } });

@@ -1,5 +1,5 @@
 import { createHash, randomBytes } from 'node:crypto';
-import { rawQuery } from '@/db';
+import { rawQuery, type RawStatement } from '@/db';
 import { ConflictError, ForbiddenError } from '@/lib/server/errors';
 import type { CachedKey } from './api-keys';
 import type { FrozenVersionRef } from './item-bank';
@@ -56,14 +56,30 @@ export async function startSession(key: CachedKey, version: FrozenVersionRef, pa
 // The session row of a participant served through the probe-items API: created (or moved on to
 // 'served') when their calibration answers are scored, so the participants page and the session
 // page's counts see them from then on, not only after their first stage-2 answer.
-const SERVED_SESSION = `INSERT INTO participant_sessions
-  (study_id, design_version_id, participant_id, status, source, api_key_id, started_at, calibrated_at, served_at, last_activity_at)
-  VALUES (?, ?, ?, 'served', 'api', ?, ?, ?, ?, ?)
-  ON DUPLICATE KEY UPDATE
+const SERVED_SESSION_COLUMNS = '(study_id, design_version_id, participant_id, status, source, api_key_id, started_at, calibrated_at, served_at, last_activity_at)';
+const SERVED_SESSION_UPDATE = `ON DUPLICATE KEY UPDATE
     status = IF(status IN ('started', 'calibrated'), 'served', status),
     calibrated_at = COALESCE(calibrated_at, VALUES(calibrated_at)),
     served_at = COALESCE(served_at, VALUES(served_at)),
     last_activity_at = VALUES(last_activity_at)`;
+const SERVED_SESSION = `INSERT INTO participant_sessions ${SERVED_SESSION_COLUMNS}
+  VALUES (?, ?, ?, 'served', 'api', ?, ?, ?, ?, ?)
+  ${SERVED_SESSION_UPDATE}`;
+// The same, sent right behind the insert of the participant on the same connection (rawPipeline):
+// it writes only when that insert recorded them (ROW_COUNT() is 1; 0 for a revoked key, -1 when
+// the participant was already served, whose replay records the session with SERVED_SESSION).
+const SERVED_SESSION_AFTER_INSERT = `INSERT INTO participant_sessions ${SERVED_SESSION_COLUMNS}
+  SELECT ?, ?, ?, 'served', 'api', ?, ?, ?, ?, ? FROM DUAL WHERE ROW_COUNT() = 1
+  ${SERVED_SESSION_UPDATE}`;
+
+/**
+ * The statement that records a key's serving of a participant in their session row, to be sent
+ * right behind the statement that inserts their `participants` row (one round trip for both).
+ * `at` is the serving time as UTC DATETIME text.
+ */
+export function servedSessionAfterInsert(key: CachedKey, versionId: number, participantId: string, at: string): RawStatement {
+  return [SERVED_SESSION_AFTER_INSERT, [key.studyId, versionId, participantId, key.id, at, at, at, at]];
+}
 
 /** Records that a key served a participant their stage-2 items (session status at least `served`). */
 export async function recordServedSession(key: CachedKey, version: FrozenVersionRef, participantId: string): Promise<void> {

@@ -1,4 +1,4 @@
-import { rawQuery } from '@/db';
+import { rawExecute, rawPipeline, rawQuery, settled, type RawStatement } from '@/db';
 import type { AnswerSource } from '@/db/models/session';
 import { ConflictError, ValidationError } from '@/lib/server/errors';
 import { decodeJson } from '@/db/json';
@@ -49,7 +49,8 @@ const servedCache = new Map<string, ServedParticipant>();
 const SERVED_CACHE_LIMIT = 20_000;
 
 const SELECT_SERVED = "SELECT id, design_version_id, JSON_EXTRACT(result, '$.items[*].id') AS item_ids FROM participants WHERE study_id = ? AND participant_id = ?";
-const SELECT_ANSWERS = 'SELECT item_id, chosen FROM stage2_answers WHERE participant_ref = ?';
+// The version's real-rewards setting rides along (it can change at any time, so it is read, not cached).
+const SELECT_ANSWERS = 'SELECT item_id, chosen, EXISTS (SELECT 1 FROM reward_settings WHERE design_version_id = ? AND enabled) AS rewards FROM stage2_answers WHERE participant_ref = ?';
 // The session row reaches at least 'served'; 'completed' sticks once reached, whichever request finishes last.
 const UPSERT_SESSION = `INSERT INTO participant_sessions
   (study_id, design_version_id, participant_id, status, source, api_key_id, started_at, served_at, completed_at, last_activity_at)
@@ -60,6 +61,15 @@ const UPSERT_SESSION = `INSERT INTO participant_sessions
     completed_at = COALESCE(completed_at, VALUES(completed_at)),
     last_activity_at = VALUES(last_activity_at)`;
 
+/**
+ * Remembers what was just served to a participant (the row's id, version and stage-2 item ids in
+ * presentation order), so their first stage-2 answers need not read it back.
+ */
+export function rememberServedParticipant(studyId: number, participantId: string, served: ServedParticipant): void {
+  if (servedCache.size >= SERVED_CACHE_LIMIT) servedCache.clear();
+  servedCache.set(`${studyId}:${participantId}`, served);
+}
+
 async function servedParticipant(studyId: number, participantId: string): Promise<ServedParticipant | null> {
   const cacheKey = `${studyId}:${participantId}`;
   const hit = servedCache.get(cacheKey);
@@ -69,8 +79,7 @@ async function servedParticipant(studyId: number, participantId: string): Promis
   const raw = row.item_ids;
   const itemIds = (decodeJson(raw) ?? []) as string[];
   const served = { ref: Number(row.id), designVersionId: Number(row.design_version_id), itemIds };
-  if (servedCache.size >= SERVED_CACHE_LIMIT) servedCache.clear();
-  servedCache.set(cacheKey, served);
+  rememberServedParticipant(studyId, participantId, served);
   return served;
 }
 
@@ -120,18 +129,22 @@ export async function recordStage2Answers(input: RecordAnswersInput): Promise<Re
   const at = sqlDate(now);
   // Sorted by item id, so parallel calls lock index entries in one order.
   const rows = [...byItem.values()].sort((a, b) => (a.itemId < b.itemId ? -1 : a.itemId > b.itemId ? 1 : 0));
-  let recorded = 0;
+  // The insert and the read-back of what is stored in one round trip (rawPipeline), the read after the insert.
+  const statements: RawStatement[] = [];
   if (rows.length) {
     const values: unknown[] = [];
     for (const a of rows) values.push(input.studyId, served.ref, a.itemId, a.chosen, a.responseMs ?? null, a.sideShown ?? null, input.source, input.apiKeyId ?? null, input.recordedBy ?? null, at);
     const placeholders = rows.map(() => '(?, ?, ?, ?, ?, ?, ?, ?, ?, ?)').join(', ');
-    const result = await rawQuery(
+    statements.push([
       `INSERT IGNORE INTO stage2_answers (study_id, participant_ref, item_id, chosen, response_ms, side_shown, source, api_key_id, recorded_by, created_at) VALUES ${placeholders}`,
       values,
-    );
-    recorded = Number(result.affectedRows ?? 0);
+    ]);
   }
-  const stored = new Map((await rawQuery(SELECT_ANSWERS, [served.ref])).map((r) => [String(r.item_id), String(r.chosen)]));
+  statements.push([SELECT_ANSWERS, [served.designVersionId, served.ref]]);
+  const outcomes = await rawPipeline(statements);
+  const recorded = rows.length ? Number(settled(outcomes[0]).affectedRows ?? 0) : 0;
+  const storedRows = settled(outcomes[outcomes.length - 1]);
+  const stored = new Map(storedRows.map((r) => [String(r.item_id), String(r.chosen)]));
   if (rows.some((a) => !stored.has(a.itemId))) {
     // IGNORE also skips a row whose participant vanished (its study was deleted) after it was cached.
     servedCache.delete(`${input.studyId}:${input.participantId}`);
@@ -140,7 +153,7 @@ export async function recordStage2Answers(input: RecordAnswersInput): Promise<Re
   const changed = rows.filter((a) => stored.get(a.itemId) !== a.chosen);
   const unanswered = served.itemIds.filter((id) => !stored.has(id));
   const status = unanswered.length === 0 ? 'completed' : 'served';
-  await rawQuery(UPSERT_SESSION, [
+  await rawExecute(UPSERT_SESSION, [
     input.studyId, served.designVersionId, input.participantId, status, input.source, input.apiKeyId ?? null, at, at, status === 'completed' ? at : null, at,
   ]);
   if (changed.length) {
@@ -153,7 +166,9 @@ export async function recordStage2Answers(input: RecordAnswersInput): Promise<Re
   // Real rewards: the paid choice is drawn when the session completes (once; a replay reads it back).
   // Uploaded answers record sessions run elsewhere and draw nothing.
   if (status === 'completed' && input.source !== 'upload') {
-    const reward = await drawPayoutOnCompletion({ studyId: input.studyId, participantId: input.participantId, designVersionId: served.designVersionId });
+    // Whether the version pays real rewards was read with the answers (no stored answer: ask).
+    const rewardsEnabled = storedRows.length ? Number(storedRows[0].rewards) === 1 : undefined;
+    const reward = await drawPayoutOnCompletion({ studyId: input.studyId, participantId: input.participantId, designVersionId: served.designVersionId, rewardsEnabled });
     if (reward) result.reward = reward;
   }
   return result;
