@@ -73,7 +73,8 @@ function run(runs: number): Timing[] {
 
 // ---- live power preview: a field change on the design page re-simulates S1's curve on a Web Worker ----
 
-type PreviewTiming = {
+/** What the preview benchmark reads back from the page (bench/planner.ts prints it). */
+export type PreviewTiming = {
   workers: number;
   changes: number;
   /** ms from the last keystroke of a change to the finished curve (debounce included) */

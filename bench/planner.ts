@@ -4,6 +4,7 @@
 // no server is needed. Skips with a message when Chromium or the bundler is missing.
 import { existsSync } from 'node:fs';
 import path from 'node:path';
+import type { PreviewTiming } from './planner-page';
 
 const CHROMIUM = process.env.CHROMIUM_PATH || '/usr/bin/chromium';
 const BUDGET_MS = 16;
@@ -69,18 +70,6 @@ export async function runPlannerBench(): Promise<void> {
 const PREVIEW_CHANGES = 6;
 const PREVIEW_TARGET_MS = 1000;
 
-type PreviewTiming = {
-  workers: number;
-  changes: number;
-  toCurveMs: number[];
-  handlerMaxMs: number;
-  slowEvents: number;
-  slowestEventMs: number;
-  eventsPastAFrame: number;
-  worstDelayAndProcessingMs: number;
-  longTasks: number;
-  longestFrameGapMs: number;
-};
 type PreviewBench = { warmUp(): Promise<number>; nextCurve(): Promise<number>; reset(): void; result(): PreviewTiming };
 
 /**
