@@ -1,8 +1,9 @@
 /** @type {import('next').NextConfig} */
 const nextConfig = {
   // The database driver and ORM load optional native pieces at run time, and the thread pool and job
-  // queue start their own worker files and Lua scripts from their package folders: bundling breaks that.
-  serverExternalPackages: ['sequelize', 'mariadb', '@resvg/resvg-js', 'smtp-server', 'mailparser', 'nodemailer', 'piscina', 'bullmq', 'ioredis'],
+  // queue start their own worker files and Lua scripts from their package folders, and esbuild (which bundles
+  // the worker threads' engine) runs its own binary: bundling breaks that.
+  serverExternalPackages: ['sequelize', 'mariadb', '@resvg/resvg-js', 'smtp-server', 'mailparser', 'nodemailer', 'piscina', 'bullmq', 'ioredis', 'esbuild'],
   // Separate build folders let several servers of one checkout run side by side (e.g. NEXT_DIST_DIR=.next-dev).
   distDir: process.env.NEXT_DIST_DIR || '.next',
   poweredByHeader: false,

@@ -73,7 +73,8 @@ function run(runs: number): Timing[] {
 
 // ---- live power preview: a field change on the design page re-simulates S1's curve on a Web Worker ----
 
-type PreviewTiming = {
+/** What the preview benchmark reads back from the page (bench/planner.ts prints it). */
+export type PreviewTiming = {
   workers: number;
   changes: number;
   /** ms from the last keystroke of a change to the finished curve (debounce included) */
@@ -83,6 +84,10 @@ type PreviewTiming = {
   /** Event Timing entries (input to next paint) of 16 ms or more, and their longest */
   slowEvents: number;
   slowestEventMs: number;
+  /** of those, entries past one 60 Hz frame: over 16 ms (the API rounds durations to 8 ms, so 24 or more) */
+  eventsPastAFrame: number;
+  /** longest wait of an event for the page's thread plus its handlers' time (processingEnd − startTime), ms */
+  worstDelayAndProcessingMs: number;
   /** long tasks (over 50 ms) on the page's thread while previews ran */
   longTasks: number;
   /** longest gap between animation frames while previews ran, ms */
@@ -120,9 +125,14 @@ function previewSetup(workerUrl: string): void {
     lastInputAt = t0;
     handlerMs.push(performance.now() - t0);
   });
-  const events: number[] = [];
+  const events: Array<{ duration: number; delayAndProcessing: number }> = [];
   const longTasks: number[] = [];
-  new PerformanceObserver((list) => list.getEntries().forEach((e) => events.push(e.duration))).observe({ type: 'event', durationThreshold: 16 } as PerformanceObserverInit);
+  new PerformanceObserver((list) =>
+    list.getEntries().forEach((e) => {
+      const timing = e as PerformanceEventTiming;
+      events.push({ duration: timing.duration, delayAndProcessing: timing.processingEnd - timing.startTime });
+    }),
+  ).observe({ type: 'event', durationThreshold: 16 } as PerformanceObserverInit);
   new PerformanceObserver((list) => list.getEntries().forEach((e) => longTasks.push(e.duration))).observe({ type: 'longtask' });
   let frameGap = 0;
   let watching = false;
@@ -163,7 +173,9 @@ function previewSetup(workerUrl: string): void {
       toCurveMs: toCurve,
       handlerMaxMs: Math.max(0, ...handlerMs),
       slowEvents: events.length,
-      slowestEventMs: Math.max(0, ...events),
+      slowestEventMs: Math.max(0, ...events.map((e) => e.duration)),
+      eventsPastAFrame: events.filter((e) => e.duration > 16).length,
+      worstDelayAndProcessingMs: Math.max(0, ...events.map((e) => e.delayAndProcessing)),
       longTasks: longTasks.length,
       longestFrameGapMs: frameGap,
     }),

@@ -4,6 +4,7 @@
 // no server is needed. Skips with a message when Chromium or the bundler is missing.
 import { existsSync } from 'node:fs';
 import path from 'node:path';
+import type { PreviewTiming } from './planner-page';
 
 const CHROMIUM = process.env.CHROMIUM_PATH || '/usr/bin/chromium';
 const BUDGET_MS = 16;
@@ -69,7 +70,6 @@ export async function runPlannerBench(): Promise<void> {
 const PREVIEW_CHANGES = 6;
 const PREVIEW_TARGET_MS = 1000;
 
-type PreviewTiming = { workers: number; changes: number; toCurveMs: number[]; handlerMaxMs: number; slowEvents: number; slowestEventMs: number; longTasks: number; longestFrameGapMs: number };
 type PreviewBench = { warmUp(): Promise<number>; nextCurve(): Promise<number>; reset(): void; result(): PreviewTiming };
 
 /**
@@ -79,6 +79,11 @@ type PreviewBench = { warmUp(): Promise<number>; nextCurve(): Promise<number>; r
  * times with real key presses; each change is timed from its last keystroke to the finished curve,
  * debounce included, while the page's thread is watched: its input handler's time, Event Timing
  * entries of 16 ms or more (input to next paint), long tasks and the longest gap between frames.
+ * Input handling is within the 16 ms frame budget when the handler and every event's wait for the
+ * page's thread plus its handlers stay under 16 ms, no event reaches its paint later than the next
+ * 60 Hz frame (Event Timing rounds durations to 8 ms: an entry of 16 ms lies between 12 and 20 ms,
+ * which a keystroke that only waits for the next frame's paint can reach; 24 ms or more is a missed
+ * frame), and no long task runs.
  */
 async function previewBench(page: import('playwright-core').Page, workerBundle: string): Promise<void> {
   await page.evaluate((code) => {
@@ -101,10 +106,11 @@ async function previewBench(page: import('playwright-core').Page, workerBundle: 
     `  design page, live power preview of S1 (400 replications, N = 20…200, McNemar) on ${t.workers} Web Worker${t.workers > 1 ? 's' : ''}: first preview ${first.toFixed(0)} ms; ` +
       `after a typed change median ${median.toFixed(0)} ms, worst ${worst.toFixed(0)} ms over ${t.changes} changes (200 ms debounce included) — ${worst <= PREVIEW_TARGET_MS ? 'within' : 'OVER'} the ${PREVIEW_TARGET_MS} ms target`,
   );
-  const handling = t.handlerMaxMs < BUDGET_MS && t.slowEvents === 0 && t.longTasks === 0;
+  const handling = t.handlerMaxMs < BUDGET_MS && t.worstDelayAndProcessingMs < BUDGET_MS && t.eventsPastAFrame === 0 && t.longTasks === 0;
   console.log(
-    `    page thread while typing and simulating: input handler at most ${t.handlerMaxMs.toFixed(2)} ms, ${t.slowEvents} input events of 16 ms or more to the next paint` +
-      `${t.slowEvents ? ` (slowest ${t.slowestEventMs.toFixed(0)} ms)` : ''}, ${t.longTasks} long tasks, longest gap between frames ${t.longestFrameGapMs.toFixed(0)} ms — input handling ${handling ? 'within' : 'OVER'} the ${BUDGET_MS} ms frame budget`,
+    `    page thread while typing and simulating: input handler at most ${t.handlerMaxMs.toFixed(2)} ms; ${t.slowEvents} input events of 16 ms or more to the next paint` +
+      `${t.slowEvents ? ` (slowest ${t.slowestEventMs.toFixed(0)} ms; ${t.eventsPastAFrame} past the next frame; longest wait for the page's thread plus handling ${t.worstDelayAndProcessingMs.toFixed(1)} ms)` : ''}` +
+      `; ${t.longTasks} long tasks; longest gap between frames ${t.longestFrameGapMs.toFixed(0)} ms — input handling ${handling ? 'within' : 'OVER'} the ${BUDGET_MS} ms frame budget`,
   );
 }
 

@@ -1,4 +1,4 @@
-import type { Sequelize } from 'sequelize';
+import type { Sequelize, Transaction } from 'sequelize';
 import { contentHash } from '../../lib/shared/canonical-json';
 import { serveParticipant } from '../../lib/design';
 import { bankFor } from '../../lib/shared/item-bank-plan';
@@ -37,23 +37,39 @@ export async function seed(sequelize: Sequelize): Promise<void> {
       }
       responses['check-calibration'] = 'sooner';
       const served = serveParticipant(version.content, bank, { participantId: person.participantId, responses, locate });
-      const servedAt = new Date();
-      await Participant.create(
-        {
-          studyId: version.studyId,
-          designVersionId: version.id,
-          participantId: person.participantId,
-          responsesHash: contentHash(responses),
-          responses,
-          result: { ...served, designHash: version.hash, servedAt: servedAt.toISOString() },
-          flag: served.flag,
-          source: 'batch',
-          apiKeyId: null,
-          servedBy: operator.id,
-          createdAt: servedAt,
-        },
-        { transaction },
-      );
+      await recordBatchParticipant({ version, participantId: person.participantId, responses, served, servedBy: operator.id, servedAt: new Date(), transaction });
     }
   });
+}
+
+/**
+ * Stores a demo participant served from calibration answers uploaded as a batch by an operator,
+ * as the batch upload stores one (the item-bank and results demos both use it).
+ */
+export function recordBatchParticipant(row: {
+  version: DesignVersion;
+  participantId: string;
+  responses: Record<string, string>;
+  served: ReturnType<typeof serveParticipant>;
+  servedBy: number;
+  servedAt: Date;
+  transaction: Transaction;
+}): Promise<Participant> {
+  const { version, participantId, responses, served, servedAt, transaction } = row;
+  return Participant.create(
+    {
+      studyId: version.studyId,
+      designVersionId: version.id,
+      participantId,
+      responsesHash: contentHash(responses),
+      responses,
+      result: { ...served, designHash: version.hash, servedAt: servedAt.toISOString() },
+      flag: served.flag,
+      source: 'batch',
+      apiKeyId: null,
+      servedBy: row.servedBy,
+      createdAt: servedAt,
+    },
+    { transaction },
+  );
 }

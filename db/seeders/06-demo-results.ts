@@ -1,5 +1,4 @@
 import type { Sequelize } from 'sequelize';
-import { contentHash } from '../../lib/shared/canonical-json';
 import { analyseStudy, ANALYSIS_ENGINE_VERSION, choiceProbability, designChoiceModel, createRandom, discountFactor, priorPoints, resultsParagraph, serveParticipant, type BankItem, type ParticipantData } from '../../lib/design';
 import { bankFor } from '../../lib/shared/item-bank-plan';
 import { participantData, type StoredAnswer } from '../../lib/shared/results/participant-data';
@@ -7,9 +6,10 @@ import { storeAnalysis } from '../../lib/shared/results/stored-analysis';
 import { DEFAULT_EXCLUSIONS } from '../../lib/shared/validations/analysis';
 import type { FrozenDesign } from '../../lib/shared/validations/planner';
 import packageJson from '../../package.json';
-import { Analysis, DesignVersion, Membership, Participant, ParticipantSession, Stage2Answer, Study, User } from '../models';
+import { Analysis, DesignVersion, Membership, ParticipantSession, Stage2Answer, Study, User } from '../models';
 import { demoAccounts } from './demo-accounts.mjs';
 import { DEMO_STUDY_NAME } from './01-demo-team';
+import { recordBatchParticipant } from './03-demo-item-bank';
 
 // An invented completed dataset for the fictional Harbourlight Decision Lab: 36 participants
 // whose choices follow a hyperboloid with delay sensitivity 0.7 (the design assumed the
@@ -57,22 +57,7 @@ export async function seed(sequelize: Sequelize): Promise<void> {
       responses['check-calibration'] = i === 7 || i === 23 ? 'later' : 'sooner';
       const served = serveParticipant(content, bank, { participantId, responses, locate });
       const servedAt = new Date(Date.UTC(2026, 10, 2, 9, 0) + i * 37 * 60_000);
-      const row = await Participant.create(
-        {
-          studyId: version.studyId,
-          designVersionId: version.id,
-          participantId,
-          responsesHash: contentHash(responses),
-          responses,
-          result: { ...served, designHash: version.hash, servedAt: servedAt.toISOString() },
-          flag: served.flag,
-          source: 'batch',
-          apiKeyId: null,
-          servedBy: operator.id,
-          createdAt: servedAt,
-        },
-        { transaction },
-      );
+      const row = await recordBatchParticipant({ version, participantId, responses, served, servedBy: operator.id, servedAt, transaction });
       const answered = i === 30 ? served.items.slice(0, Math.floor(served.items.length / 2)) : served.items;
       const answers = new Map<string, StoredAnswer>();
       for (const item of answered) {

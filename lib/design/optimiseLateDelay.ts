@@ -132,13 +132,28 @@ export function solveRange(
         if (!(di !== 0 && exponentialOptimum(xi, di, ki, Ki, o, i))) empty(o, i);
       }
       return;
-    case 'quasi-hyperbolic':
+    case 'quasi-hyperbolic': {
+      // ln β is one number for the whole batch; ln x, which the emptiness test needs for every
+      // element, is taken again only when the ratio changes (callers batch one ratio over many
+      // rate pairs): the same doubles as the single solve, with fewer library calls
+      const lnBeta = Math.log(beta);
+      let lastRatio = NaN;
+      let lnR = NaN;
       for (let i = 0; i < n; i++) {
         const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
         if (!(xi > 0 && xi < 1 && di >= 0 && di < Infinity && ki > 0 && ki < Infinity && Ki > 0 && Ki < Infinity)) fail(i);
-        if (!(di !== 0 && presentBiasOptimum(xi, di, ki, Ki, beta, o, i))) empty(o, i);
+        if (di === 0) {
+          empty(o, i);
+          continue;
+        }
+        if (xi !== lastRatio) {
+          lastRatio = xi;
+          lnR = -Math.log(xi);
+        }
+        if (!presentBiasInto(lnR, lnBeta, xi, di, ki, Ki, beta, o, i)) empty(o, i);
       }
       return;
+    }
     default:
       for (let i = 0; i < n; i++) {
         const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
@@ -208,8 +223,11 @@ function exponentialOptimum(x: number, d: number, k: number, K: number, o: Optim
 }
 
 function presentBiasOptimum(x: number, d: number, k: number, K: number, beta: number, o: OptimumArrays, i: number): boolean {
-  const lnR = -Math.log(x);
-  const lnBeta = Math.log(beta);
+  return presentBiasInto(-Math.log(x), Math.log(beta), x, d, k, K, beta, o, i);
+}
+
+/** presentBiasOptimum given lnR = −ln x and ln β, which the batch takes once per ratio and once per batch. */
+function presentBiasInto(lnR: number, lnBeta: number, x: number, d: number, k: number, K: number, beta: number, o: OptimumArrays, i: number): boolean {
   const a = Math.max(0, lnBeta + lnR);
   // zone width is (k·d + ln r − a − K·d)/K; its sign is tested on the rates (as in reversalZone), not on rounded bounds
   const span = a > 0 ? k * d - lnBeta : k * d + lnR;

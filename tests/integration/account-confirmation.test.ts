@@ -2,7 +2,7 @@
 // invitation is accepted by address only once the address is confirmed by a mailed single-use link,
 // and sign-up answers the same for a known and an unknown address.
 import { randomUUID } from 'node:crypto';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { POST as confirmRoute } from '@/app/api/email-confirmation/route';
 import { POST as resendRoute } from '@/app/api/email-confirmation/resend/route';
 import { POST as acceptRoute } from '@/app/api/invitations/accept/route';
@@ -15,20 +15,10 @@ import { verifyCredentials } from '@/lib/server/auth/credentials';
 import { PEER_HEADER, setPeerHeaderStamped } from '@/lib/server/auth/client-address';
 import { hashToken } from '@/lib/server/auth/tokens';
 import { ctx, makeStudyWithTeam, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
-import { linkIn, startTestMailbox, tokenOf, type TestMailbox } from '../support/mail';
+import { linkIn, mailboxOfFile, tokenOf } from '../support/mail';
 
-let mailbox: TestMailbox;
-const savedBase = process.env.NEXTAUTH_URL;
-beforeAll(async () => {
-  process.env.NEXTAUTH_URL = 'http://127.0.0.1:3997';
-  mailbox = await startTestMailbox();
-  await migrateUp();
-});
-afterAll(async () => {
-  await mailbox.stop();
-  if (savedBase === undefined) delete process.env.NEXTAUTH_URL;
-  else process.env.NEXTAUTH_URL = savedBase;
-});
+const mailbox = mailboxOfFile({ linkBase: 'http://127.0.0.1:3997' });
+beforeAll(migrateUp);
 
 const fresh = (label: string) => `${label}-${randomUUID().slice(0, 8)}@accounts.example.org`;
 

@@ -1,7 +1,7 @@
 // The whole invitation flow through the real fake SMTP server and the real MariaDB: the message
 // arrives, its link works exactly once, and the new member gets the invited role.
 import { randomUUID } from 'node:crypto';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { GET as listInvitationsRoute, POST as inviteRoute } from '@/app/api/studies/[id]/invitations/route';
 import { DELETE as revokeRoute } from '@/app/api/studies/[id]/invitations/[invitationId]/route';
 import { POST as resendRoute } from '@/app/api/studies/[id]/invitations/[invitationId]/resend/route';
@@ -13,20 +13,10 @@ import { AuditEvent, Invitation, Membership, User } from '@/db/models';
 import { hashToken } from '@/lib/server/auth/tokens';
 import { inspectInvitation } from '@/lib/server/services/invitations';
 import { ctx, makeStudyWithTeam, makeUser, migrateUp, requestAs, type TestUser } from '../support/integration';
-import { linkIn, startTestMailbox, tokenOf, type TestMailbox } from '../support/mail';
+import { linkIn, mailboxOfFile, tokenOf } from '../support/mail';
 
-let mailbox: TestMailbox;
-const savedBase = process.env.NEXTAUTH_URL;
-beforeAll(async () => {
-  process.env.NEXTAUTH_URL = 'http://127.0.0.1:3999';
-  mailbox = await startTestMailbox();
-  await migrateUp();
-});
-afterAll(async () => {
-  await mailbox.stop();
-  if (savedBase === undefined) delete process.env.NEXTAUTH_URL;
-  else process.env.NEXTAUTH_URL = savedBase;
-});
+const mailbox = mailboxOfFile({ linkBase: 'http://127.0.0.1:3999' });
+beforeAll(migrateUp);
 
 const freshAddress = (label: string) => `${label}-${randomUUID().slice(0, 8)}@invitees.example.org`;
 

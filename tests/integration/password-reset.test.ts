@@ -1,6 +1,6 @@
 // Password reset by e-mail through the real fake SMTP server: the same answer for known and unknown
 // addresses, a hashed single-use token that expires, and the new password working at sign-in.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { POST as requestRoute } from '@/app/api/password-reset/route';
 import { POST as completeRoute } from '@/app/api/password-reset/complete/route';
 import { GET as listStudiesRoute } from '@/app/api/studies/route';
@@ -9,20 +9,10 @@ import { verifyCredentials } from '@/lib/server/auth/credentials';
 import { hashToken } from '@/lib/server/auth/tokens';
 import { inspectResetToken } from '@/lib/server/services/password-reset';
 import { ctx, makeUser, migrateUp, requestAs } from '../support/integration';
-import { linkIn, startTestMailbox, tokenOf, type TestMailbox } from '../support/mail';
+import { linkIn, mailboxOfFile, tokenOf } from '../support/mail';
 
-let mailbox: TestMailbox;
-const savedBase = process.env.NEXTAUTH_URL;
-beforeAll(async () => {
-  process.env.NEXTAUTH_URL = 'http://127.0.0.1:3998';
-  mailbox = await startTestMailbox();
-  await migrateUp();
-});
-afterAll(async () => {
-  await mailbox.stop();
-  if (savedBase === undefined) delete process.env.NEXTAUTH_URL;
-  else process.env.NEXTAUTH_URL = savedBase;
-});
+const mailbox = mailboxOfFile({ linkBase: 'http://127.0.0.1:3998' });
+beforeAll(migrateUp);
 
 async function ask(email: string) {
   const response = await requestRoute(await requestAs(null, 'POST', '/api/password-reset', { json: { email } }), ctx({}));

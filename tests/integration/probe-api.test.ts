@@ -177,6 +177,10 @@ describe('the probe-items API', () => {
     const text = JSON.stringify(doc.paths);
     const answers = (doc.paths['/api/v1/studies/{id}/stage2-answers'] as { post: { responses: Record<string, unknown>; requestBody: { content: { 'application/json': { example: unknown } } } } }).post;
     expect(Object.keys(answers.responses).sort()).toEqual(['200', '400', '401', '403', '404', '409', '413', '422', '429', '503']);
+    // the probe endpoint reads a body too: its replies are the same set, each error with an example message
+    const probe = (doc.paths['/api/v1/studies/{id}/probe-items'] as { post: { responses: Record<string, { content?: { 'application/json': { example?: { error: string } } } }> } }).post;
+    expect(Object.keys(probe.responses).sort()).toEqual(Object.keys(answers.responses).sort());
+    for (const [status, reply] of Object.entries(probe.responses)) if (status !== '200') expect(reply.content?.['application/json'].example?.error, status).toMatch(/\w/);
     expect(answers.requestBody.content['application/json'].example).toBeDefined();
     expect(text).toContain('length varies');
   });

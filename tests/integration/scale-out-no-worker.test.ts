@@ -1,57 +1,33 @@
 // Power runs with REDIS_URL set but no queue worker listening. A run started with none computes in
 // the web process (as an analysis's refits do) and says so; a run whose workers all leave mid-run
 // says it waits for a queue worker, and continues with the same tallies once one listens again.
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { GET as getRun } from '@/app/api/studies/[id]/power-runs/[runId]/route';
 import { GET as listRuns, POST as startRun } from '@/app/api/studies/[id]/power-runs/route';
-import { Design, DesignVersion, PriorSet } from '@/db/models';
-import { contentHash } from '@/lib/shared/canonical-json';
 import { buildScenario } from '@/lib/shared/power-scenario';
 import { RAN_IN_PROCESS_MESSAGE, WAITING_FOR_WORKER_MESSAGE } from '@/lib/shared/power-queue';
-import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import { runScenario } from '@/lib/server/jobs/power/run-scenario';
-import { closeSharedRedis } from '@/lib/server/redis';
-import { POWER_PRIOR, powerDesign } from '../support/frozen-design';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs, type TestUser } from '../support/integration';
-import { startQueueWorker, testRedisUrl, type Child } from '../support/processes';
+import { freezeQueuedDesign, queueWorkersOfFile, QUEUED_DESIGN, QUEUED_RUN } from '../support/power-queue';
+import { startQueueWorker } from '../support/processes';
 
-const content: FrozenDesign = powerDesign({ lateDelayLimit: 3650, calibration: { itemsPerMagnitude: 10, minDelay: 1, maxDelay: 365 } });
-const spec = {
-  label: 'As the design assumes',
-  truth: { model: { id: 'hyperbolic' as const }, prior: POWER_PRIOR, gamma: 10, lapse: 0.02 },
-  calibration: 'simulated' as const,
-  test: { kind: 'mcnemar' as const, alpha: 0.05, alternative: 'greater' as const },
-  sampleSizes: [5, 10, 20, 40],
-  seed: 11,
-};
+const content = QUEUED_DESIGN;
+const spec = { ...QUEUED_RUN, seed: 11 };
 
 type RunDto = { id: number; status: string; completed: number; message: string | null; result: { summary: { points: Array<{ rejections: number }> } } | null };
-let workers: Child[] = [];
+const workers = queueWorkersOfFile();
 let studyId: number;
 let versionId: number;
 let editor: TestUser;
 let viewer: TestUser;
 
 beforeAll(async () => {
-  process.env.REDIS_URL = testRedisUrl();
   await migrateUp();
   const { study, team } = await makeStudyWithTeam('Power runs without a queue worker');
   studyId = study.id;
   editor = team.editor;
   viewer = team.viewer;
-  const priorSet = await PriorSet.create({ studyId: study.id, name: 'Pilot prior', values: POWER_PRIOR, source: 'manual', notes: '', createdBy: team.owner.id });
-  const designSpec = { ...content.spec, priorSetId: priorSet.id };
-  const design = await Design.create({ studyId: study.id, name: designSpec.name, spec: designSpec, createdBy: team.owner.id });
-  const frozen = { spec: designSpec, prior: content.prior };
-  versionId = (await DesignVersion.create({ designId: design.id, studyId: study.id, number: 1, hash: contentHash(frozen), content: frozen, frozenBy: team.owner.id })).id;
-});
-afterEach(async () => {
-  await Promise.all(workers.map((w) => w.stop()));
-  workers = [];
-});
-afterAll(async () => {
-  delete process.env.REDIS_URL;
-  await closeSharedRedis();
+  versionId = (await freezeQueuedDesign(study.id, team.owner.id)).id;
 });
 
 async function start(replications: number): Promise<number> {
@@ -93,7 +69,7 @@ describe('power runs on the shared queue without a queue worker', () => {
   }, 90_000);
 
   it('says it waits for a queue worker when its only worker leaves mid-run, and finishes with the same tallies once one listens again', async () => {
-    workers = [await startQueueWorker()];
+    workers.push(await startQueueWorker());
     const runId = await start(2000);
     await workers[0].waitFor(/power chunk \d+ of \S+ done/);
     workers[0].process.kill('SIGKILL');

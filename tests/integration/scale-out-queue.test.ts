@@ -1,15 +1,13 @@
 // Power runs over the shared queue (REDIS_URL): worker processes of their own take the chunks, and
 // the outcome must be exactly the in-process run's for the same seed (tallies are whole-number
 // counts merged in chunk order, so any other outcome means a chunk was lost or counted twice).
-import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { Queue } from 'bullmq';
 import { Redis } from 'ioredis';
 import { GET as getRun } from '@/app/api/studies/[id]/power-runs/[runId]/route';
 import { POST as startRun } from '@/app/api/studies/[id]/power-runs/route';
-import { AuditEvent, Design, DesignVersion, PriorSet } from '@/db/models';
-import { contentHash } from '@/lib/shared/canonical-json';
+import { AuditEvent } from '@/db/models';
 import { buildScenario } from '@/lib/shared/power-scenario';
-import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import type { PowerScenario } from '@/lib/design/power/types';
 import { runScenario } from '@/lib/server/jobs/power/run-scenario';
 import { runRefitsOnQueue } from '@/lib/server/jobs/analysis/queue';
@@ -17,37 +15,19 @@ import { refitParticipant, simulateStudy } from '@/lib/design';
 import { design as refitDesign, truth as refitTruth } from '../unit/analysis/support';
 import { runScenariosOnQueue } from '@/lib/server/jobs/power/queue';
 import { QUEUES } from '@/lib/server/jobs/chunk-queue';
-import { closeSharedRedis } from '@/lib/server/redis';
-import { POWER_PRIOR, powerDesign } from '../support/frozen-design';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
+import { freezeQueuedDesign, queueWorkersOfFile, QUEUED_DESIGN, QUEUED_RUN } from '../support/power-queue';
 import { startQueueWorker, testRedisUrl, type Child } from '../support/processes';
 
-const content: FrozenDesign = powerDesign({ lateDelayLimit: 3650, calibration: { itemsPerMagnitude: 10, minDelay: 1, maxDelay: 365 } });
-const spec = {
-  label: 'As the design assumes',
-  truth: { model: { id: 'hyperbolic' as const }, prior: POWER_PRIOR, gamma: 10, lapse: 0.02 },
-  calibration: 'simulated' as const,
-  test: { kind: 'mcnemar' as const, alpha: 0.05, alternative: 'greater' as const },
-  sampleSizes: [5, 10, 20, 40],
-  replications: 240,
-  seed: 7,
-};
+const content = QUEUED_DESIGN;
+const spec = { ...QUEUED_RUN, replications: 240, seed: 7 };
 const scenario: PowerScenario = buildScenario({ ...spec, designVersionId: 1 } as never, content);
 
-let workers: Child[] = [];
+const workers = queueWorkersOfFile();
 let inProcess: Awaited<ReturnType<typeof runScenario>>;
 
 beforeAll(async () => {
-  process.env.REDIS_URL = testRedisUrl();
   inProcess = await runScenario(scenario, { workers: 1 });
-});
-afterEach(async () => {
-  await Promise.all(workers.map((w) => w.stop()));
-  workers = [];
-});
-afterAll(async () => {
-  delete process.env.REDIS_URL;
-  await closeSharedRedis();
 });
 
 /** The chunks a worker finished, by its own log. */
@@ -57,7 +37,7 @@ function chunksDone(worker: Child): number[] {
 
 describe('power runs on the shared queue', () => {
   it('give exactly the tallies of a single in-process run when two worker processes share the chunks', async () => {
-    workers = await Promise.all([startQueueWorker(), startQueueWorker()]);
+    workers.push(...(await Promise.all([startQueueWorker(), startQueueWorker()])));
     const progress: number[] = [];
     const outcome = await runScenariosOnQueue([scenario], { chunkSize: 10, onProgress: (n) => void progress.push(n) });
     expect(outcome![0]).toEqual(inProcess);
@@ -70,7 +50,7 @@ describe('power runs on the shared queue', () => {
   }, 120_000);
 
   it('completes with the same tallies when a worker process is killed mid-chunk: another takes its chunk over', async () => {
-    workers = await Promise.all([startQueueWorker(), startQueueWorker()]);
+    workers.push(...(await Promise.all([startQueueWorker(), startQueueWorker()])));
     const [doomed, survivor] = workers;
     const run = runScenariosOnQueue([scenario], { chunkSize: 20 });
     // killed outright (no chance to finish or give the chunk back) while it holds a chunk
@@ -83,7 +63,7 @@ describe('power runs on the shared queue', () => {
   }, 120_000);
 
   it('cancels on every worker: chunks in hand stop, chunks waiting are dropped', async () => {
-    workers = await Promise.all([startQueueWorker(), startQueueWorker()]);
+    workers.push(...(await Promise.all([startQueueWorker(), startQueueWorker()])));
     let stop = false;
     // 2,000 chunks: cancelled after 40 replicates, so however fast the machine, most are never run
     const big = { ...scenario, replications: 20_000 };
@@ -107,13 +87,9 @@ describe('power runs on the shared queue', () => {
 
   it('runs a power run started in the app on the queue, with its progress, result and audit as in process', async () => {
     await migrateUp();
-    workers = await Promise.all([startQueueWorker(), startQueueWorker()]);
+    workers.push(...(await Promise.all([startQueueWorker(), startQueueWorker()])));
     const { study, team } = await makeStudyWithTeam('Queued power run');
-    const priorSet = await PriorSet.create({ studyId: study.id, name: 'Pilot prior', values: POWER_PRIOR, source: 'manual', notes: '', createdBy: team.owner.id });
-    const designSpec = { ...content.spec, priorSetId: priorSet.id };
-    const design = await Design.create({ studyId: study.id, name: designSpec.name, spec: designSpec, createdBy: team.owner.id });
-    const frozen = { spec: designSpec, prior: content.prior };
-    const version = await DesignVersion.create({ designId: design.id, studyId: study.id, number: 1, hash: contentHash(frozen), content: frozen, frozenBy: team.owner.id });
+    const version = await freezeQueuedDesign(study.id, team.owner.id);
     const response = await startRun(await requestAs(team.editor, 'POST', `/api/studies/${study.id}/power-runs`, { json: { ...spec, designVersionId: version.id } }), ctx({ id: String(study.id) }));
     expect(response.status).toBe(202);
     const { run } = await response.json();
@@ -133,7 +109,7 @@ describe('power runs on the shared queue', () => {
   }, 150_000);
 
   it('refits participants on two worker processes exactly as one by one, in their order', async () => {
-    workers = await Promise.all([startQueueWorker(), startQueueWorker()]);
+    workers.push(...(await Promise.all([startQueueWorker(), startQueueWorker()])));
     const data = simulateStudy({ design: refitDesign(), truth: refitTruth({ id: 'hyperbolic' }, 10), participants: 60, seed: 12 });
     const options = { model: { id: 'hyperbolic' as const }, choice: { sensitivity: 10 }, confidence: 0.95 };
     const queued = await runRefitsOnQueue(data, options);

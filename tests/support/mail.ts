@@ -3,6 +3,7 @@
 import { mkdtemp, rm } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
+import { afterAll, beforeAll } from 'vitest';
 import { startFakeSmtp } from '@/scripts/fake-smtp.mjs';
 import { listMailbox, type MailboxMessage } from '@/lib/server/mail/mailbox';
 
@@ -58,4 +59,37 @@ export function linkIn(message: MailboxMessage, prefix: string): URL {
 /** The token at the end of a link such as /invitations/<token>. */
 export function tokenOf(url: URL): string {
   return url.pathname.split('/').filter(Boolean).pop()!;
+}
+
+/**
+ * The test mailbox of one test file: started before the file's tests (with NEXTAUTH_URL set to
+ * `linkBase`, the origin the mailed links point at, when given) and stopped after them, NEXTAUTH_URL
+ * restored. Its methods may be used inside the tests (not at the top level of the file).
+ */
+export function mailboxOfFile(options: { linkBase?: string } = {}): Omit<TestMailbox, 'stop'> {
+  let box: TestMailbox | null = null;
+  const saved = process.env.NEXTAUTH_URL;
+  beforeAll(async () => {
+    if (options.linkBase) process.env.NEXTAUTH_URL = options.linkBase;
+    box = await startTestMailbox();
+  });
+  afterAll(async () => {
+    await box?.stop();
+    if (saved === undefined) delete process.env.NEXTAUTH_URL;
+    else process.env.NEXTAUTH_URL = saved;
+  });
+  const started = (): TestMailbox => {
+    if (!box) throw new Error('the test mailbox starts before the first test');
+    return box;
+  };
+  return {
+    get url() {
+      return started().url;
+    },
+    get dir() {
+      return started().dir;
+    },
+    waitFor: (match, timeoutMs) => started().waitFor(match, timeoutMs),
+    all: () => started().all(),
+  };
 }

@@ -1,3 +1,4 @@
+import { errorReplies, preflight, sessionTokenHeader, studyIdParameter } from '@/lib/server/http/openapi-replies';
 import { SESSION_TAG_TEXT, sessionPaths, sessionSchemas } from '@/lib/server/http/session-openapi';
 
 /**
@@ -5,7 +6,6 @@ import { SESSION_TAG_TEXT, sessionPaths, sessionSchemas } from '@/lib/server/htt
  * Schemas mirror lib/shared/validations/item-bank.ts (request) and lib/design/item-bank (items).
  */
 export function probeApiDocument(serverUrl: string) {
-  const error = { type: 'object', required: ['error'], properties: { error: { type: 'string' }, issues: { type: 'array', items: { $ref: '#/components/schemas/Issue' } } } };
   const rate = {
     type: 'object',
     required: ['rate', 'standardErrorLog', 'interval', 'flags'],
@@ -43,10 +43,7 @@ export function probeApiDocument(serverUrl: string) {
             'anchor pairs that do not fit (no room below the zone, or beyond the design\'s late-delay limit) are left out; flagged participants get the ' +
             'fallback set, whose length is the bank\'s. Use the items array as given. ' +
             'Browsers: CORS headers on every reply for the key\'s listed origins; a browser key sends the participant\'s session token (X-Session-Token).',
-          parameters: [
-            { name: 'id', in: 'path', required: true, schema: { type: 'integer' }, description: 'study id' },
-            { name: 'X-Session-Token', in: 'header', required: false, schema: { type: 'string' }, description: 'browser keys only: the participant\'s session token' },
-          ],
+          parameters: [studyIdParameter, sessionTokenHeader],
           requestBody: {
             required: true,
             content: {
@@ -71,15 +68,16 @@ export function probeApiDocument(serverUrl: string) {
           },
           responses: {
             '200': { description: 'the participant\'s items', content: { 'application/json': { schema: { $ref: '#/components/schemas/ProbeItems' } } } },
-            '401': { description: 'missing, unknown or revoked key', content: { 'application/json': { schema: error } } },
-            '403': { description: 'browser key: origin not listed, or the participant\'s session token missing or wrong', content: { 'application/json': { schema: error } } },
-            '404': { description: 'the key belongs to another study', content: { 'application/json': { schema: error } } },
-            '409': { description: 'participant already served with different responses', content: { 'application/json': { schema: error } } },
-            '422': { description: 'unknown item ids, missing responses or invalid choices (issues name the items); an itemBankId other than the key\'s', content: { 'application/json': { schema: error } } },
-            '429': { description: 'rate limit', headers: { 'Retry-After': { schema: { type: 'integer' } } }, content: { 'application/json': { schema: error } } },
+            ...errorReplies(['400', '401', '403', '404', '409', '413', '422', '429', '503'], {
+              '409': { description: 'participant already served with different responses, or through another design version', example: 'Participant P-017 was already served with different calibration responses (or another design version); their items stay as served.' },
+              '422': {
+                description: 'unknown item ids, missing responses or invalid choices (issues name the items); an itemBankId other than the key\'s',
+                example: 'Some fields are invalid.',
+              },
+            }),
           },
         },
-        options: { operationId: 'probeItemsPreflight', summary: 'CORS preflight', parameters: [{ name: 'id', in: 'path', required: true, schema: { type: 'integer' } }], responses: { '204': { description: 'allowed methods and headers for a listed origin' } }, security: [] },
+        options: preflight('probeItemsPreflight'),
       },
       // Two-stage session endpoints (issue 13)
       ...sessionPaths(),

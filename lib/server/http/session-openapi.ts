@@ -1,17 +1,8 @@
 // The OpenAPI 3.1 description of the two-stage session endpoints (calibration block, stage-2
 // answers) and what they add to the probe-items endpoint; merged into the document served at
 // /api/v1/openapi.json by probeApiDocument. Schemas mirror lib/shared/validations/session.ts.
+import { errorReplies, preflight, sessionTokenHeader as token, studyIdParameter as id } from './openapi-replies';
 
-const error = { $ref: '#/components/schemas/Error' };
-const errorContent = (example: string) => ({ 'application/json': { schema: error, example: { error: example } } });
-const id = { name: 'id', in: 'path', required: true, schema: { type: 'integer' }, description: 'study id' };
-const token = {
-  name: 'X-Session-Token',
-  in: 'header',
-  required: false,
-  schema: { type: 'string' },
-  description: 'Browser keys only: the participant\'s session token, returned once by the calibration call that started their session. Server keys do not send it.',
-};
 const corsNote =
   'Browsers: every reply, errors and 429 included, carries Access-Control-Allow-Origin for the origins the key lists (Retry-After is exposed); ' +
   'the preflight (OPTIONS) is answered for origins listed by any active key of the study.';
@@ -62,20 +53,14 @@ export function sessionPaths() {
               },
             },
           },
-          '401': { description: 'missing, unknown or revoked key', content: errorContent('This API key is unknown or has been revoked.') },
-          '403': { description: 'a browser key without a listed Origin, or a key used from an origin it does not list', content: errorContent('This key may not be used from https://elsewhere.example; an operator can add the origin to the key\'s list.') },
-          '404': { description: 'the key belongs to another study', content: errorContent('Study not found.') },
-          '409': { description: 'browser key: this participant\'s session already started; resume with its token', content: errorContent("Participant P-017's session has already started; resume it with its session token (X-Session-Token).") },
-          '422': { description: 'bad query (names the parameter); a browser key without participantId', content: errorContent('Some fields are invalid.') },
-          '429': { description: 'rate limit of the key', headers: { 'Retry-After': { schema: { type: 'integer' } } }, content: errorContent('Too many requests for this key; retry in 2 s.') },
-          '503': {
-            description: 'the shared state store (Redis) of a multi-process server cannot be reached just now; nothing was recorded; retry after Retry-After',
-            headers: { 'Retry-After': { schema: { type: 'integer' } } },
-            content: errorContent('The shared state store (Redis) of this server cannot be reached just now; nothing was recorded. Retry shortly.'),
-          },
+          ...errorReplies(['401', '403', '404', '409', '422', '429', '503'], {
+            '403': { description: 'a browser key without a listed Origin, or a key used from an origin it does not list', example: 'This key may not be used from https://elsewhere.example; an operator can add the origin to the key\'s list.' },
+            '409': { description: 'browser key: this participant\'s session already started; resume with its token', example: "Participant P-017's session has already started; resume it with its session token (X-Session-Token)." },
+            '422': { description: 'bad query (names the parameter); a browser key without participantId', example: 'Some fields are invalid.' },
+          }),
         },
       },
-      options: { operationId: 'calibrationPreflight', summary: 'CORS preflight', parameters: [id], responses: { '204': { description: 'allowed methods and headers for a listed origin' } }, security: [] },
+      options: preflight('calibrationPreflight'),
     },
     '/api/v1/studies/{id}/stage2-answers': {
       post: {
@@ -142,22 +127,13 @@ export function sessionPaths() {
               },
             },
           },
-          '400': { description: 'the body is not JSON', content: errorContent('The request body is not valid JSON.') },
-          '401': { description: 'missing, unknown or revoked key', content: errorContent('This API key is unknown or has been revoked.') },
-          '403': { description: 'browser key: origin not listed, or the participant\'s session token missing or wrong', content: errorContent("Send participant P-017's session token (X-Session-Token, from the calibration reply that started the session).") },
-          '404': { description: 'the key belongs to another study', content: errorContent('Study not found.') },
-          '409': { description: 'an item already has a different answer (named); or the participant was served through another design version', content: errorContent('Participant P-017 already answered probe-1-far differently; the first answers stay.') },
-          '413': { description: 'body over 1 MB', content: errorContent('The request body is larger than 1 MB.') },
-          '422': { description: 'answers before the calibration answers (path participantId), items not served to this participant (path answers.N.itemId), invalid fields', content: errorContent('Stage-2 answers arrived before the calibration answers.') },
-          '429': { description: 'rate limit of the key', headers: { 'Retry-After': { schema: { type: 'integer' } } }, content: errorContent('Too many requests for this key; retry in 2 s.') },
-          '503': {
-            description: 'the shared state store (Redis) of a multi-process server cannot be reached just now; nothing was recorded; retry after Retry-After',
-            headers: { 'Retry-After': { schema: { type: 'integer' } } },
-            content: errorContent('The shared state store (Redis) of this server cannot be reached just now; nothing was recorded. Retry shortly.'),
-          },
+          ...errorReplies(['400', '401', '403', '404', '409', '413', '422', '429', '503'], {
+            '409': { description: 'an item already has a different answer (named); or the participant was served through another design version', example: 'Participant P-017 already answered probe-1-far differently; the first answers stay.' },
+            '422': { description: 'answers before the calibration answers (path participantId), items not served to this participant (path answers.N.itemId), invalid fields', example: 'Stage-2 answers arrived before the calibration answers.' },
+          }),
         },
       },
-      options: { operationId: 'stage2AnswersPreflight', summary: 'CORS preflight', parameters: [id], responses: { '204': { description: 'allowed methods and headers for a listed origin' } }, security: [] },
+      options: preflight('stage2AnswersPreflight'),
     },
     // Adaptive calibration (issue 17): the "next calibration item" step.
     '/api/v1/studies/{id}/calibration-next': {
@@ -221,22 +197,13 @@ export function sessionPaths() {
               },
             },
           },
-          '400': { description: 'the body is not JSON', content: errorContent('The request body is not valid JSON.') },
-          '401': { description: 'missing, unknown or revoked key', content: errorContent('This API key is unknown or has been revoked.') },
-          '403': { description: 'browser key: origin not listed, or the participant\'s session token missing or wrong', content: errorContent("Send participant P-017's session token (X-Session-Token, from the calibration reply that started the session).") },
-          '404': { description: 'the key belongs to another study', content: errorContent('Study not found.') },
-          '409': { description: 'the step was already answered differently, or the participant is calibrated with another design version', content: errorContent('Step 1 of participant P-017 was already answered (acal-small-07-11: later); the first answer is kept.') },
-          '413': { description: 'body over 1 MB', content: errorContent('The request body is larger than 1 MB.') },
-          '422': { description: 'the design is not adaptive (path calibration), a step beyond the answers stored + 1 (step), an answer to another item than the one returned (answer.itemId), an answer after the end (answer)', content: errorContent('Some fields are invalid.') },
-          '429': { description: 'rate limit of the key', headers: { 'Retry-After': { schema: { type: 'integer' } } }, content: errorContent('Too many requests for this key; retry in 2 s.') },
-          '503': {
-            description: 'the shared state store (Redis) of a multi-process server cannot be reached just now; nothing was recorded; retry after Retry-After',
-            headers: { 'Retry-After': { schema: { type: 'integer' } } },
-            content: errorContent('The shared state store (Redis) of this server cannot be reached just now; nothing was recorded. Retry shortly.'),
-          },
+          ...errorReplies(['400', '401', '403', '404', '409', '413', '422', '429', '503'], {
+            '409': { description: 'the step was already answered differently, or the participant is calibrated with another design version', example: 'Step 1 of participant P-017 was already answered (acal-small-07-11: later); the first answer is kept.' },
+            '422': { description: 'the design is not adaptive (path calibration), a step beyond the answers stored + 1 (step), an answer to another item than the one returned (answer.itemId), an answer after the end (answer)', example: 'Some fields are invalid.' },
+          }),
         },
       },
-      options: { operationId: 'calibrationNextPreflight', summary: 'CORS preflight', parameters: [id], responses: { '204': { description: 'allowed methods and headers for a listed origin' } }, security: [] },
+      options: preflight('calibrationNextPreflight'),
     },
     // Real rewards (issue 20)
     '/api/v1/studies/{id}/payment-details': {
@@ -262,18 +229,12 @@ export function sessionPaths() {
             description: 'stored',
             content: { 'application/json': { schema: { type: 'object', required: ['participantId', 'reward'], properties: { participantId: { type: 'string' }, reward: { oneOf: [{ $ref: '#/components/schemas/Reward' }, { type: 'null' }] } } } } },
           },
-          '401': { description: 'missing, unknown or revoked key', content: errorContent('This API key is unknown or has been revoked.') },
-          '403': { description: 'browser key: origin not listed, or the participant\'s session token missing or wrong', content: errorContent("Send participant P-017's session token (X-Session-Token, from the calibration reply that started the session).") },
-          '422': { description: 'invalid fields (path email, participantId)', content: errorContent('Some fields are invalid.') },
-          '429': { description: 'rate limit of the key', headers: { 'Retry-After': { schema: { type: 'integer' } } }, content: errorContent('Too many requests for this key; retry in 2 s.') },
-          '503': {
-            description: 'the shared state store (Redis) of a multi-process server cannot be reached just now; nothing was recorded; retry after Retry-After',
-            headers: { 'Retry-After': { schema: { type: 'integer' } } },
-            content: errorContent('The shared state store (Redis) of this server cannot be reached just now; nothing was recorded. Retry shortly.'),
-          },
+          ...errorReplies(['401', '403', '422', '429', '503'], {
+            '422': { description: 'invalid fields (path email, participantId)', example: 'Some fields are invalid.' },
+          }),
         },
       },
-      options: { operationId: 'paymentDetailsPreflight', summary: 'CORS preflight', parameters: [id], responses: { '204': { description: 'allowed methods and headers for a listed origin' } }, security: [] },
+      options: preflight('paymentDetailsPreflight'),
     },
   };
 }

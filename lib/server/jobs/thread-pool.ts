@@ -1,18 +1,22 @@
 import os from 'node:os';
-import path from 'node:path';
 import { Piscina } from 'piscina';
+import { workerFile, type ThreadJob } from './worker-bundle';
+
+// the task function each job's worker.ts exports
+const TASKS: Record<ThreadJob, string> = { power: 'runChunk', analysis: 'refitChunk' };
 
 /**
- * A pool of worker threads (piscina) running one of the job entries under lib/server/jobs: a plain
- * .mjs file that registers tsx in its thread and re-exports the TypeScript task function, so the
- * threads run the same engine source under next dev, next start, vitest and `npm run worker`.
- * The entry's path is joined at run time from the project root so no bundler follows it into tsx.
+ * A pool of worker threads (piscina) running one of the job tasks under lib/server/jobs: each
+ * thread loads the job's worker.ts bundled into plain JavaScript (workerFile), so the threads run
+ * the same engine source under next dev, next start, vitest and `npm run worker`.
  */
-export function createThreadPool<Task, Result>(job: 'power' | 'analysis', threads: number): Piscina<Task, Result> {
-  const filename = [process.cwd(), 'lib', 'server', 'jobs', job, 'worker-bootstrap.mjs'].join(path.sep);
+export async function createThreadPool<Task, Result>(job: ThreadJob, threads: number): Promise<Piscina<Task, Result>> {
+  const filename = await workerFile(job);
   // a whole number of threads from the start: a run hands out every chunk at once, and threads
   // that start later would only add start-up time
-  return new Piscina<Task, Result>({ filename, minThreads: threads, maxThreads: threads, idleTimeout: 60_000, concurrentTasksPerWorker: 1 });
+  // execArgv empty: the bundle is plain JavaScript, so a thread need not inherit a TypeScript
+  // loader the parent process was started with (tsx under `npm run worker` and the benchmarks)
+  return new Piscina<Task, Result>({ filename, name: TASKS[job], minThreads: threads, maxThreads: threads, idleTimeout: 60_000, concurrentTasksPerWorker: 1, execArgv: [] });
 }
 
 /** Threads by default: the setting if given, else the machine's available parallelism (at most 8). */

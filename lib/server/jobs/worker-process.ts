@@ -61,7 +61,7 @@ function processorFor(job: QueueJob, pool: Piscina) {
   };
 }
 
-const pools = (['power', 'analysis'] as const).map((job) => ({ job, pool: createThreadPool(job, threads) }));
+const pools = await Promise.all((['power', 'analysis'] as const).map(async (job) => ({ job, pool: await createThreadPool(job, threads) })));
 const workers = pools.map(
   ({ job, pool }) =>
     new Worker(QUEUES[job], processorFor(job, pool), {

@@ -50,6 +50,30 @@ describe('optimiseLateDelayBatch', () => {
     }
   }, 120_000);
 
+  it('gives exactly what optimiseLateDelay gives when ratios repeat in runs, as callers batch one ratio over many rate pairs', () => {
+    // the batch keeps ln x while the ratio repeats: runs of one ratio, each run starting at an empty
+    // zone or at d = 0 now and then, so a kept logarithm that outlives its ratio shows up here
+    const input = sweep(31, 3000);
+    const random = createRandom({ seed: 32 });
+    let ratio = 0.5;
+    for (let i = 0; i < input.ratio.length; i++) {
+      if (random.uniform() < 0.05) ratio = random.uniform() < 0.2 ? 1 - 1e-6 * random.uniform() : 0.02 + 0.96 * random.uniform();
+      input.ratio[i] = ratio;
+    }
+    for (const model of models) {
+      const out = optimiseLateDelayBatch(model, input);
+      let solved = 0;
+      for (let i = 0; i < input.ratio.length; i++) {
+        const one = optimiseLateDelay({ model, ratio: input.ratio[i], soonDelay: input.soonDelay[i], kSmall: input.kSmall[i], kLarge: input.kLarge[i] });
+        const got = [out.lower[i], out.upper[i], out.lateDelay[i], out.gapProduct[i]];
+        if (one !== null) solved++;
+        // toEqual compares with Object.is: the same double, to the last bit, or NaN in all four for an empty zone
+        expect(got, `${model.id} #${i}`).toEqual(one === null ? [NaN, NaN, NaN, NaN] : [one.lower, one.upper, one.lateDelay, one.gapProduct]);
+      }
+      expect(solved, model.id).toBeGreaterThan(300);
+    }
+  }, 120_000);
+
   it('writes into the arrays it is given and returns them, leaving elements past the inputs alone', () => {
     const input = sweep(5, 50);
     const out = { lower: new Float64Array(60).fill(-1), upper: new Float64Array(60), lateDelay: new Float64Array(60), gapProduct: new Float64Array(60) };

@@ -22,7 +22,7 @@ export async function runRefits(participants: readonly ParticipantData[], option
   for (let from = 0; from < participants.length; from += chunkSize) chunks.push([from, Math.min(participants.length, from + chunkSize)]);
   const out: ParticipantRefit[] = new Array(participants.length);
   if (chunks.length === 0) return out;
-  const pool = createThreadPool<RefitTask, ParticipantRefit[]>('analysis', count);
+  const pool = await createThreadPool<RefitTask, ParticipantRefit[]>('analysis', count);
   try {
     await Promise.all(
       chunks.map(async ([from, to]) => {

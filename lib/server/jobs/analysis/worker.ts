@@ -1,4 +1,4 @@
-// The refit task run in a worker thread (loaded through tsx by worker-bootstrap.mjs).
+// The refit task run in a worker thread (bundled into plain JavaScript by worker-bundle.ts).
 import { refitParticipant, type ParticipantData, type ParticipantRefit, type RefitOptions } from '../../../design';
 
 export type RefitTask = { participants: ParticipantData[]; options: RefitOptions };

@@ -78,7 +78,7 @@ export async function runScenarios(scenarios: readonly PowerScenario[], options:
   const chunks = splitIntoChunks(scenarios, options.chunkSize);
   if (options.shouldStop?.()) return null;
   const threads = Math.max(1, Math.min(options.workers ?? defaultWorkerCount(), chunks.length));
-  const pool = createThreadPool<ChunkTask, ChunkResult>('power', threads);
+  const pool = await createThreadPool<ChunkTask, ChunkResult>('power', threads);
   const key = randomUUID();
   const abort = new AbortController();
   setMaxListeners(chunks.length + 10, abort.signal); // every waiting chunk listens for the stop

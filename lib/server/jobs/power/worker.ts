@@ -1,4 +1,4 @@
-// The power task run in a worker thread (loaded through tsx by worker-bootstrap.mjs). A thread
+// The power task run in a worker thread (bundled into plain JavaScript by worker-bundle.ts). A thread
 // keeps one prepared simulator per scenario of the current run (assumed truth and stress truths),
 // so the calibration caches grow across the chunks the thread is given.
 import { createPowerSimulator, type PowerSimulator } from '../../../design/power/simulatePower';

@@ -1,0 +1,10 @@
+import { S1 } from './power';
+import { createPowerSimulator } from '@/lib/design/power/simulatePower';
+import { FastRateEstimator } from '@/lib/design/power/fastRateEstimate';
+let calls = 0;
+const orig = FastRateEstimator.prototype.estimate;
+FastRateEstimator.prototype.estimate = function (b) { calls++; return orig.call(this, b); };
+const [from, to, step] = process.argv.slice(2).map(Number);
+const sim = createPowerSimulator({ ...S1, replications: 20000 });
+for (let r = from; r < to; r += 250 * step) sim.run(r, Math.min(to, r + 250));
+console.log(from, to, step, 'estimates', calls);
