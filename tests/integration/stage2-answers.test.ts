@@ -55,6 +55,28 @@ describe('stage-2 answers', () => {
     expect(rows[0]).toMatchObject({ chosen: 'LL', responseMs: 1200, source: 'api' });
   });
 
+  it('completes the session when the last part of a block arrives on its own', async () => {
+    const all = answersFor(await s.serve('A-010'));
+    expect(await recordStage2Answers({ studyId: s.study.id, participantId: 'A-010', answers: all.slice(0, 2), source: 'api' })).toMatchObject({ status: 'served' });
+    expect((await ParticipantSession.findOne({ where: { studyId: s.study.id, participantId: 'A-010' } }))?.status).toBe('served');
+    const last = await recordStage2Answers({ studyId: s.study.id, participantId: 'A-010', answers: all.slice(2), source: 'api' });
+    expect(last).toMatchObject({ recorded: all.length - 2, answered: all.length, status: 'completed', unanswered: [] });
+    const session = await ParticipantSession.findOne({ where: { studyId: s.study.id, participantId: 'A-010' } });
+    expect(session?.status).toBe('completed');
+    expect(session?.completedAt).not.toBeNull();
+  });
+
+  it('refuses answers for a participant no longer on record (known to this process) and writes no session row for them', async () => {
+    const all = answersFor(await s.serve('A-011')); // serving tells this process what was served
+    const row = (await Participant.findOne({ where: { studyId: s.study.id, participantId: 'A-011' } }))!;
+    await row.destroy();
+    const error = await refusal(recordStage2Answers({ studyId: s.study.id, participantId: 'A-011', answers: all, source: 'api' }));
+    expect(error.status).toBe(422);
+    expect(error.message).toContain('unknown participant');
+    expect(await ParticipantSession.count({ where: { studyId: s.study.id, participantId: 'A-011' } })).toBe(0);
+    expect(await Stage2Answer.count({ where: { participantRef: row.id } })).toBe(0);
+  });
+
   it('is idempotent: the same answers again record nothing and are not an error', async () => {
     const reply = await s.serve('A-002');
     const all = answersFor(reply, 'SS');

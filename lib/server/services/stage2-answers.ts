@@ -52,9 +52,10 @@ const SELECT_SERVED = "SELECT id, design_version_id, JSON_EXTRACT(result, '$.ite
 // The version's real-rewards setting rides along (it can change at any time, so it is read, not cached).
 const SELECT_ANSWERS = 'SELECT item_id, chosen, EXISTS (SELECT 1 FROM reward_settings WHERE design_version_id = ? AND enabled) AS rewards FROM stage2_answers WHERE participant_ref = ?';
 // The session row reaches at least 'served'; 'completed' sticks once reached, whichever request finishes last.
+// Written only while the participant is on record (its row read by id, in the same statement).
 const UPSERT_SESSION = `INSERT INTO participant_sessions
   (study_id, design_version_id, participant_id, status, source, api_key_id, started_at, served_at, completed_at, last_activity_at)
-  VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)
+  SELECT ?, ?, ?, ?, ?, ?, ?, ?, ?, ? FROM participants WHERE id = ?
   ON DUPLICATE KEY UPDATE
     status = IF(status = 'completed' OR VALUES(status) = 'completed', 'completed', 'served'),
     served_at = COALESCE(served_at, VALUES(served_at)),
@@ -129,7 +130,14 @@ export async function recordStage2Answers(input: RecordAnswersInput): Promise<Re
   const at = sqlDate(now);
   // Sorted by item id, so parallel calls lock index entries in one order.
   const rows = [...byItem.values()].sort((a, b) => (a.itemId < b.itemId ? -1 : a.itemId > b.itemId ? 1 : 0));
-  // The insert and the read-back of what is stored in one round trip (rawPipeline), the read after the insert.
+  // One round trip: the insert, the read-back of what is stored, and the session row. A request that
+  // answers every served item completes the block whatever was stored before; any other is recorded as
+  // served, and marked completed by a second statement when the read-back shows the block complete.
+  const sessionRow = (status: 'served' | 'completed'): RawStatement => [
+    UPSERT_SESSION,
+    [input.studyId, served.designVersionId, input.participantId, status, input.source, input.apiKeyId ?? null, at, at, status === 'completed' ? at : null, at, served.ref],
+  ];
+  const completesBlock = served.itemIds.every((id) => byItem.has(id));
   const statements: RawStatement[] = [];
   if (rows.length) {
     const values: unknown[] = [];
@@ -140,22 +148,21 @@ export async function recordStage2Answers(input: RecordAnswersInput): Promise<Re
       values,
     ]);
   }
-  statements.push([SELECT_ANSWERS, [served.designVersionId, served.ref]]);
+  statements.push([SELECT_ANSWERS, [served.designVersionId, served.ref]], sessionRow(completesBlock ? 'completed' : 'served'));
   const outcomes = await rawPipeline(statements);
   const recorded = rows.length ? Number(settled(outcomes[0]).affectedRows ?? 0) : 0;
-  const storedRows = settled(outcomes[outcomes.length - 1]);
+  const storedRows = settled(outcomes[outcomes.length - 2]);
   const stored = new Map(storedRows.map((r) => [String(r.item_id), String(r.chosen)]));
   if (rows.some((a) => !stored.has(a.itemId))) {
     // IGNORE also skips a row whose participant vanished (its study was deleted) after it was cached.
     servedCache.delete(`${input.studyId}:${input.participantId}`);
     throw new ValidationError([{ path: 'participantId', message: `Participant ${input.participantId} is no longer on record.` }], 'Stage-2 answers arrived for an unknown participant.');
   }
+  settled(outcomes[outcomes.length - 1]);
   const changed = rows.filter((a) => stored.get(a.itemId) !== a.chosen);
   const unanswered = served.itemIds.filter((id) => !stored.has(id));
   const status = unanswered.length === 0 ? 'completed' : 'served';
-  await rawExecute(UPSERT_SESSION, [
-    input.studyId, served.designVersionId, input.participantId, status, input.source, input.apiKeyId ?? null, at, at, status === 'completed' ? at : null, at,
-  ]);
+  if (status === 'completed' && !completesBlock) await rawExecute(...sessionRow('completed'));
   if (changed.length) {
     throw new ConflictError(
       `Participant ${input.participantId} already answered ${changed.map((a) => a.itemId).join(', ')} differently; the first answers stay.` +
