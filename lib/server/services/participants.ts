@@ -6,7 +6,7 @@ import { ItemBankInputError, serveParticipant, type ServedItems } from '@/lib/de
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import { markApiKeyRevoked, RevokedKeyError, type CachedKey } from './api-keys';
 import { bankOrInvalid } from './item-bank';
-import { recordServedSession, servedSessionAfterInsert } from './session-tokens';
+import { servedSessionAfterInsert } from './session-tokens';
 import { rememberServedParticipant } from './stage2-answers';
 
 /** Who serves: a key (the probe-items API), an operator (a batch), or a participant on the session page. */
@@ -39,7 +39,7 @@ function sqlDate(date: Date): string {
  * responses for a participant already served → 409 and nothing changes. Concurrency relies on
  * the UNIQUE (study_id, participant_id) index: the insert is tried first, and a request that
  * loses the race reads the winner's record back (no application locks).
- * Served through a key, the participant's session row reaches `served` as well (recordServedSession).
+ * Served through a key, the participant's session row reaches `served` as well (servedSessionAfterInsert).
  */
 export async function serveProbeItemsJson(
   version: ServedVersion,
@@ -63,14 +63,17 @@ export async function serveProbeItemsJson(
   const json = JSON.stringify(reply);
   const row = [version.studyId, version.id, participantId, responsesHash, JSON.stringify(responses), json, served.flag];
   const at = sqlDate(servedAt);
+  let session: PromiseSettledResult<unknown> | null = null;
   try {
     // Plain single statements on the driver: the probe API's hot path, where a model instance
     // or Sequelize's escaping of the 4 kB reply costs more than the query.
     let result;
     if (by.source === 'api') {
-      // The session row goes in the same round trip, written only if the insert recorded the participant.
-      const [inserted, session] = await rawPipeline([[INSERT_VIA_KEY, [...row, at, by.key.id]], servedSessionAfterInsert(by.key, version.id, participantId, at)]);
-      result = settled(inserted);
+      // The session row goes in the same round trip, written only if the insert recorded the participant
+      // or they were already served with these answers (a replay).
+      const outcomes = await rawPipeline([[INSERT_VIA_KEY, [...row, at, by.key.id]], servedSessionAfterInsert(by.key, version.id, participantId, responsesHash, at)]);
+      session = outcomes[1];
+      result = settled(outcomes[0]);
       if (result.affectedRows === 0) {
         // revoked (or deleted with its study) after this process cached it
         markApiKeyRevoked(by.key);
@@ -90,7 +93,7 @@ export async function serveProbeItemsJson(
   if (existing.responses_hash !== responsesHash || Number(existing.design_version_id) !== version.id) {
     throw new ConflictError(`Participant ${participantId} was already served with different calibration responses (or another design version); their items stay as served.`);
   }
-  if (by.source === 'api') await recordServedSession(by.key, version, participantId);
+  if (session) settled(session); // the replay's session row
   return typeof existing.result === 'string' ? existing.result : JSON.stringify(existing.result);
 }
 

@@ -62,27 +62,21 @@ const SERVED_SESSION_UPDATE = `ON DUPLICATE KEY UPDATE
     calibrated_at = COALESCE(calibrated_at, VALUES(calibrated_at)),
     served_at = COALESCE(served_at, VALUES(served_at)),
     last_activity_at = VALUES(last_activity_at)`;
-const SERVED_SESSION = `INSERT INTO participant_sessions ${SERVED_SESSION_COLUMNS}
-  VALUES (?, ?, ?, 'served', 'api', ?, ?, ?, ?, ?)
-  ${SERVED_SESSION_UPDATE}`;
-// The same, sent right behind the insert of the participant on the same connection (rawPipeline):
-// it writes only when that insert recorded them (ROW_COUNT() is 1; 0 for a revoked key, -1 when
-// the participant was already served, whose replay records the session with SERVED_SESSION).
+// Sent right behind the insert of the participant on the same connection (rawPipeline), it writes
+// when that insert recorded them (ROW_COUNT() is 1), or when it failed because they were already
+// served (-1) with these very answers through this version (a replay, which counts as activity);
+// never for a revoked key (0 rows) or a 409.
 const SERVED_SESSION_AFTER_INSERT = `INSERT INTO participant_sessions ${SERVED_SESSION_COLUMNS}
-  SELECT ?, ?, ?, 'served', 'api', ?, ?, ?, ?, ? FROM DUAL WHERE ROW_COUNT() = 1
+  SELECT ?, ?, ?, 'served', 'api', ?, ?, ?, ?, ? FROM DUAL
+  WHERE ROW_COUNT() = 1
+    OR (ROW_COUNT() = -1 AND EXISTS (SELECT 1 FROM participants WHERE study_id = ? AND participant_id = ? AND responses_hash = ? AND design_version_id = ?))
   ${SERVED_SESSION_UPDATE}`;
 
 /**
- * The statement that records a key's serving of a participant in their session row, to be sent
- * right behind the statement that inserts their `participants` row (one round trip for both).
- * `at` is the serving time as UTC DATETIME text.
+ * The statement that records a key's serving of a participant in their session row (status at
+ * least `served`), to be sent right behind the statement that inserts their `participants` row
+ * (one round trip for both). `at` is the serving time as UTC DATETIME text.
  */
-export function servedSessionAfterInsert(key: CachedKey, versionId: number, participantId: string, at: string): RawStatement {
-  return [SERVED_SESSION_AFTER_INSERT, [key.studyId, versionId, participantId, key.id, at, at, at, at]];
-}
-
-/** Records that a key served a participant their stage-2 items (session status at least `served`). */
-export async function recordServedSession(key: CachedKey, version: FrozenVersionRef, participantId: string): Promise<void> {
-  const now = new Date();
-  await rawQuery(SERVED_SESSION, [key.studyId, version.id, participantId, key.id, now, now, now, now]);
+export function servedSessionAfterInsert(key: CachedKey, versionId: number, participantId: string, responsesHash: string, at: string): RawStatement {
+  return [SERVED_SESSION_AFTER_INSERT, [key.studyId, versionId, participantId, key.id, at, at, at, at, key.studyId, participantId, responsesHash, versionId]];
 }
