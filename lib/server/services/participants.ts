@@ -6,7 +6,7 @@ import { ItemBankInputError, serveParticipant, type ServedItems } from '@/lib/de
 import type { FrozenDesign } from '@/lib/shared/validations/planner';
 import { markApiKeyRevoked, RevokedKeyError, type CachedKey } from './api-keys';
 import { bankOrInvalid } from './item-bank';
-import { servedSessionAfterInsert } from './session-tokens';
+import { servedSessionAfterInsert, servedSessionOnReplay } from './session-tokens';
 import { rememberServedParticipant } from './stage2-answers';
 
 /** Who serves: a key (the probe-items API), an operator (a batch), or a participant on the session page. */
@@ -63,17 +63,14 @@ export async function serveProbeItemsJson(
   const json = JSON.stringify(reply);
   const row = [version.studyId, version.id, participantId, responsesHash, JSON.stringify(responses), json, served.flag];
   const at = sqlDate(servedAt);
-  let session: PromiseSettledResult<unknown> | null = null;
   try {
     // Plain single statements on the driver: the probe API's hot path, where a model instance
     // or Sequelize's escaping of the 4 kB reply costs more than the query.
     let result;
     if (by.source === 'api') {
-      // The session row goes in the same round trip, written only if the insert recorded the participant
-      // or they were already served with these answers (a replay).
-      const outcomes = await rawPipeline([[INSERT_VIA_KEY, [...row, at, by.key.id]], servedSessionAfterInsert(by.key, version.id, participantId, responsesHash, at)]);
-      session = outcomes[1];
-      result = settled(outcomes[0]);
+      // The session row goes in the same round trip, written only if the insert recorded the participant.
+      const [inserted, session] = await rawPipeline([[INSERT_VIA_KEY, [...row, at, by.key.id]], servedSessionAfterInsert(by.key, version.id, participantId, at)]);
+      result = settled(inserted);
       if (result.affectedRows === 0) {
         // revoked (or deleted with its study) after this process cached it
         markApiKeyRevoked(by.key);
@@ -88,12 +85,17 @@ export async function serveProbeItemsJson(
   } catch (error) {
     if ((error as { errno?: number }).errno !== ER_DUP_ENTRY) throw error;
   }
-  const [existing] = await rawQuery(READ_BACK, [version.studyId, participantId]);
+  // A replay through a key records its session activity in the round trip of the read-back.
+  const [back, session] =
+    by.source === 'api'
+      ? await rawPipeline([[READ_BACK, [version.studyId, participantId]], servedSessionOnReplay(by.key, version.id, participantId, responsesHash, at)])
+      : [{ status: 'fulfilled' as const, value: await rawQuery(READ_BACK, [version.studyId, participantId]) }, null];
+  const [existing] = settled(back);
   if (!existing) throw new ConflictError('This participant is being served right now; try again.');
   if (existing.responses_hash !== responsesHash || Number(existing.design_version_id) !== version.id) {
     throw new ConflictError(`Participant ${participantId} was already served with different calibration responses (or another design version); their items stay as served.`);
   }
-  if (session) settled(session); // the replay's session row
+  if (session) settled(session);
   return typeof existing.result === 'string' ? existing.result : JSON.stringify(existing.result);
 }
 

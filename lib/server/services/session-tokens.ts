@@ -62,14 +62,17 @@ const SERVED_SESSION_UPDATE = `ON DUPLICATE KEY UPDATE
     calibrated_at = COALESCE(calibrated_at, VALUES(calibrated_at)),
     served_at = COALESCE(served_at, VALUES(served_at)),
     last_activity_at = VALUES(last_activity_at)`;
-// Sent right behind the insert of the participant on the same connection (rawPipeline), it writes
-// when that insert recorded them (ROW_COUNT() is 1), or when it failed because they were already
-// served (-1) with these very answers through this version (a replay, which counts as activity);
-// never for a revoked key (0 rows) or a 409.
+// Sent right behind the insert of the participant on the same connection (rawPipeline): it writes
+// only when that insert recorded them (ROW_COUNT() is 1; 0 for a revoked key, -1 when they were
+// already served). No subquery here: the optimiser would run it for every new participant.
 const SERVED_SESSION_AFTER_INSERT = `INSERT INTO participant_sessions ${SERVED_SESSION_COLUMNS}
-  SELECT ?, ?, ?, 'served', 'api', ?, ?, ?, ?, ? FROM DUAL
-  WHERE ROW_COUNT() = 1
-    OR (ROW_COUNT() = -1 AND EXISTS (SELECT 1 FROM participants WHERE study_id = ? AND participant_id = ? AND responses_hash = ? AND design_version_id = ?))
+  SELECT ?, ?, ?, 'served', 'api', ?, ?, ?, ?, ? FROM DUAL WHERE ROW_COUNT() = 1
+  ${SERVED_SESSION_UPDATE}`;
+// A replay (the insert found them already served): written only when they were served with these
+// very answers through this version, which counts as activity; never for a 409.
+const SERVED_SESSION_ON_REPLAY = `INSERT INTO participant_sessions ${SERVED_SESSION_COLUMNS}
+  SELECT ?, ?, ?, 'served', 'api', ?, ?, ?, ?, ? FROM participants
+  WHERE study_id = ? AND participant_id = ? AND responses_hash = ? AND design_version_id = ?
   ${SERVED_SESSION_UPDATE}`;
 
 /**
@@ -77,6 +80,11 @@ const SERVED_SESSION_AFTER_INSERT = `INSERT INTO participant_sessions ${SERVED_S
  * least `served`), to be sent right behind the statement that inserts their `participants` row
  * (one round trip for both). `at` is the serving time as UTC DATETIME text.
  */
-export function servedSessionAfterInsert(key: CachedKey, versionId: number, participantId: string, responsesHash: string, at: string): RawStatement {
-  return [SERVED_SESSION_AFTER_INSERT, [key.studyId, versionId, participantId, key.id, at, at, at, at, key.studyId, participantId, responsesHash, versionId]];
+export function servedSessionAfterInsert(key: CachedKey, versionId: number, participantId: string, at: string): RawStatement {
+  return [SERVED_SESSION_AFTER_INSERT, [key.studyId, versionId, participantId, key.id, at, at, at, at]];
+}
+
+/** The same for a replay, sent with the read-back of the participant: writes only if they were served with `responsesHash` through `versionId`. */
+export function servedSessionOnReplay(key: CachedKey, versionId: number, participantId: string, responsesHash: string, at: string): RawStatement {
+  return [SERVED_SESSION_ON_REPLAY, [key.studyId, versionId, participantId, key.id, at, at, at, at, key.studyId, participantId, responsesHash, versionId]];
 }
