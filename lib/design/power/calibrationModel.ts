@@ -5,6 +5,7 @@ import { stageOneModel } from '../item-bank/calibrationPlan';
 import { amountUnit } from '../item-bank/rounding';
 import type { SeededRandom } from '../random';
 import { FastRateEstimator } from './fastRateEstimate';
+import { SHARED_KEY_LIMIT, SharedEstimates } from './sharedEstimates';
 import { LargerChoice } from './largerChoice';
 import { probeSet, type ProbeSet } from './probeSet';
 import { jointSensitivityEstimate, SensitivityProfile } from './sensitivityProfile';
@@ -38,6 +39,8 @@ class CalibrationCore {
   readonly longestDelay: number;
   readonly blocks: [Block, Block];
   readonly caches: [Map<number, CalibrationEstimate>, Map<number, CalibrationEstimate>] = [new Map(), new Map()];
+  /** the current run's estimates shared with the other threads (null: this thread's caches only) */
+  shared: SharedEstimates | null = null;
   private readonly design: PowerDesign;
 
   constructor(design: PowerDesign, coverDelay: number) {
@@ -112,8 +115,12 @@ export class CalibrationModel {
   constructor(
     private readonly scenario: PowerScenario,
     coverDelay: number,
+    sharedEstimates?: SharedArrayBuffer,
   ) {
     this.core = coreFor(scenario.design, coverDelay);
+    // the run's shared table, when its keys fit (a leading 1 and one bit per item) and no profile over s is kept
+    const fits = Math.max(this.core.blocks[0].count, this.core.blocks[1].count) <= Math.log2(SHARED_KEY_LIMIT + 1) - 1;
+    if (sharedEstimates && fits && !this.core.blocks[0].profile) this.core.shared = new SharedEstimates(sharedEstimates);
     this.choice = new LargerChoice(scenario.truth.gamma, scenario.truth.lapse);
     this.longestDelay = this.core.longestDelay;
   }
@@ -137,14 +144,21 @@ export class CalibrationModel {
     const cache = this.core.caches[magnitude];
     let estimate = cache.get(key);
     if (estimate === undefined) {
-      const fit = block.estimator.estimate(this.bits);
-      estimate = {
-        rate: fit.rate,
-        flagged: fit.flags.length > 0,
-        fallback: fit.flags.some((f) => f === 'all-sooner' || f === 'all-later' || f === 'non-monotone'),
-        key,
-        profile: block.profile ? block.profile.profile(this.bits) : null,
-      };
+      const shared = this.core.shared;
+      const at = shared ? shared.find(magnitude, key) : -1;
+      if (at >= 0) {
+        estimate = { rate: shared!.rateAt(at), ...shared!.flagsAt(at), key, profile: null };
+      } else {
+        const fit = block.estimator.estimate(this.bits);
+        estimate = {
+          rate: fit.rate,
+          flagged: fit.flags.length > 0,
+          fallback: fit.flags.some((f) => f === 'all-sooner' || f === 'all-later' || f === 'non-monotone'),
+          key,
+          profile: block.profile ? block.profile.profile(this.bits) : null,
+        };
+        shared?.store(magnitude, key, estimate.rate, estimate.flagged, estimate.fallback);
+      }
       if (cache.size < CACHE_LIMIT) cache.set(key, estimate);
     }
     return estimate;

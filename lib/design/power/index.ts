@@ -6,6 +6,7 @@ export { normalQuantile } from './normalQuantile';
 export { replicateSeed } from './replicateSeed';
 export { sampleSizeFor, type SampleSizeAnswer } from './sampleSizeFor';
 export { createPowerSimulator, type PowerSimulator } from './simulatePower';
+export { sharedEstimateBuffer, SharedEstimates } from './sharedEstimates';
 export { checkScenario, POWER_LIMITS } from './checkScenario';
 export { emptyTally, mergeTallies } from './tally';
 export { summarisePower, describeModel, type PowerPoint, type PowerSummary, type PowerWarning, type PatternShares } from './summarisePower';

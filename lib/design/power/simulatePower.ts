@@ -42,9 +42,12 @@ export type PowerSimulator = {
  * P(SS near) = choice(γ, ε, B). A stress truth (stressTruth) may draw each participant's delay
  * sensitivity from a range, set K = k, or multiply every delayed value by a present bias β.
  *
+ * @param options.sharedEstimates a buffer from sharedEstimateBuffer() given to every thread simulating
+ *   this design in one run: calibration estimates are then computed once between the threads
+ *   (SharedEstimates); the tallies are the same with or without it
  * @throws DesignInputError for a scenario out of range, or a design whose prior medians have no reversal zone
  */
-export function createPowerSimulator(scenario: PowerScenario): PowerSimulator {
+export function createPowerSimulator(scenario: PowerScenario, options: { sharedEstimates?: SharedArrayBuffer } = {}): PowerSimulator {
   checkScenario(scenario);
   const { design } = scenario;
   const fallback = probeSet(design, design.prior.medianSmall, design.prior.medianLarge, design.designPoint);
@@ -56,7 +59,7 @@ export function createPowerSimulator(scenario: PowerScenario): PowerSimulator {
   const calibration = !personal
     ? null
     : scenario.calibration === 'simulated'
-      ? new CalibrationModel(scenario, cover)
+      ? new CalibrationModel(scenario, cover, options.sharedEstimates)
       : scenario.calibration === 'adaptive'
         ? new AdaptiveCalibrationModel(scenario, cover)
         : null;

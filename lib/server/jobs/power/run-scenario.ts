@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { setMaxListeners } from 'node:events';
+import { sharedEstimateBuffer } from '@/lib/design/power/sharedEstimates';
 import { mergeTallies } from '@/lib/design/power/tally';
 import { powerEnv } from '@/lib/server/env';
 import { createThreadPool, threadCount, threadError } from '../thread-pool';
@@ -82,6 +83,7 @@ export async function runScenarios(scenarios: readonly PowerScenario[], options:
   const key = randomUUID();
   const abort = new AbortController();
   setMaxListeners(chunks.length + 10, abort.signal); // every waiting chunk listens for the stop
+  const estimates = sharedEstimateBuffers(scenarios, threads);
   const results: ChunkResult[] = new Array(chunks.length);
   let completed = 0;
   let stopped = false;
@@ -98,7 +100,7 @@ export async function runScenarios(scenarios: readonly PowerScenario[], options:
       chunks.map(async ({ index, from, to }, i) => {
         let result: ChunkResult;
         try {
-          result = await pool.run({ key, index, scenario: scenarios[index], from, to }, { signal: abort.signal });
+          result = await pool.run({ key, index, scenario: scenarios[index], from, to, estimates: estimates[index] }, { signal: abort.signal });
         } catch (error) {
           if (stopped) return;
           throw threadError('power', error);
@@ -117,4 +119,20 @@ export async function runScenarios(scenarios: readonly PowerScenario[], options:
   }
   if (stopped || options.shouldStop?.()) return null;
   return mergeChunkResults(scenarios.length, chunks, results);
+}
+
+/**
+ * Per scenario, the shared-estimate buffer its threads use (one per distinct design of the run, so
+ * the assumed truth and its stress truths share one): only with two threads or more and a simulated
+ * calibration block of a personalised design, where there is something to share.
+ */
+function sharedEstimateBuffers(scenarios: readonly PowerScenario[], threads: number): Array<SharedArrayBuffer | undefined> {
+  const byDesign = new Map<string, SharedArrayBuffer>();
+  return scenarios.map((scenario) => {
+    if (threads < 2 || scenario.calibration !== 'simulated' || scenario.design.spec.mode !== 'personalised') return undefined;
+    const key = JSON.stringify(scenario.design);
+    let buffer = byDesign.get(key);
+    if (!buffer) byDesign.set(key, (buffer = sharedEstimateBuffer()));
+    return buffer;
+  });
 }

@@ -5,7 +5,15 @@ import { createPowerSimulator, type PowerSimulator } from '../../../design/power
 import type { PowerScenario, PowerTally } from '../../../design/power/types';
 
 /** One chunk of one scenario: replicates [from, to). `key` names the run (the simulator cache's key). */
-export type ChunkTask = { key: string; index: number; scenario: PowerScenario; from: number; to: number };
+export type ChunkTask = {
+  key: string;
+  index: number;
+  scenario: PowerScenario;
+  from: number;
+  to: number;
+  /** the run's shared calibration estimates for this scenario's design (threads of one process only) */
+  estimates?: SharedArrayBuffer;
+};
 export type ChunkResult = { tally: PowerTally; longestCalibrationDelay: number | null };
 
 // the current run's simulators, one per scenario (the assumed truth and each stress truth)
@@ -16,7 +24,7 @@ export function runChunk(task: ChunkTask): ChunkResult {
   if (!current || current.key !== task.key) current = { key: task.key, simulators: new Map() };
   let simulator = current.simulators.get(task.index);
   if (!simulator) {
-    simulator = createPowerSimulator(task.scenario);
+    simulator = createPowerSimulator(task.scenario, { sharedEstimates: task.estimates });
     current.simulators.set(task.index, simulator);
   }
   const tally = simulator.run(task.from, task.to);

@@ -1,0 +1,79 @@
+// The calibration estimates a run's worker threads share (lib/design/power/sharedEstimates.ts).
+import { describe, expect, it } from 'vitest';
+import { createPowerSimulator, mergeTallies, sharedEstimateBuffer, SharedEstimates } from '@/lib/design/power';
+import { DesignInputError } from '@/lib/design';
+import type { PowerScenario } from '@/lib/design/power/types';
+import { createThreadPool } from '@/lib/server/jobs/thread-pool';
+import type { ChunkResult, ChunkTask } from '@/lib/server/jobs/power/worker';
+import { POWER_PRIOR, powerDesign } from '../../support/frozen-design';
+
+describe('SharedEstimates', () => {
+  it('finds what was stored, by magnitude, with its flags, and nothing else', () => {
+    const table = new SharedEstimates(sharedEstimateBuffer());
+    expect(table.find(0, 5)).toBe(-1);
+    table.store(0, 5, 0.0123, false, false);
+    table.store(1, 5, 0.5, true, true);
+    const small = table.find(0, 5);
+    const large = table.find(1, 5);
+    expect(table.rateAt(small)).toBe(0.0123);
+    expect(table.flagsAt(small)).toEqual({ flagged: false, fallback: false });
+    expect(table.rateAt(large)).toBe(0.5);
+    expect(table.flagsAt(large)).toEqual({ flagged: true, fallback: true });
+    expect(table.find(0, 6)).toBe(-1);
+    // the first writer wins: a second store of the same vector changes nothing
+    table.store(0, 5, 99, true, false);
+    expect(table.rateAt(table.find(0, 5))).toBe(0.0123);
+    expect(table.stored(0)).toBe(1);
+  });
+
+  it('keeps every one of many keys (colliding slots probe on) and stops storing at its fill limit', () => {
+    const table = new SharedEstimates(sharedEstimateBuffer());
+    for (let key = 1; key <= 150_000; key++) table.store(0, key * 7 + 1, key, false, key % 2 === 0);
+    let found = 0;
+    for (let key = 1; key <= 150_000; key++) {
+      const at = table.find(0, key * 7 + 1);
+      if (at >= 0) {
+        expect(table.rateAt(at)).toBe(key);
+        found++;
+      }
+    }
+    expect(found).toBe(table.stored(0));
+    expect(found).toBeGreaterThan(149_000); // a few long probe runs may give up; none stores a wrong rate
+    for (let key = 150_001; key <= 400_000; key++) table.store(0, key * 7 + 1, key, false, false);
+    expect(table.stored(0)).toBeLessThanOrEqual(Math.floor(2 ** 18 * 0.7));
+    expect(table.stored(1)).toBe(0);
+  });
+
+  it('refuses a buffer it did not make, naming the option', () => {
+    expect(() => new SharedEstimates(new SharedArrayBuffer(64))).toThrow(DesignInputError);
+    expect(() => new SharedEstimates(new SharedArrayBuffer(64))).toThrow(/sharedEstimates/);
+  });
+});
+
+const scenario: PowerScenario = {
+  design: { spec: powerDesign().spec, prior: POWER_PRIOR, soonDelay: 30 },
+  truth: { model: { id: 'hyperbolic' }, prior: POWER_PRIOR, gamma: 10, lapse: 0.02 },
+  calibration: 'simulated',
+  test: { kind: 'mcnemar', alpha: 0.05, alternative: 'greater' },
+  sampleSizes: [20, 40],
+  replications: 16,
+  seed: 5,
+};
+
+describe('a run whose threads share their calibration estimates', () => {
+  it('gives the tallies of one thread alone, and the threads do store estimates in the shared table', async () => {
+    const direct = createPowerSimulator(scenario).run(0, 16);
+    const buffer = sharedEstimateBuffer();
+    const pool = await createThreadPool<ChunkTask, ChunkResult>('power', 2);
+    try {
+      const chunks = [0, 4, 8, 12].map((from) => ({ key: 'shared-test', index: 0, scenario, from, to: from + 4, estimates: buffer }));
+      const parts = await Promise.all(chunks.map((task) => pool.run(task)));
+      expect(mergeTallies(parts.map((part) => part.tally))).toEqual(direct);
+    } finally {
+      await pool.destroy();
+    }
+    const table = new SharedEstimates(buffer);
+    expect(table.stored(0)).toBeGreaterThan(0);
+    expect(table.stored(1)).toBeGreaterThan(0);
+  });
+});
