@@ -1,6 +1,7 @@
 // The one frozen design of the tests and benchmarks (valid per frozenDesignSchema): a personalised
 // hyperbolic design with a small calibration block. Each test overrides only the fields it is about.
 import { frozenDesignSchema, type FrozenDesign } from '@/lib/shared/validations/planner';
+import type { PowerScenario } from '@/lib/design/power/types';
 
 export function frozenDesign(spec: Partial<FrozenDesign['spec']> = {}, prior: Partial<FrozenDesign['prior']> = {}): FrozenDesign {
   return frozenDesignSchema.parse({
@@ -48,3 +49,15 @@ export function powerDesign(spec: Partial<FrozenDesign['spec']> = {}): FrozenDes
 
 /** A content hash for tests that need one (any 64 hex digits). */
 export const HASH = 'a1b2c3d4e5f60718293a4b5c6d7e8f90a1b2c3d4e5f60718293a4b5c6d7e8f90';
+
+/** A small S1-like power scenario (powerDesign, hyperbolic truth, McNemar) for tests that run it on threads. */
+export function smallPowerScenario(options: { replications: number; seed: number }): PowerScenario {
+  return {
+    design: { spec: powerDesign().spec, prior: POWER_PRIOR, soonDelay: 30 },
+    truth: { model: { id: 'hyperbolic' }, prior: POWER_PRIOR, gamma: 10, lapse: 0.02 },
+    calibration: 'simulated',
+    test: { kind: 'mcnemar', alpha: 0.05, alternative: 'greater' },
+    sampleSizes: [20, 40],
+    ...options,
+  };
+}

@@ -2,10 +2,9 @@
 import { describe, expect, it } from 'vitest';
 import { createPowerSimulator, mergeTallies, sharedEstimateBuffer, SharedEstimates } from '@/lib/design/power';
 import { DesignInputError } from '@/lib/design';
-import type { PowerScenario } from '@/lib/design/power/types';
 import { createThreadPool } from '@/lib/server/jobs/thread-pool';
 import type { ChunkResult, ChunkTask } from '@/lib/server/jobs/power/worker';
-import { POWER_PRIOR, powerDesign } from '../../support/frozen-design';
+import { smallPowerScenario } from '../../support/frozen-design';
 
 describe('SharedEstimates', () => {
   it('finds what was stored, by magnitude, with its flags, and nothing else', () => {
@@ -50,15 +49,7 @@ describe('SharedEstimates', () => {
   });
 });
 
-const scenario: PowerScenario = {
-  design: { spec: powerDesign().spec, prior: POWER_PRIOR, soonDelay: 30 },
-  truth: { model: { id: 'hyperbolic' }, prior: POWER_PRIOR, gamma: 10, lapse: 0.02 },
-  calibration: 'simulated',
-  test: { kind: 'mcnemar', alpha: 0.05, alternative: 'greater' },
-  sampleSizes: [20, 40],
-  replications: 16,
-  seed: 5,
-};
+const scenario = smallPowerScenario({ replications: 16, seed: 5 });
 
 describe('a run whose threads share their calibration estimates', () => {
   it('gives the tallies of one thread alone, and the threads do store estimates in the shared table', async () => {

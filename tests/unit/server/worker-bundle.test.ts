@@ -6,18 +6,9 @@ import { workerFile } from '@/lib/server/jobs/worker-bundle';
 import { createThreadPool } from '@/lib/server/jobs/thread-pool';
 import type { ChunkResult, ChunkTask } from '@/lib/server/jobs/power/worker';
 import { runChunk } from '@/lib/server/jobs/power/worker';
-import { POWER_PRIOR, powerDesign } from '../../support/frozen-design';
-import type { PowerScenario } from '@/lib/design/power';
+import { smallPowerScenario } from '../../support/frozen-design';
 
-const scenario: PowerScenario = {
-  design: { spec: powerDesign().spec, prior: POWER_PRIOR, soonDelay: 30 },
-  truth: { model: { id: 'hyperbolic' }, prior: POWER_PRIOR, gamma: 10, lapse: 0.02 },
-  calibration: 'simulated',
-  test: { kind: 'mcnemar', alpha: 0.05, alternative: 'greater' },
-  sampleSizes: [20, 40],
-  replications: 6,
-  seed: 3,
-};
+const scenario = smallPowerScenario({ replications: 6, seed: 3 });
 
 describe('worker threads load their job as one plain-JavaScript bundle', () => {
   it('writes each job once under .data/workers, named by its content, with no TypeScript left to compile', async () => {
