@@ -38,6 +38,8 @@ const CACHE_LIMIT = 1_000_000;
 class CalibrationCore {
   readonly longestDelay: number;
   readonly blocks: [Block, Block];
+  /** whether both magnitudes' blocks ask about the same later delays, in the same order */
+  readonly sameDelays: boolean;
   readonly caches: [Map<number, CalibrationEstimate>, Map<number, CalibrationEstimate>] = [new Map(), new Map()];
   /** the current run's estimates shared with the other threads (null: this thread's caches only) */
   shared: SharedEstimates | null = null;
@@ -61,6 +63,8 @@ class CalibrationCore {
       };
     };
     this.blocks = [block('small'), block('large')];
+    const [small, large] = this.blocks;
+    this.sameDelays = small.count === large.count && small.laterDelay.every((delay, i) => delay === large.laterDelay[i]);
   }
 
   /**
@@ -111,6 +115,10 @@ export class CalibrationModel {
   private readonly core: CalibrationCore;
   private readonly bits = new Uint8Array(200);
   private readonly choice: LargerChoice;
+  // D^s of each block's later delays at the s they were last computed for (power-delay and
+  // exponential-power truths): both magnitudes share them when their delays are the same
+  private readonly powers: [Float64Array, Float64Array] = [new Float64Array(200), new Float64Array(200)];
+  private readonly powersAt = [NaN, NaN];
 
   constructor(
     private readonly scenario: PowerScenario,
@@ -134,12 +142,24 @@ export class CalibrationModel {
     const block = this.core.blocks[magnitude];
     const beta = truth.model.presentBias ?? 1;
     const bias = truth.presentBias ?? 1; // every later delay here is > 0
+    const id = truth.model.id;
     let key = 1; // a leading 1 keeps the bits readable
-    for (let i = 0; i < block.count; i++) {
-      const gap = bias * discountAt(truth.model.id, trueRate, s, beta, block.laterDelay[i]) - block.soonerShare[i];
-      const later = this.choice.larger(random.uniform(), gap) ? 1 : 0;
-      this.bits[i] = later;
-      key = key * 2 + later;
+    if (id === 'power-delay' || id === 'exponential-power') {
+      // discountAt's two forms with D^s, written out over D^s computed once per s (the same numbers)
+      const powers = this.powersOf(magnitude, s);
+      for (let i = 0; i < block.count; i++) {
+        const f = id === 'power-delay' ? 1 / (1 + trueRate * powers[i]) : Math.exp(-trueRate * powers[i]);
+        const later = this.choice.larger(random.uniform(), bias * f - block.soonerShare[i]) ? 1 : 0;
+        this.bits[i] = later;
+        key = key * 2 + later;
+      }
+    } else {
+      for (let i = 0; i < block.count; i++) {
+        const gap = bias * discountAt(id, trueRate, s, beta, block.laterDelay[i]) - block.soonerShare[i];
+        const later = this.choice.larger(random.uniform(), gap) ? 1 : 0;
+        this.bits[i] = later;
+        key = key * 2 + later;
+      }
     }
     const cache = this.core.caches[magnitude];
     let estimate = cache.get(key);
@@ -162,6 +182,18 @@ export class CalibrationModel {
       if (cache.size < CACHE_LIMIT) cache.set(key, estimate);
     }
     return estimate;
+  }
+
+  /** D^s for the later delays of a magnitude's block, computed again only when s changes. */
+  private powersOf(magnitude: 0 | 1, s: number): Float64Array {
+    const slot = this.core.sameDelays ? 0 : magnitude;
+    const powers = this.powers[slot];
+    if (this.powersAt[slot] !== s) {
+      const { count, laterDelay } = this.core.blocks[magnitude];
+      for (let i = 0; i < count; i++) powers[i] = Math.pow(laterDelay[i], s);
+      this.powersAt[slot] = s;
+    }
+    return powers;
   }
 
   /** Both magnitudes' estimates, small first (answer for each in turn, so the draws keep their order). */
