@@ -5,7 +5,7 @@ import { stageOneModel } from '../item-bank/calibrationPlan';
 import { amountUnit } from '../item-bank/rounding';
 import type { SeededRandom } from '../random';
 import { FastRateEstimator } from './fastRateEstimate';
-import { SHARED_KEY_LIMIT, SharedEstimates } from './sharedEstimates';
+import { SHARED_MAX_ITEMS, SharedEstimates } from './sharedEstimates';
 import { LargerChoice } from './largerChoice';
 import { probeSet, type ProbeSet } from './probeSet';
 import { jointSensitivityEstimate, SensitivityProfile } from './sensitivityProfile';
@@ -127,7 +127,7 @@ export class CalibrationModel {
   ) {
     this.core = coreFor(scenario.design, coverDelay);
     // the run's shared table, when its keys fit (a leading 1 and one bit per item) and no profile over s is kept
-    const fits = Math.max(this.core.blocks[0].count, this.core.blocks[1].count) <= Math.log2(SHARED_KEY_LIMIT + 1) - 1;
+    const fits = Math.max(this.core.blocks[0].count, this.core.blocks[1].count) <= SHARED_MAX_ITEMS;
     if (sharedEstimates && fits && !this.core.blocks[0].profile) this.core.shared = new SharedEstimates(sharedEstimates);
     this.choice = new LargerChoice(scenario.truth.gamma, scenario.truth.lapse);
     this.longestDelay = this.core.longestDelay;
@@ -143,23 +143,20 @@ export class CalibrationModel {
     const beta = truth.model.presentBias ?? 1;
     const bias = truth.presentBias ?? 1; // every later delay here is > 0
     const id = truth.model.id;
+    // power-delay and exponential-power: discountAt's forms written out over D^s computed once per s
+    // (the same numbers); every other model through discountAt
+    const powers = id === 'power-delay' || id === 'exponential-power' ? this.powersOf(magnitude, s) : null;
     let key = 1; // a leading 1 keeps the bits readable
-    if (id === 'power-delay' || id === 'exponential-power') {
-      // discountAt's two forms with D^s, written out over D^s computed once per s (the same numbers)
-      const powers = this.powersOf(magnitude, s);
-      for (let i = 0; i < block.count; i++) {
-        const f = id === 'power-delay' ? 1 / (1 + trueRate * powers[i]) : Math.exp(-trueRate * powers[i]);
-        const later = this.choice.larger(random.uniform(), bias * f - block.soonerShare[i]) ? 1 : 0;
-        this.bits[i] = later;
-        key = key * 2 + later;
-      }
-    } else {
-      for (let i = 0; i < block.count; i++) {
-        const gap = bias * discountAt(id, trueRate, s, beta, block.laterDelay[i]) - block.soonerShare[i];
-        const later = this.choice.larger(random.uniform(), gap) ? 1 : 0;
-        this.bits[i] = later;
-        key = key * 2 + later;
-      }
+    for (let i = 0; i < block.count; i++) {
+      const f =
+        powers === null
+          ? discountAt(id, trueRate, s, beta, block.laterDelay[i])
+          : id === 'power-delay'
+            ? 1 / (1 + trueRate * powers[i])
+            : Math.exp(-trueRate * powers[i]);
+      const later = this.choice.larger(random.uniform(), bias * f - block.soonerShare[i]) ? 1 : 0;
+      this.bits[i] = later;
+      key = key * 2 + later;
     }
     const cache = this.core.caches[magnitude];
     let estimate = cache.get(key);

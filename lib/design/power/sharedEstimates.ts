@@ -10,8 +10,8 @@ const RATES_BYTES = 2 * SLOTS * 8;
 const KEYS_BYTES = 2 * SLOTS * 4;
 const BUFFER_BYTES = RATES_BYTES + 2 * KEYS_BYTES + 8;
 
-/** The largest response-vector number the table holds: a leading 1 and up to 30 answers fit a 32-bit key. */
-export const SHARED_KEY_LIMIT = 2 ** 31 - 1;
+/** The most items per magnitude whose response vectors the table holds: a leading 1 and 30 answers fit a 32-bit key. */
+export const SHARED_MAX_ITEMS = 30;
 
 /** A buffer for SharedEstimates, about 8 MB; give the same buffer to every thread of a run. */
 export function sharedEstimateBuffer(): SharedArrayBuffer {
@@ -45,8 +45,9 @@ export class SharedEstimates {
   }
 
   /**
-   * The stored estimate of response vector `key` (1 to SHARED_KEY_LIMIT) of a magnitude (0 small,
-   * 1 large): its slot, or −1 when none is published. Read it with rateAt and stateAt.
+   * The stored estimate of response vector `key` (a leading 1, then up to SHARED_MAX_ITEMS answer
+   * bits) of a magnitude (0 small, 1 large): its slot, or −1 when none is published. Read it with
+   * rateAt and flagsAt.
    */
   find(magnitude: 0 | 1, key: number): number {
     const base = magnitude * SLOTS;
