@@ -45,6 +45,9 @@ const COMMON: Record<string, ErrorReply> = {
   },
 };
 
+/** The error statuses of an endpoint that reads a JSON body from a key holder (probe items, stage-2 answers, adaptive steps). */
+export const BODY_ENDPOINT_ERRORS = ['400', '401', '403', '404', '409', '413', '422', '429', '503'] as const;
+
 // statuses whose reply says when to try again
 const RETRY_AFTER = new Set(['429', '503']);
 

@@ -1,4 +1,4 @@
-import { errorReplies, preflight, sessionTokenHeader, studyIdParameter } from '@/lib/server/http/openapi-replies';
+import { BODY_ENDPOINT_ERRORS, errorReplies, preflight, sessionTokenHeader, studyIdParameter } from '@/lib/server/http/openapi-replies';
 import { SESSION_TAG_TEXT, sessionPaths, sessionSchemas } from '@/lib/server/http/session-openapi';
 
 /**
@@ -68,7 +68,7 @@ export function probeApiDocument(serverUrl: string) {
           },
           responses: {
             '200': { description: 'the participant\'s items', content: { 'application/json': { schema: { $ref: '#/components/schemas/ProbeItems' } } } },
-            ...errorReplies(['400', '401', '403', '404', '409', '413', '422', '429', '503'], {
+            ...errorReplies(BODY_ENDPOINT_ERRORS, {
               '409': { description: 'participant already served with different responses, or through another design version', example: 'Participant P-017 was already served with different calibration responses (or another design version); their items stay as served.' },
               '422': {
                 description: 'unknown item ids, missing responses or invalid choices (issues name the items); an itemBankId other than the key\'s',

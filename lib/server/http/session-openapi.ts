@@ -1,7 +1,7 @@
 // The OpenAPI 3.1 description of the two-stage session endpoints (calibration block, stage-2
 // answers) and what they add to the probe-items endpoint; merged into the document served at
 // /api/v1/openapi.json by probeApiDocument. Schemas mirror lib/shared/validations/session.ts.
-import { errorReplies, preflight, sessionTokenHeader as token, studyIdParameter as id } from './openapi-replies';
+import { BODY_ENDPOINT_ERRORS, errorReplies, preflight, sessionTokenHeader as token, studyIdParameter as id } from './openapi-replies';
 
 const corsNote =
   'Browsers: every reply, errors and 429 included, carries Access-Control-Allow-Origin for the origins the key lists (Retry-After is exposed); ' +
@@ -127,7 +127,7 @@ export function sessionPaths() {
               },
             },
           },
-          ...errorReplies(['400', '401', '403', '404', '409', '413', '422', '429', '503'], {
+          ...errorReplies(BODY_ENDPOINT_ERRORS, {
             '409': { description: 'an item already has a different answer (named); or the participant was served through another design version', example: 'Participant P-017 already answered probe-1-far differently; the first answers stay.' },
             '422': { description: 'answers before the calibration answers (path participantId), items not served to this participant (path answers.N.itemId), invalid fields', example: 'Stage-2 answers arrived before the calibration answers.' },
           }),
@@ -197,7 +197,7 @@ export function sessionPaths() {
               },
             },
           },
-          ...errorReplies(['400', '401', '403', '404', '409', '413', '422', '429', '503'], {
+          ...errorReplies(BODY_ENDPOINT_ERRORS, {
             '409': { description: 'the step was already answered differently, or the participant is calibrated with another design version', example: 'Step 1 of participant P-017 was already answered (acal-small-07-11: later); the first answer is kept.' },
             '422': { description: 'the design is not adaptive (path calibration), a step beyond the answers stored + 1 (step), an answer to another item than the one returned (answer.itemId), an answer after the end (answer)', example: 'Some fields are invalid.' },
           }),
