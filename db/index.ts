@@ -15,8 +15,10 @@ function createSequelize(): Sequelize {
     dialect: 'mariadb',
     dialectModule: mariadb,
     logging: false,
-    // Fail fast when the server is down, so requests answer 503 quickly instead of hanging.
-    dialectOptions: { connectTimeout: 3000 },
+    // Fail fast when the server is down, so requests answer 503 quickly instead of hanging. On the
+    // server's own machine its Unix socket (DB_SOCKET) carries each statement with less kernel work
+    // than TCP on loopback.
+    dialectOptions: { connectTimeout: 3000, ...(env.DB_SOCKET ? { socketPath: env.DB_SOCKET } : {}) },
     timezone: '+00:00',
     pool: { max: 20, min: 0, acquire: 5000, idle: 10000 },
     define: { underscored: true },

@@ -23,6 +23,8 @@ const databaseSchema = z.object({
   DB_NAME: z.string().min(1),
   DB_USER: z.string().min(1),
   DB_PASSWORD: z.string().min(1),
+  /** the server's Unix socket on this machine: when set, connections go through it instead of DB_HOST:DB_PORT */
+  DB_SOCKET: z.string().min(1).optional(),
 });
 
 const authSchema = z.object({

@@ -40,3 +40,13 @@ describe('rawPipeline', () => {
     await study.destroy();
   });
 });
+
+// The private server's Unix socket (DB_SOCKET, from scripts/mariadb.mjs) carries the app's statements;
+// an existing server named by TEST_DB_HOST is reached over TCP.
+describe.skipIf(Boolean(process.env.TEST_DB_HOST))('the connection to the private server', () => {
+  it('goes through its Unix socket (MariaDB names such a client "localhost", a TCP one "127.0.0.1:port")', async () => {
+    expect(process.env.DB_SOCKET).toMatch(/mariadbd\.sock$/);
+    const [row] = await rawExecute('SELECT host FROM information_schema.processlist WHERE id = CONNECTION_ID()', []);
+    expect(row.host).toBe('localhost');
+  });
+});

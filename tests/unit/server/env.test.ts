@@ -2,7 +2,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 
 // The one module that reads settings (lib/server/env.ts). Each case sets the environment, imports a
 // fresh copy of the module (the database and auth groups are parsed once per process) and restores.
-const NAMES = ['DB_HOST', 'DB_PORT', 'DB_NAME', 'DB_USER', 'DB_PASSWORD', 'NEXTAUTH_SECRET', 'NEXTAUTH_URL', 'SMTP_URL', 'MAIL_FROM', 'MAILBOX_DIR', 'PROBE_API_BURST', 'PROBE_API_PER_SECOND', 'BROWSER_API_BURST', 'BROWSER_API_PER_SECOND', 'POWER_WORKERS', 'SESSION_PAGE_BURST', 'SESSION_PAGE_PER_SECOND'];
+const NAMES = ['DB_HOST', 'DB_PORT', 'DB_NAME', 'DB_USER', 'DB_PASSWORD', 'DB_SOCKET', 'NEXTAUTH_SECRET', 'NEXTAUTH_URL', 'SMTP_URL', 'MAIL_FROM', 'MAILBOX_DIR', 'PROBE_API_BURST', 'PROBE_API_PER_SECOND', 'BROWSER_API_BURST', 'BROWSER_API_PER_SECOND', 'POWER_WORKERS', 'SESSION_PAGE_BURST', 'SESSION_PAGE_PER_SECOND'];
 const saved = Object.fromEntries(NAMES.map((n) => [n, process.env[n]]));
 
 async function envWith(values: Record<string, string | undefined>) {
@@ -28,6 +28,7 @@ describe('server settings', () => {
   it('reads the database settings with their defaults, and refuses a port out of range', async () => {
     expect((await envWith({ DB_NAME: 'n', DB_USER: 'u', DB_PASSWORD: 'p' })).databaseEnv()).toEqual({ DB_HOST: '127.0.0.1', DB_PORT: 3307, DB_NAME: 'n', DB_USER: 'u', DB_PASSWORD: 'p' });
     await expect(envWith({ DB_NAME: 'n', DB_USER: 'u', DB_PASSWORD: 'p', DB_PORT: '70000' }).then((e) => e.databaseEnv())).rejects.toThrow('DB_PORT');
+    expect((await envWith({ DB_NAME: 'n', DB_USER: 'u', DB_PASSWORD: 'p', DB_SOCKET: '/run/db.sock' })).databaseEnv()).toMatchObject({ DB_SOCKET: '/run/db.sock' });
   });
 
   it('refuses a session secret shorter than 16 characters', async () => {
