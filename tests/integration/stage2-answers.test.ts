@@ -66,6 +66,22 @@ describe('stage-2 answers', () => {
     expect(session?.completedAt).not.toBeNull();
   });
 
+  it('updates the session row a participant already has, in place, partial block first', async () => {
+    const all = answersFor(await s.serve('A-020'));
+    const startedAt = new Date('2026-11-30T09:00:00Z');
+    const before = await ParticipantSession.create({ studyId: s.study.id, designVersionId: s.version.id, participantId: 'A-020', status: 'served', source: 'page', apiKeyId: null, calibrationAnswers: null, startedAt, calibratedAt: startedAt, servedAt: startedAt, completedAt: null, lastActivityAt: startedAt });
+    expect(await recordStage2Answers({ studyId: s.study.id, participantId: 'A-020', answers: all.slice(0, 2), source: 'api' })).toMatchObject({ status: 'served' });
+    const partway = (await ParticipantSession.findAll({ where: { studyId: s.study.id, participantId: 'A-020' } })).map((r) => r.get({ plain: true }));
+    expect(partway).toHaveLength(1);
+    expect(partway[0]).toMatchObject({ id: before.id, status: 'served', source: 'page', servedAt: startedAt, completedAt: null });
+    expect(partway[0].lastActivityAt.getTime()).toBeGreaterThan(startedAt.getTime());
+    expect(await recordStage2Answers({ studyId: s.study.id, participantId: 'A-020', answers: all.slice(2), source: 'api' })).toMatchObject({ status: 'completed' });
+    const after = (await ParticipantSession.findAll({ where: { studyId: s.study.id, participantId: 'A-020' } })).map((r) => r.get({ plain: true }));
+    expect(after).toHaveLength(1);
+    expect(after[0]).toMatchObject({ id: before.id, status: 'completed', source: 'page', startedAt, servedAt: startedAt });
+    expect(after[0].completedAt).not.toBeNull();
+  });
+
   it('refuses answers for a participant no longer on record (known to this process) and writes no session row for them', async () => {
     const all = answersFor(await s.serve('A-011')); // serving tells this process what was served
     const row = (await Participant.findOne({ where: { studyId: s.study.id, participantId: 'A-011' } }))!;

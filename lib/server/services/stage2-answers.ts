@@ -1,4 +1,4 @@
-import { rawExecute, rawPipeline, rawQuery, settled, type RawStatement } from '@/db';
+import { rawExecute, rawPipeline, rawQuery, settled, type RawResult, type RawStatement } from '@/db';
 import type { AnswerSource } from '@/db/models/session';
 import { ConflictError, ValidationError } from '@/lib/server/errors';
 import { decodeJson } from '@/db/json';
@@ -52,7 +52,14 @@ const SELECT_SERVED = "SELECT id, design_version_id, JSON_EXTRACT(result, '$.ite
 // The version's real-rewards setting rides along (it can change at any time, so it is read, not cached).
 const SELECT_ANSWERS = 'SELECT item_id, chosen, EXISTS (SELECT 1 FROM reward_settings WHERE design_version_id = ? AND enabled) AS rewards FROM stage2_answers WHERE participant_ref = ?';
 // The session row reaches at least 'served'; 'completed' sticks once reached, whichever request finishes last.
-// Written only while the participant is on record (its row read by id, in the same statement).
+// A participant served through a key or the session page has the row already: it is updated in place
+// (UPDATE_SESSION). Only when that changes nothing (no row yet, e.g. a participant served in a batch,
+// or nothing new to write) does UPSERT_SESSION follow, in a round trip of its own; it writes only while
+// the participant is on record (its row read by id, in the same statement).
+const SESSION_STATUS = "IF(status = 'completed' OR ? = 'completed', 'completed', 'served')";
+const UPDATE_SESSION = `UPDATE participant_sessions
+  SET status = ${SESSION_STATUS}, served_at = COALESCE(served_at, ?), completed_at = COALESCE(completed_at, ?), last_activity_at = ?
+  WHERE study_id = ? AND participant_id = ?`;
 const UPSERT_SESSION = `INSERT INTO participant_sessions
   (study_id, design_version_id, participant_id, status, source, api_key_id, started_at, served_at, completed_at, last_activity_at)
   SELECT ?, ?, ?, ?, ?, ?, ?, ?, ?, ? FROM participants WHERE id = ?
@@ -133,10 +140,15 @@ export async function recordStage2Answers(input: RecordAnswersInput): Promise<Re
   // One round trip: the insert, the read-back of what is stored, and the session row. A request that
   // answers every served item completes the block whatever was stored before; any other is recorded as
   // served, and marked completed by a second statement when the read-back shows the block complete.
-  const sessionRow = (status: 'served' | 'completed'): RawStatement => [
+  const sessionUpdate = (status: 'served' | 'completed'): RawStatement => [UPDATE_SESSION, [status, at, status === 'completed' ? at : null, at, input.studyId, input.participantId]];
+  const sessionUpsert = (status: 'served' | 'completed'): RawStatement => [
     UPSERT_SESSION,
     [input.studyId, served.designVersionId, input.participantId, status, input.source, input.apiKeyId ?? null, at, at, status === 'completed' ? at : null, at, served.ref],
   ];
+  /** After `update` (sessionUpdate's outcome): the upsert when the update changed no row. */
+  const sessionWritten = async (status: 'served' | 'completed', update: RawResult): Promise<void> => {
+    if (Number(update.affectedRows ?? 0) === 0) await rawExecute(...sessionUpsert(status));
+  };
   const completesBlock = served.itemIds.every((id) => byItem.has(id));
   const statements: RawStatement[] = [];
   if (rows.length) {
@@ -148,7 +160,8 @@ export async function recordStage2Answers(input: RecordAnswersInput): Promise<Re
       values,
     ]);
   }
-  statements.push([SELECT_ANSWERS, [served.designVersionId, served.ref]], sessionRow(completesBlock ? 'completed' : 'served'));
+  const firstStatus = completesBlock ? 'completed' : 'served';
+  statements.push([SELECT_ANSWERS, [served.designVersionId, served.ref]], sessionUpdate(firstStatus));
   const outcomes = await rawPipeline(statements);
   const recorded = rows.length ? Number(settled(outcomes[0]).affectedRows ?? 0) : 0;
   const storedRows = settled(outcomes[outcomes.length - 2]);
@@ -158,11 +171,11 @@ export async function recordStage2Answers(input: RecordAnswersInput): Promise<Re
     servedCache.delete(`${input.studyId}:${input.participantId}`);
     throw new ValidationError([{ path: 'participantId', message: `Participant ${input.participantId} is no longer on record.` }], 'Stage-2 answers arrived for an unknown participant.');
   }
-  settled(outcomes[outcomes.length - 1]);
+  await sessionWritten(firstStatus, settled(outcomes[outcomes.length - 1]));
   const changed = rows.filter((a) => stored.get(a.itemId) !== a.chosen);
   const unanswered = served.itemIds.filter((id) => !stored.has(id));
   const status = unanswered.length === 0 ? 'completed' : 'served';
-  if (status === 'completed' && !completesBlock) await rawExecute(...sessionRow('completed'));
+  if (status === 'completed' && !completesBlock) await sessionWritten('completed', await rawExecute(...sessionUpdate('completed')));
   if (changed.length) {
     throw new ConflictError(
       `Participant ${input.participantId} already answered ${changed.map((a) => a.itemId).join(', ')} differently; the first answers stay.` +
