@@ -157,7 +157,11 @@ async function main() {
     // Requests autocannon gave up on at the end may still be running on the server; deleting
     // their study under them would only fill the server's log with deadlocks.
     await new Promise((resolve) => setTimeout(resolve, 1000));
-    if (!process.env.KEEP) await conn.query('DELETE FROM studies WHERE id = ?', [studyId]);
+    if (!process.env.KEEP) {
+      await conn.query('DELETE FROM studies WHERE id = ?', [studyId]);
+      // InnoDB clears the deleted rows in the background, on the same cores the next run would use.
+      console.log('Scratch study deleted; MariaDB purges its rows for several seconds: let it settle before running the benchmark again.');
+    }
     await conn.end();
   }
 }
