@@ -1,7 +1,7 @@
 import type { CalibrationItem } from '../calibrationItems';
 import { optimiseLateDelay } from '../optimiseLateDelay';
 import { designChoiceModel } from '../designChoiceModel';
-import { estimateRates, type Choice, type EstimateFlag, type RateEstimate } from '../estimateRates';
+import { estimateRates, type Choice, type EstimateFlag, type RateEstimate, type RateEstimates } from '../estimateRates';
 import { extrapolationWarning, type ExtrapolationWarning } from '../extrapolationWarning';
 import { createRandom } from '../random';
 import { assembleBlock } from './assembleBlock';
@@ -109,7 +109,7 @@ export function serveParticipant(
       laterDelay: i.laterDelay,
       targetRate: Number.NaN, // not read by estimateRates, which computes each tie rate itself
     }));
-    const fit = estimateRates(calibration.map((i) => choices.get(i.id)!), fitItems, design.spec.model, designChoiceModel(design.spec));
+    const fit = calibrationFit(bank, design, calibration.map((i) => choices.get(i.id)!), fitItems);
     estimates = { kSmall: summary(fit.small), kLarge: summary(fit.large), choiceSensitivity: fit.sensitivity };
     calibrationDelays = calibration.map((i) => i.laterDelay);
     answers = fitItems.map((item, k) => ({ ...item, later: choices.get(calibration[k].id) === 'LL' }));
@@ -156,7 +156,28 @@ export function serveParticipant(
 }
 
 function summary(e: RateEstimate): RateSummary {
-  return { rate: e.rate, standardErrorLog: e.standardErrorLog, interval: e.interval, flags: e.flags };
+  return { rate: e.rate, standardErrorLog: e.standardErrorLog, interval: e.interval, flags: [...e.flags] };
+}
+
+// Fits of calibration answers already seen, per item bank: a fit is a function of the bank's
+// calibration items, the design's model and choice model, and the answers alone, so the same answer
+// pattern is fitted once per bank and process. Patterns repeat: a consistent chooser of n items per
+// magnitude gives one of (n + 1)² of them. Up to FITS_PER_BANK patterns per bank are kept.
+const fits = new WeakMap<ItemBank, Map<string, RateEstimates>>();
+const FITS_PER_BANK = 4096;
+
+function calibrationFit(bank: ItemBank, design: BankDesign, answers: Choice[], items: CalibrationItem[]): RateEstimates {
+  const choiceModel = designChoiceModel(design.spec);
+  const key = `${JSON.stringify(design.spec.model)} ${choiceModel.sensitivity} ${choiceModel.lapse} ${answers.join('')}`;
+  let memo = fits.get(bank);
+  if (memo === undefined) fits.set(bank, (memo = new Map()));
+  let fit = memo.get(key);
+  if (fit === undefined) {
+    fit = estimateRates(answers, items, design.spec.model, choiceModel);
+    if (memo.size >= FITS_PER_BANK) memo.delete(memo.keys().next().value!);
+    memo.set(key, fit);
+  }
+  return fit;
 }
 
 function readResponses(bank: ItemBank, responses: Record<string, string>): Map<string, Choice> {
