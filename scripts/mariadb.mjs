@@ -420,6 +420,7 @@ async function main(argv) {
     const env = await startDatabase({ instance, fresh });
     const where = isExternal(instance) ? 'external server' : path.relative(ROOT, instanceConfig(instance).dir);
     console.log(`MariaDB (${instance}) is up: ${env.DB_USER}@${env.DB_HOST}:${env.DB_PORT}/${env.DB_NAME} (${where})`);
+    if (env.DB_SOCKET) console.log(`Its socket, which the app connects through: DB_SOCKET=${env.DB_SOCKET}`);
     console.log(instance === 'app' ? 'The password is DB_PASSWORD in .env.local.' : `Credentials: ${instanceConfig(instance).credentials}`);
   } else if (command === 'stop') {
     const stopped = await stopDatabase({ instance, log: console.log });
