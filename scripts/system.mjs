@@ -66,7 +66,6 @@ export function spawnNpx(args, { env = process.env, stdio = 'inherit', cwd } = {
   return spawn('npx', ['--no-install', ...args], { env, stdio, cwd, detached: true });
 }
 
-/** Spawns `node <args>` with this Node binary, in its own process group like spawnNpx. */
 /**
  * Node options of the production server (scripts/serve.mjs). Each session-API request allocates a
  * few kB of short-lived objects (the parsed body, the reply's JSON); a young generation of 32 MB
@@ -75,6 +74,7 @@ export function spawnNpx(args, { env = process.env, stdio = 'inherit', cwd } = {
  */
 export const SERVER_NODE_OPTIONS = ['--max-semi-space-size=32'];
 
+/** Spawns `node <args>` with this Node binary, in its own process group like spawnNpx. */
 export function spawnNode(args, { env = process.env, stdio = 'inherit', cwd } = {}) {
   return spawn(process.execPath, args, { env, stdio, cwd, detached: true });
 }
