@@ -61,6 +61,14 @@ export async function rawQuery(sql: string, values: readonly unknown[]): Promise
   }
 }
 
+/**
+ * A date as the raw statements take it: DATETIME text in UTC, as Sequelize writes dates with the
+ * pool's +00:00 time zone (a column of whole seconds keeps whole seconds).
+ */
+export function sqlDate(date: Date): string {
+  return date.toISOString().slice(0, 23).replace('T', ' ');
+}
+
 /** One statement of a pipeline: SQL with `?` placeholders and its values (strings, numbers or null). */
 export type RawStatement = readonly [sql: string, values: readonly unknown[]];
 
@@ -76,7 +84,7 @@ type PreparingConnection = { prepare(sql: string): Promise<Prepared> };
  * Each statement runs on its own (autocommit), in the order given, and a later one runs even when
  * an earlier one failed: when it must depend on an earlier one, say so in its SQL (`ROW_COUNT()`
  * is the number of rows the statement before it wrote, -1 after an error). Pass dates as text
- * (UTC), not Date objects. Resolves with every statement's outcome, in order.
+ * (sqlDate), not Date objects. Resolves with every statement's outcome, in order.
  */
 export async function rawPipeline(statements: readonly RawStatement[]): Promise<PromiseSettledResult<RawResult>[]> {
   const manager = db().connectionManager;

@@ -1,5 +1,5 @@
 import { Participant } from '@/db/models';
-import { rawPipeline, rawQuery, settled } from '@/db';
+import { rawPipeline, rawQuery, settled, sqlDate } from '@/db';
 import { ConflictError, ValidationError } from '@/lib/server/errors';
 import { contentHash } from '@/lib/shared/canonical-json';
 import { ItemBankInputError, serveParticipant, type ServedItems } from '@/lib/design';
@@ -26,11 +26,6 @@ const INSERT_BY_USER = `INSERT INTO participants (${COLUMNS}) VALUES (?, ?, ?, ?
 const INSERT_BY_PAGE = `INSERT INTO participants (${COLUMNS}) VALUES (?, ?, ?, ?, ?, ?, ?, 'page', NULL, NULL, ?)`;
 const READ_BACK = 'SELECT responses_hash, design_version_id, result FROM participants WHERE study_id = ? AND participant_id = ?';
 const ER_DUP_ENTRY = 1062;
-
-/** A DATETIME literal in UTC, as Sequelize writes dates with the pool's +00:00 time zone (the column keeps whole seconds). */
-function sqlDate(date: Date): string {
-  return date.toISOString().slice(0, 23).replace('T', ' ');
-}
 
 /**
  * Personalised probe items for one participant, recorded once; the reply as the JSON text that

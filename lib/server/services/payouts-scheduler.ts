@@ -1,5 +1,5 @@
 import { QueryTypes } from 'sequelize';
-import { db, rawQuery } from '@/db';
+import { db, rawQuery, sqlDate } from '@/db';
 import { PaymentDetail, Payout } from '@/db/models';
 import { paymentEnv } from '@/lib/server/env';
 import { appLink } from '@/lib/server/mail/links';
@@ -56,11 +56,6 @@ async function claim(id: number, now: Date): Promise<boolean> {
     [sqlDate(new Date(now.getTime() + CLAIM_MS)), at, id, utcDay(now), at, at],
   );
   return Number(result.affectedRows ?? 0) === 1;
-}
-
-/** A DATETIME literal in UTC (the pool's time zone). */
-function sqlDate(date: Date): string {
-  return date.toISOString().slice(0, 23).replace('T', ' ');
 }
 
 /** Backoff after the n-th failed attempt: base · 2^(n − 1) minutes (15, 30, 60, … by default). */

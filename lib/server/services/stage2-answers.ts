@@ -1,4 +1,4 @@
-import { rawExecute, rawPipeline, rawQuery, settled, type RawResult, type RawStatement } from '@/db';
+import { rawExecute, rawPipeline, rawQuery, settled, sqlDate, type RawResult, type RawStatement } from '@/db';
 import type { AnswerSource } from '@/db/models/session';
 import { ConflictError, ValidationError } from '@/lib/server/errors';
 import { decodeJson } from '@/db/json';
@@ -89,10 +89,6 @@ async function servedParticipant(studyId: number, participantId: string): Promis
   const served = { ref: Number(row.id), designVersionId: Number(row.design_version_id), itemIds };
   rememberServedParticipant(studyId, participantId, served);
   return served;
-}
-
-function sqlDate(date: Date): string {
-  return date.toISOString().slice(0, 23).replace('T', ' ');
 }
 
 /**
