@@ -15,6 +15,9 @@ import { refitParticipant, simulateStudy } from '@/lib/design';
 import { design as refitDesign, truth as refitTruth } from '../unit/analysis/support';
 import { runScenariosOnQueue } from '@/lib/server/jobs/power/queue';
 import { QUEUES } from '@/lib/server/jobs/chunk-queue';
+import { EstimateExchange, estimateKeys } from '@/lib/server/jobs/power/estimate-exchange';
+import type { ChunkTask } from '@/lib/server/jobs/power/worker';
+import { SharedEstimates } from '@/lib/design/power/sharedEstimates';
 import { ctx, makeStudyWithTeam, migrateUp, requestAs } from '../support/integration';
 import { freezeQueuedDesign, queueWorkersOfFile, QUEUED_DESIGN, QUEUED_RUN } from '../support/power-queue';
 import { startQueueWorker, testRedisUrl, type Child } from '../support/processes';
@@ -29,6 +32,11 @@ let inProcess: Awaited<ReturnType<typeof runScenario>>;
 beforeAll(async () => {
   inProcess = await runScenario(scenario, { workers: 1 });
 });
+
+/** What a worker's log says of each power chunk's calibration estimates: taken from other workers, estimated itself. */
+function estimatesShared(worker: Child): Array<{ taken: number; estimated: number }> {
+  return [...worker.output().matchAll(/power chunk \d+ of \S+ done \(calibration estimates: (\d+) taken from other workers, (\d+) estimated here\)/g)].map((m) => ({ taken: Number(m[1]), estimated: Number(m[2]) }));
+}
 
 /** The chunks a worker finished, by its own log. */
 function chunksDone(worker: Child): number[] {
@@ -47,6 +55,18 @@ describe('power runs on the shared queue', () => {
     expect([...chunksDone(workers[0]), ...chunksDone(workers[1])].sort((a, b) => a - b)).toEqual(Array.from({ length: 24 }, (_, i) => i));
     expect(progress.at(-1)).toBe(240);
     expect(progress).toEqual([...progress].sort((a, b) => a - b));
+    // the two processes shared their calibration estimates (and the tallies above are unchanged by it)
+    const shared = [...estimatesShared(workers[0]), ...estimatesShared(workers[1])];
+    expect(shared).toHaveLength(24);
+    expect(shared.reduce((sum, chunk) => sum + chunk.taken, 0)).toBeGreaterThan(0);
+    expect(shared.reduce((sum, chunk) => sum + chunk.estimated, 0)).toBeGreaterThan(0);
+    // and the run's lists of them went with the run
+    const redis = new Redis(testRedisUrl(), { maxRetriesPerRequest: null });
+    try {
+      expect(await redis.keys('switchback:run:*:estimates:*')).toEqual([]);
+    } finally {
+      await redis.quit();
+    }
   }, 120_000);
 
   it('completes with the same tallies when a worker process is killed mid-chunk: another takes its chunk over', async () => {
@@ -117,4 +137,50 @@ describe('power runs on the shared queue', () => {
     const refitChunks = (w: Child) => [...w.output().matchAll(/analysis chunk (\d+) of \S+ done/g)].length;
     expect(refitChunks(workers[0]) + refitChunks(workers[1])).toBe(3); // 60 participants, 25 a chunk
   }, 120_000);
+});
+
+describe('calibration estimates shared between worker processes', () => {
+  it('reach another process through the run\'s list, once each, and never come back to the process that added them', async () => {
+    const redis = new Redis(testRedisUrl(), { maxRetriesPerRequest: null });
+    const [first, second] = [new EstimateExchange(redis), new EstimateExchange(redis)];
+    const runKey = `exchange-test-${Date.now()}`;
+    const [key] = estimateKeys(runKey, [scenario]);
+    try {
+      const ofFirst: ChunkTask = { key: runKey, index: 0, scenario, from: 0, to: 10 };
+      const ofSecond: ChunkTask = { ...ofFirst, from: 10, to: 20 };
+      expect(await first.beforeChunk(runKey, ofFirst)).toBe(0);
+      expect(ofFirst.estimates).toBeInstanceOf(SharedArrayBuffer);
+      // a thread of the first process estimates two response vectors
+      const mine = new SharedEstimates(ofFirst.estimates!);
+      mine.store(0, 0b1011, 0.0125, false, false);
+      mine.store(1, 0b1111, 0.5, true, true);
+      expect(await first.afterChunk(runKey, ofFirst)).toBe(2);
+      expect(await first.afterChunk(runKey, ofFirst)).toBe(0);
+      expect(await redis.llen(key)).toBe(1);
+      expect(await redis.ttl(key)).toBeGreaterThan(0);
+
+      expect(await second.beforeChunk(runKey, ofSecond)).toBe(2);
+      const theirs = new SharedEstimates(ofSecond.estimates!);
+      expect(theirs.rateAt(theirs.find(0, 0b1011))).toBe(0.0125);
+      expect(theirs.flagsAt(theirs.find(1, 0b1111))).toEqual({ flagged: true, fallback: true });
+      expect(await second.afterChunk(runKey, ofSecond)).toBe(0); // taken, not estimated there: not added again
+      expect(await second.beforeChunk(runKey, ofSecond)).toBe(0);
+      expect(await first.beforeChunk(runKey, ofFirst)).toBe(0);
+    } finally {
+      await redis.del(key);
+      await redis.quit();
+    }
+  });
+
+  it('are not kept for a design without re-estimated calibration answers', async () => {
+    const redis = new Redis(testRedisUrl(), { maxRetriesPerRequest: null });
+    try {
+      const task: ChunkTask = { key: 'exchange-test-fixed', index: 0, scenario: { ...scenario, calibration: 'known' }, from: 0, to: 10 };
+      expect(await new EstimateExchange(redis).beforeChunk('exchange-test-fixed', task)).toBe(0);
+      expect(task.estimates).toBeUndefined();
+      expect(estimateKeys('exchange-test-fixed', [task.scenario])).toEqual([]);
+    } finally {
+      await redis.quit();
+    }
+  });
 });

@@ -13,11 +13,12 @@ export type QueuedChunk<Task> = { runKey: string; chunk: number; task: Task };
 /**
  * Where a run's chunk results, cancel flag and first error live in Redis. Results are a hash
  * keyed by chunk number and written with HSETNX, so a chunk done twice (its first worker died
- * after computing it) is stored once.
+ * after computing it) is stored once. A power run's calibration estimates, which its worker
+ * processes share, are a list per design (power/estimate-exchange.ts).
  */
 export function runKeys(runKey: string) {
   const base = `switchback:run:${runKey}`;
-  return { results: `${base}:results`, cancel: `${base}:cancel`, error: `${base}:error` };
+  return { results: `${base}:results`, cancel: `${base}:cancel`, error: `${base}:error`, estimates: (design: string) => `${base}:estimates:${design}` };
 }
 
 /**
@@ -69,6 +70,8 @@ export type ChunkQueueOptions = {
    */
   onWorkerless?: (workerless: boolean) => void | Promise<void>;
   workerCheckMs?: number;
+  /** further Redis keys of the run, removed with its results when it ends (a power run's shared estimates) */
+  runData?: string[];
 };
 
 /**
@@ -129,6 +132,6 @@ export async function runChunksOnQueue<Task, Result>(job: QueueJob, runKey: stri
     const stored = await redis.hgetall(keys.results);
     return tasks.map((_, chunk) => decodeResult<Result>(stored[String(chunk)]));
   } finally {
-    await redis.del(keys.results, keys.error).catch(() => {});
+    await redis.del(keys.results, keys.error, ...(options.runData ?? [])).catch(() => {});
   }
 }

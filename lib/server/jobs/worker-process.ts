@@ -15,6 +15,8 @@ import { closeSharedRedis, sharedRedis } from '@/lib/server/redis';
 import { createThreadPool } from './thread-pool';
 import { defaultWorkerCount } from './power/run-scenario';
 import { encodeResult, QUEUES, RUN_KEYS_TTL_S, runKeys, type QueueJob, type QueuedChunk } from './chunk-queue';
+import { EstimateExchange } from './power/estimate-exchange';
+import type { ChunkTask } from './power/worker';
 
 const { values: flags } = parseArgs({ options: { threads: { type: 'string' }, verbose: { type: 'boolean', default: false } } });
 const log = (message: string) => console.log(`[switchback worker ${process.pid}] ${message}`);
@@ -27,12 +29,20 @@ if (!redisUrl || !redis) {
 }
 const threads = flags.threads ? Math.max(1, Math.min(16, Number.parseInt(flags.threads, 10) || 1)) : defaultWorkerCount();
 
-/** The processor of one queue: runs a chunk on `pool` unless its run was cancelled; a cancel mid-chunk stops the thread's task. */
+// power chunks share their calibration estimates with the other worker processes of their run
+const exchange = new EstimateExchange(redis);
+
+/**
+ * The processor of one queue: runs a chunk on `pool` unless its run was cancelled; a cancel
+ * mid-chunk stops the thread's task. A power chunk first takes the estimates other processes have
+ * added to its run, and adds its own before its result is stored.
+ */
 function processorFor(job: QueueJob, pool: Piscina) {
   return async (queued: Job<QueuedChunk<unknown>>): Promise<'done' | 'cancelled'> => {
     const { runKey, chunk, task } = queued.data;
     const keys = runKeys(runKey);
     if ((await redis!.exists(keys.cancel)) || (await redis!.hexists(keys.results, String(chunk)))) return 'cancelled';
+    const taken = job === 'power' ? await exchange.beforeChunk(runKey, task as ChunkTask) : 0;
     if (flags.verbose) log(`${job} chunk ${chunk} of ${runKey} started`);
     const abort = new AbortController();
     const watch = setInterval(() => {
@@ -54,9 +64,10 @@ function processorFor(job: QueueJob, pool: Piscina) {
     } finally {
       clearInterval(watch);
     }
+    const added = job === 'power' ? await exchange.afterChunk(runKey, task as ChunkTask) : 0;
     // first write wins: a chunk retried after its worker died is not stored (or counted) twice
     await redis!.multi().hsetnx(keys.results, String(chunk), encodeResult(result)).expire(keys.results, RUN_KEYS_TTL_S).exec();
-    if (flags.verbose) log(`${job} chunk ${chunk} of ${runKey} done`);
+    if (flags.verbose) log(`${job} chunk ${chunk} of ${runKey} done` + (job === 'power' ? ` (calibration estimates: ${taken} taken from other workers, ${added} estimated here)` : ''));
     return 'done';
   };
 }

@@ -43,6 +43,41 @@ describe('SharedEstimates', () => {
     expect(table.stored(1)).toBe(0);
   });
 
+  it('exports what was stored here since a point of its log, for another process to import, and imports nothing twice', () => {
+    const here = new SharedEstimates(sharedEstimateBuffer());
+    here.store(0, 0b1011, 0.01, false, false);
+    here.store(1, 0b1011, 0.2, true, false);
+    const first = here.exportEntries(0);
+    expect(first.next).toBe(2);
+    expect(first.entries.length).toBe(2 * 13);
+    here.store(0, 0b1100, 0.03, true, true);
+    const second = here.exportEntries(first.next);
+    expect(second.next).toBe(3);
+    expect(here.exportEntries(second.next).entries.length).toBe(0);
+
+    const there = new SharedEstimates(sharedEstimateBuffer());
+    there.store(0, 0b1100, 0.03, true, true); // estimated there too: the same number, not stored again
+    expect(there.importEntries(first.entries)).toBe(2);
+    expect(there.importEntries(second.entries)).toBe(0);
+    expect(there.importEntries(first.entries)).toBe(0);
+    for (const [magnitude, key] of [[0, 0b1011], [1, 0b1011], [0, 0b1100]] as const) {
+      const at = there.find(magnitude, key);
+      expect(there.rateAt(at)).toBe(here.rateAt(here.find(magnitude, key)));
+      expect(there.flagsAt(at)).toEqual(here.flagsAt(here.find(magnitude, key)));
+    }
+    // imported estimates are not exported again: only what was estimated there
+    expect(there.exportEntries(0).next).toBe(1);
+  });
+
+  it('refuses bytes that are not exported entries, naming the entry', () => {
+    const table = new SharedEstimates(sharedEstimateBuffer());
+    expect(() => table.importEntries(new Uint8Array(14))).toThrow(/entries/);
+    const zeroKey = new Uint8Array(26);
+    zeroKey.set([0, 0, 0, 5, 1], 0);
+    expect(() => table.importEntries(zeroKey)).toThrow(/entries\[1\]/);
+    expect(table.stored(0)).toBe(1); // the good first entry stays
+  });
+
   it('refuses a buffer it did not make, naming the option', () => {
     expect(() => new SharedEstimates(new SharedArrayBuffer(64))).toThrow(DesignInputError);
     expect(() => new SharedEstimates(new SharedArrayBuffer(64))).toThrow(/sharedEstimates/);

@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type { PowerScenario } from '@/lib/design/power/types';
 import { runChunksOnQueue } from '../chunk-queue';
+import { estimateKeys } from './estimate-exchange';
 import { mergeChunkResults, splitIntoChunks, type RunScenarioOptions, type ScenariosOutcome } from './run-scenario';
 import type { ChunkResult, ChunkTask } from './worker';
 
@@ -21,7 +22,8 @@ export type QueueRunOptions = Omit<RunScenarioOptions, 'workers'> & {
  * scenario reaches the workers), and whichever worker processes take them store each chunk's
  * tally under its chunk number. This process only reads progress, and merges the tallies in
  * chunk order when all are in, so the outcome equals the in-process run's for the same seed,
- * whatever the number and speed of workers. A stop cancels the run on every worker (null).
+ * whatever the number and speed of workers. The workers share their calibration estimates through
+ * the run's lists (EstimateExchange), which go with its results when the run ends. A stop cancels the run on every worker (null).
  */
 export async function runScenariosOnQueue(scenarios: readonly PowerScenario[], options: QueueRunOptions = {}): Promise<ScenariosOutcome> {
   const chunks = splitIntoChunks(scenarios, options.chunkSize);
@@ -33,6 +35,7 @@ export async function runScenariosOnQueue(scenarios: readonly PowerScenario[], o
     pollMs: options.pollMs,
     onWorkerless: options.onWorkerless,
     workerCheckMs: options.workerCheckMs,
+    runData: estimateKeys(runKey, scenarios),
     onChunksDone: (done) => options.onProgress?.(done.reduce((sum, chunk) => sum + (chunks[chunk].to - chunks[chunk].from), 0)),
   });
   return results ? mergeChunkResults(scenarios.length, chunks, results) : null;

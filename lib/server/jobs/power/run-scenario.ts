@@ -129,10 +129,18 @@ export async function runScenarios(scenarios: readonly PowerScenario[], options:
 function sharedEstimateBuffers(scenarios: readonly PowerScenario[], threads: number): Array<SharedArrayBuffer | undefined> {
   const byDesign = new Map<string, SharedArrayBuffer>();
   return scenarios.map((scenario) => {
-    if (threads < 2 || scenario.calibration !== 'simulated' || scenario.design.spec.mode !== 'personalised') return undefined;
+    if (threads < 2 || !sharesEstimates(scenario)) return undefined;
     const key = JSON.stringify(scenario.design);
     let buffer = byDesign.get(key);
     if (!buffer) byDesign.set(key, (buffer = sharedEstimateBuffer()));
     return buffer;
   });
+}
+
+/**
+ * Whether a scenario's threads can share calibration estimates: a simulated calibration block of a
+ * personalised design, where each participant's answers are re-estimated.
+ */
+export function sharesEstimates(scenario: PowerScenario): boolean {
+  return scenario.calibration === 'simulated' && scenario.design.spec.mode === 'personalised';
 }

@@ -1,0 +1,87 @@
+import { createHash, randomBytes } from 'node:crypto';
+import type { Redis } from 'ioredis';
+import { sharedEstimateBuffer, SharedEstimates } from '@/lib/design/power/sharedEstimates';
+import type { PowerScenario } from '@/lib/design/power/types';
+import { RUN_KEYS_TTL_S, runKeys } from '../chunk-queue';
+import { sharesEstimates } from './run-scenario';
+import type { ChunkTask } from './worker';
+
+/** The name of a design's estimates within a run (the assumed truth and its stress truths share one). */
+export function designTag(scenario: PowerScenario): string {
+  return createHash('sha256').update(JSON.stringify(scenario.design)).digest('hex').slice(0, 16);
+}
+
+/** The Redis lists of a run's shared estimates, one per design of its scenarios (removed when the run ends). */
+export function estimateKeys(runKey: string, scenarios: readonly PowerScenario[]): string[] {
+  return [...new Set(scenarios.filter(sharesEstimates).map((s) => runKeys(runKey).estimates(designTag(s))))];
+}
+
+/** What a worker process keeps of one design of one run: its threads' table and how far it has read and written the run's list. */
+type Held = { runKey: string; table: SharedEstimates; buffer: SharedArrayBuffer; read: number; exported: number };
+
+/** Runs whose tables a worker process keeps (a table is about 9 MB); the oldest goes first. */
+const RUNS_KEPT = 2;
+
+/**
+ * The calibration estimates of a power run, shared by the worker processes that take its chunks
+ * (`npm run worker`, on any machine that reaches the Redis). Within a process, the chunk's threads
+ * share one table (SharedEstimates), as in an in-process run. Between processes the table travels
+ * through a Redis list per run and design, at chunk boundaries: before a chunk the process stores
+ * what the others have added since it last looked, and after it adds what its own threads estimated.
+ * An estimate depends only on the response vector and the design, so where it was computed changes
+ * nothing in the tallies; sharing only saves estimating the same vector again in every process.
+ */
+export class EstimateExchange {
+  /** Marks this process's own additions, so it does not store them a second time. */
+  private readonly origin = randomBytes(8);
+  private readonly held = new Map<string, Held>();
+
+  constructor(private readonly redis: Redis) {}
+
+  /**
+   * Gives the chunk its design's table (in the task, for its thread) after storing the other
+   * processes' latest estimates in it; returns how many of those were new here.
+   */
+  async beforeChunk(runKey: string, task: ChunkTask): Promise<number> {
+    if (!sharesEstimates(task.scenario)) return 0;
+    const key = runKeys(runKey).estimates(designTag(task.scenario));
+    const entry = this.entry(runKey, key);
+    task.estimates = entry.buffer;
+    const start = entry.read;
+    const items = await this.redis.lrangeBuffer(key, start, -1);
+    entry.read = Math.max(entry.read, start + items.length);
+    let added = 0;
+    for (const item of items) {
+      if (item.subarray(0, this.origin.length).equals(this.origin)) continue;
+      added += entry.table.importEntries(item.subarray(this.origin.length));
+    }
+    return added;
+  }
+
+  /** Adds to the run's list what this process's threads have estimated since it last added; returns how many. */
+  async afterChunk(runKey: string, task: ChunkTask): Promise<number> {
+    if (!sharesEstimates(task.scenario)) return 0;
+    const key = runKeys(runKey).estimates(designTag(task.scenario));
+    const entry = this.entry(runKey, key);
+    const { entries, next } = entry.table.exportEntries(entry.exported);
+    const count = next - entry.exported;
+    entry.exported = next;
+    if (count === 0) return 0;
+    await this.redis.multi().rpush(key, Buffer.concat([this.origin, entries])).expire(key, RUN_KEYS_TTL_S).exec();
+    return count;
+  }
+
+  private entry(runKey: string, key: string): Held {
+    let entry = this.held.get(key);
+    if (!entry) {
+      const runs = [...new Set([...this.held.values()].map((held) => held.runKey))];
+      if (!runs.includes(runKey) && runs.length >= RUNS_KEPT) {
+        for (const [other, held] of this.held) if (held.runKey === runs[0]) this.held.delete(other);
+      }
+      const buffer = sharedEstimateBuffer();
+      entry = { runKey, table: new SharedEstimates(buffer), buffer, read: 0, exported: 0 };
+      this.held.set(key, entry);
+    }
+    return entry;
+  }
+}
