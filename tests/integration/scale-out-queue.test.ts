@@ -162,7 +162,7 @@ describe('calibration estimates shared between worker processes', () => {
       expect(await second.beforeChunk(runKey, ofSecond)).toBe(2);
       const theirs = new SharedEstimates(ofSecond.estimates!);
       expect(theirs.rateAt(theirs.find(0, 0b1011))).toBe(0.0125);
-      expect(theirs.flagsAt(theirs.find(1, 0b1111))).toEqual({ flagged: true, fallback: true });
+      expect([theirs.flaggedAt(theirs.find(1, 0b1111)), theirs.fallbackAt(theirs.find(1, 0b1111))]).toEqual([true, true]);
       expect(await second.afterChunk(runKey, ofSecond)).toBe(0); // taken, not estimated there: not added again
       expect(await second.beforeChunk(runKey, ofSecond)).toBe(0);
       expect(await first.beforeChunk(runKey, ofFirst)).toBe(0);

@@ -108,7 +108,8 @@ function coreFor(design: PowerDesign, coverDelay: number): CalibrationCore {
  *
  * Estimates depend only on a magnitude's response vector, so they are memoised by it, across the
  * truths of a run too (CalibrationCore): an exact cache of a deterministic function, which keeps
- * results identical with or without it.
+ * results identical with or without it. Given a run's shared table (SharedEstimates), the memo is
+ * that table while it has room, shared with the run's other threads; otherwise a Map per magnitude.
  */
 export class CalibrationModel {
   readonly longestDelay: number;
@@ -158,27 +159,36 @@ export class CalibrationModel {
       this.bits[i] = later;
       key = key * 2 + later;
     }
+    const shared = this.core.shared;
+    if (shared !== null) {
+      // the run's shared table is the memo while it has room: flat arrays, a fraction of a Map's memory
+      const at = shared.find(magnitude, key);
+      if (at >= 0) return { rate: shared.rateAt(at), flagged: shared.flaggedAt(at), fallback: shared.fallbackAt(at), key, profile: null };
+      if (!shared.full(magnitude)) {
+        const estimate = this.estimate(block, key);
+        shared.store(magnitude, key, estimate.rate, estimate.flagged, estimate.fallback);
+        return estimate;
+      }
+    }
     const cache = this.core.caches[magnitude];
     let estimate = cache.get(key);
     if (estimate === undefined) {
-      const shared = this.core.shared;
-      const at = shared ? shared.find(magnitude, key) : -1;
-      if (at >= 0) {
-        estimate = { rate: shared!.rateAt(at), ...shared!.flagsAt(at), key, profile: null };
-      } else {
-        const fit = block.estimator.estimate(this.bits);
-        estimate = {
-          rate: fit.rate,
-          flagged: fit.flags.length > 0,
-          fallback: fit.flags.some((f) => f === 'all-sooner' || f === 'all-later' || f === 'non-monotone'),
-          key,
-          profile: block.profile ? block.profile.profile(this.bits) : null,
-        };
-        shared?.store(magnitude, key, estimate.rate, estimate.flagged, estimate.fallback);
-      }
+      estimate = this.estimate(block, key);
       if (cache.size < CACHE_LIMIT) cache.set(key, estimate);
     }
     return estimate;
+  }
+
+  /** The estimate of the response vector in `bits` (its number is `key`). */
+  private estimate(block: Block, key: number): CalibrationEstimate {
+    const fit = block.estimator.estimate(this.bits);
+    return {
+      rate: fit.rate,
+      flagged: fit.flags.length > 0,
+      fallback: fit.flags.some((f) => f === 'all-sooner' || f === 'all-later' || f === 'non-monotone'),
+      key,
+      profile: block.profile ? block.profile.profile(this.bits) : null,
+    };
   }
 
   /** D^s for the later delays of a magnitude's block, computed again only when s changes. */

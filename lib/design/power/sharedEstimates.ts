@@ -61,7 +61,7 @@ export class SharedEstimates {
   /**
    * The stored estimate of response vector `key` (a leading 1, then up to SHARED_MAX_ITEMS answer
    * bits) of a magnitude (0 small, 1 large): its slot, or −1 when none is published. Read it with
-   * rateAt and flagsAt.
+   * rateAt, flaggedAt and fallbackAt.
    */
   find(magnitude: 0 | 1, key: number): number {
     const base = magnitude * SLOTS;
@@ -81,15 +81,24 @@ export class SharedEstimates {
     return this.rates[at];
   }
 
-  /** Whether the estimate in a slot find returned is flagged, and whether it sends the participant to the fallback set. */
-  flagsAt(at: number): { flagged: boolean; fallback: boolean } {
-    const state = this.states[at];
-    return { flagged: (state & 2) !== 0, fallback: (state & 4) !== 0 };
+  /** Whether the estimate in a slot find returned is flagged. */
+  flaggedAt(at: number): boolean {
+    return (this.states[at] & 2) !== 0;
+  }
+
+  /** Whether the estimate in a slot find returned sends the participant to the fallback set. */
+  fallbackAt(at: number): boolean {
+    return (this.states[at] & 4) !== 0;
   }
 
   /** How many estimates of a magnitude are stored. */
   stored(magnitude: 0 | 1): number {
     return Atomics.load(this.filled, magnitude);
+  }
+
+  /** Whether a magnitude's table has reached its fill limit (nothing more is stored there). */
+  full(magnitude: 0 | 1): boolean {
+    return Atomics.load(this.filled, magnitude) >= FILL_LIMIT;
   }
 
   /** Stores an estimate (first writer wins; a full table or a long probe stores nothing) and logs it for exportEntries. */

@@ -15,9 +15,9 @@ describe('SharedEstimates', () => {
     const small = table.find(0, 5);
     const large = table.find(1, 5);
     expect(table.rateAt(small)).toBe(0.0123);
-    expect(table.flagsAt(small)).toEqual({ flagged: false, fallback: false });
+    expect([table.flaggedAt(small), table.fallbackAt(small)]).toEqual([false, false]);
     expect(table.rateAt(large)).toBe(0.5);
-    expect(table.flagsAt(large)).toEqual({ flagged: true, fallback: true });
+    expect([table.flaggedAt(large), table.fallbackAt(large)]).toEqual([true, true]);
     expect(table.find(0, 6)).toBe(-1);
     // the first writer wins: a second store of the same vector changes nothing
     table.store(0, 5, 99, true, false);
@@ -63,7 +63,7 @@ describe('SharedEstimates', () => {
     for (const [magnitude, key] of [[0, 0b1011], [1, 0b1011], [0, 0b1100]] as const) {
       const at = there.find(magnitude, key);
       expect(there.rateAt(at)).toBe(here.rateAt(here.find(magnitude, key)));
-      expect(there.flagsAt(at)).toEqual(here.flagsAt(here.find(magnitude, key)));
+      expect([there.flaggedAt(at), there.fallbackAt(at)]).toEqual([here.flaggedAt(here.find(magnitude, key)), here.fallbackAt(here.find(magnitude, key))]);
     }
     // imported estimates are not exported again: only what was estimated there
     expect(there.exportEntries(0).next).toBe(1);
@@ -102,4 +102,17 @@ describe('a run whose threads share their calibration estimates', () => {
     expect(table.stored(0)).toBeGreaterThan(0);
     expect(table.stored(1)).toBeGreaterThan(0);
   });
+
+  it('gives the same tallies when the table is full: the thread then keeps the estimates it cannot store in a memo of its own', () => {
+    const direct = createPowerSimulator(scenario).run(0, 16);
+    const buffer = sharedEstimateBuffer();
+    const table = new SharedEstimates(buffer);
+    // filled to its limit with keys no response vector of this design has (10 items a magnitude: its keys are below 2^11)
+    for (let key = 1 << 30; !table.full(0) || !table.full(1); key++) {
+      table.store(0, key, 1, false, false);
+      table.store(1, key, 1, false, false);
+    }
+    expect(createPowerSimulator(scenario, { sharedEstimates: buffer }).run(0, 16)).toEqual(direct);
+  });
 });
+

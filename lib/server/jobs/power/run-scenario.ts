@@ -83,7 +83,7 @@ export async function runScenarios(scenarios: readonly PowerScenario[], options:
   const key = randomUUID();
   const abort = new AbortController();
   setMaxListeners(chunks.length + 10, abort.signal); // every waiting chunk listens for the stop
-  const estimates = sharedEstimateBuffers(scenarios, threads);
+  const estimates = sharedEstimateBuffers(scenarios);
   const results: ChunkResult[] = new Array(chunks.length);
   let completed = 0;
   let stopped = false;
@@ -123,13 +123,14 @@ export async function runScenarios(scenarios: readonly PowerScenario[], options:
 
 /**
  * Per scenario, the shared-estimate buffer its threads use (one per distinct design of the run, so
- * the assumed truth and its stress truths share one): only with two threads or more and a simulated
- * calibration block of a personalised design, where there is something to share.
+ * the assumed truth and its stress truths share one), for a simulated calibration block of a
+ * personalised design. With one thread too: the table is then that thread's memo of estimates,
+ * which it reads faster than a Map of them.
  */
-function sharedEstimateBuffers(scenarios: readonly PowerScenario[], threads: number): Array<SharedArrayBuffer | undefined> {
+function sharedEstimateBuffers(scenarios: readonly PowerScenario[]): Array<SharedArrayBuffer | undefined> {
   const byDesign = new Map<string, SharedArrayBuffer>();
   return scenarios.map((scenario) => {
-    if (threads < 2 || !sharesEstimates(scenario)) return undefined;
+    if (!sharesEstimates(scenario)) return undefined;
     const key = JSON.stringify(scenario.design);
     let buffer = byDesign.get(key);
     if (!buffer) byDesign.set(key, (buffer = sharedEstimateBuffer()));
