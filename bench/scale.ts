@@ -61,7 +61,7 @@ async function timedOnQueue(workerCount: number, url: string, scenario: PowerSce
   try {
     const before = workers.map((w) => cpuSeconds(w.pid!));
     const started = performance.now();
-    const outcome = await runScenariosOnQueue([scenario], { chunkSize, pollMs: 20 });
+    const outcome = await runScenariosOnQueue([scenario], { chunkSize });
     const seconds = (performance.now() - started) / 1000;
     const cpu = workers.reduce((sum, w, i) => sum + cpuSeconds(w.pid!) - before[i], 0);
     return { seconds, cpu, outcome };

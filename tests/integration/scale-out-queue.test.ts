@@ -38,6 +38,9 @@ function estimatesShared(worker: Child): Array<{ taken: number; estimated: numbe
   return [...worker.output().matchAll(/power chunk \d+ of \S+ done \(calibration estimates: (\d+) taken from other workers, (\d+) estimated here\)/g)].map((m) => ({ taken: Number(m[1]), estimated: Number(m[2]) }));
 }
 
+/** How long a test waits for a worker's log line about a chunk the run has already heard of. */
+const LOGGED = { timeout: 5_000, interval: 50 };
+
 /** The chunks a worker finished, by its own log. */
 function chunksDone(worker: Child): number[] {
   return [...worker.output().matchAll(/power chunk (\d+) of \S+ done/g)].map((m) => Number(m[1]));
@@ -49,7 +52,9 @@ describe('power runs on the shared queue', () => {
     const progress: number[] = [];
     const outcome = await runScenariosOnQueue([scenario], { chunkSize: 10, onProgress: (n) => void progress.push(n) });
     expect(outcome![0]).toEqual(inProcess);
-    // both processes took chunks, and between them every chunk exactly once
+    // both processes took chunks, and between them every chunk exactly once (a worker logs a chunk
+    // just after storing it, so the run can have heard of the last one before its line is read)
+    await expect.poll(() => chunksDone(workers[0]).length + chunksDone(workers[1]).length, LOGGED).toBe(24);
     expect(chunksDone(workers[0]).length).toBeGreaterThan(0);
     expect(chunksDone(workers[1]).length).toBeGreaterThan(0);
     expect([...chunksDone(workers[0]), ...chunksDone(workers[1])].sort((a, b) => a - b)).toEqual(Array.from({ length: 24 }, (_, i) => i));
@@ -69,6 +74,15 @@ describe('power runs on the shared queue', () => {
     }
   }, 120_000);
 
+  it('hears of each finished chunk as the worker stores it, not at its next look at the results', async () => {
+    workers.push(await startQueueWorker());
+    const progress: number[] = [];
+    // looks at stop, errors and workers once a minute: a run that waited for its looks would outlast the test
+    const outcome = await runScenariosOnQueue([scenario], { chunkSize: 40, pollMs: 60_000, onProgress: (n) => void progress.push(n) });
+    expect(outcome![0]).toEqual(inProcess);
+    expect(progress.at(-1)).toBe(240);
+  }, 30_000);
+
   it('completes with the same tallies when a worker process is killed mid-chunk: another takes its chunk over', async () => {
     workers.push(...(await Promise.all([startQueueWorker(), startQueueWorker()])));
     const [doomed, survivor] = workers;
@@ -78,8 +92,8 @@ describe('power runs on the shared queue', () => {
     doomed.process.kill('SIGKILL');
     const outcome = await run;
     expect(outcome![0]).toEqual(inProcess);
+    await expect.poll(() => chunksDone(survivor), LOGGED).toContain(Number(started[1]));
     expect(chunksDone(doomed)).not.toContain(Number(started[1]));
-    expect(chunksDone(survivor)).toContain(Number(started[1]));
   }, 120_000);
 
   it('cancels on every worker: chunks in hand stop, chunks waiting are dropped', async () => {
@@ -135,7 +149,7 @@ describe('power runs on the shared queue', () => {
     const queued = await runRefitsOnQueue(data, options);
     expect(queued).toEqual(data.map((p) => refitParticipant(p, options)));
     const refitChunks = (w: Child) => [...w.output().matchAll(/analysis chunk (\d+) of \S+ done/g)].length;
-    expect(refitChunks(workers[0]) + refitChunks(workers[1])).toBe(3); // 60 participants, 25 a chunk
+    await expect.poll(() => refitChunks(workers[0]) + refitChunks(workers[1]), LOGGED).toBe(3); // 60 participants, 25 a chunk
   }, 120_000);
 });
 

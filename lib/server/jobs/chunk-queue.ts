@@ -13,12 +13,19 @@ export type QueuedChunk<Task> = { runKey: string; chunk: number; task: Task };
 /**
  * Where a run's chunk results, cancel flag and first error live in Redis. Results are a hash
  * keyed by chunk number and written with HSETNX, so a chunk done twice (its first worker died
- * after computing it) is stored once. A power run's calibration estimates, which its worker
+ * after computing it) is stored once; with each result its chunk number goes on the run's `done`
+ * list, on which the process that started the run waits. A power run's calibration estimates, which its worker
  * processes share, are a list per design (power/estimate-exchange.ts).
  */
 export function runKeys(runKey: string) {
   const base = `switchback:run:${runKey}`;
-  return { results: `${base}:results`, cancel: `${base}:cancel`, error: `${base}:error`, estimates: (design: string) => `${base}:estimates:${design}` };
+  return {
+    results: `${base}:results`,
+    done: `${base}:done`,
+    cancel: `${base}:cancel`,
+    error: `${base}:error`,
+    estimates: (design: string) => `${base}:estimates:${design}`,
+  };
 }
 
 /**
@@ -62,7 +69,7 @@ export type ChunkQueueOptions = {
   shouldStop?: () => boolean;
   /** called whenever more chunks are done, with the numbers of the chunks done so far */
   onChunksDone?: (done: number[]) => void | Promise<void>;
-  /** how often the results are looked at (ms), default 250 */
+  /** the longest wait for a finished chunk before the stop, errors and workers are looked at again (ms), default 250 */
   pollMs?: number;
   /**
    * called with true when chunks remain and no worker process listens on the queue, and with
@@ -103,22 +110,27 @@ export async function runChunksOnQueue<Task, Result>(job: QueueJob, runKey: stri
   let reported = -1;
   let workerless = false;
   let lastWorkerCheck = Date.now();
+  const done = new Set<number>();
+  // a connection of its own for the blocking wait on the run's list of finished chunks
+  const waiter = redis.duplicate();
   try {
     for (;;) {
       if (options.shouldStop?.()) {
         await cancel();
         return null;
       }
-      const [error, fields] = await Promise.all([redis.get(keys.error), redis.hkeys(keys.results)]);
+      const [error, stored] = await Promise.all([redis.get(keys.error), redis.hlen(keys.results)]);
       if (error) {
         await cancel();
         throw new Error(`${job} worker: ${error}`);
       }
-      if (fields.length !== reported) {
-        reported = fields.length;
-        await options.onChunksDone?.(fields.map(Number));
+      // the hash is read whole only when it holds results whose chunks were not announced
+      if (stored > done.size) for (const field of await redis.hkeys(keys.results)) done.add(Number(field));
+      if (done.size !== reported) {
+        reported = done.size;
+        await options.onChunksDone?.([...done].sort((a, b) => a - b));
       }
-      if (fields.length >= tasks.length) break;
+      if (done.size >= tasks.length) break;
       if (options.onWorkerless && Date.now() - lastWorkerCheck >= (options.workerCheckMs ?? 2000)) {
         lastWorkerCheck = Date.now();
         const none = (await queue.getWorkersCount()) === 0;
@@ -127,11 +139,18 @@ export async function runChunksOnQueue<Task, Result>(job: QueueJob, runKey: stri
           await options.onWorkerless(none);
         }
       }
-      await new Promise((resolve) => setTimeout(resolve, options.pollMs ?? 250));
+      // until a worker announces a finished chunk, or pollMs at most; then every announcement so far
+      const first = await waiter.blpop(keys.done, (options.pollMs ?? 250) / 1000);
+      if (first) {
+        done.add(Number(first[1]));
+        const [[, rest]] = (await redis.multi().lrange(keys.done, 0, -1).del(keys.done).exec()) as [[Error | null, string[]], unknown];
+        for (const chunk of rest) done.add(Number(chunk));
+      }
     }
     const stored = await redis.hgetall(keys.results);
     return tasks.map((_, chunk) => decodeResult<Result>(stored[String(chunk)]));
   } finally {
-    await redis.del(keys.results, keys.error, ...(options.runData ?? [])).catch(() => {});
+    waiter.disconnect();
+    await redis.del(keys.results, keys.error, keys.done, ...(options.runData ?? [])).catch(() => {});
   }
 }

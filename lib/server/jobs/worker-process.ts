@@ -66,7 +66,14 @@ function processorFor(job: QueueJob, pool: Piscina) {
     }
     const added = job === 'power' ? await exchange.afterChunk(runKey, task as ChunkTask) : 0;
     // first write wins: a chunk retried after its worker died is not stored (or counted) twice
-    await redis!.multi().hsetnx(keys.results, String(chunk), encodeResult(result)).expire(keys.results, RUN_KEYS_TTL_S).exec();
+    // and the chunk's number is announced to the process waiting for the run
+    await redis!
+      .multi()
+      .hsetnx(keys.results, String(chunk), encodeResult(result))
+      .expire(keys.results, RUN_KEYS_TTL_S)
+      .rpush(keys.done, String(chunk))
+      .expire(keys.done, RUN_KEYS_TTL_S)
+      .exec();
     if (flags.verbose) log(`${job} chunk ${chunk} of ${runKey} done` + (job === 'power' ? ` (calibration estimates: ${taken} taken from other workers, ${added} estimated here)` : ''));
     return 'done';
   };
