@@ -8,7 +8,7 @@ import type { ChunkResult, ChunkTask } from './worker';
 export type QueueRunOptions = Omit<RunScenarioOptions, 'workers'> & {
   /** names the run in logs and job ids (a fresh key per attempt is added) */
   label?: string;
-  /** how often progress is read from Redis (ms), default 250 */
+  /** the longest wait for a finished chunk before a stop and errors are looked at again (ms), default 250: progress itself arrives as chunks finish */
   pollMs?: number;
   /** told when no worker process listens while chunks remain (true) and when one does again (false) */
   onWorkerless?: (workerless: boolean) => void | Promise<void>;
