@@ -80,6 +80,8 @@ function processorFor(job: QueueJob, pool: Piscina) {
 }
 
 const pools = await Promise.all((['power', 'analysis'] as const).map(async (job) => ({ job, pool: await createThreadPool(job, threads) })));
+// every thread loads its job's bundle before the first chunk comes (one call per thread: a thread takes one task at a time)
+await Promise.all(pools.flatMap(({ pool }) => Array.from({ length: threads }, () => pool.run(null, { name: 'loaded' }))));
 const workers = pools.map(
   ({ job, pool }) =>
     new Worker(QUEUES[job], processorFor(job, pool), {

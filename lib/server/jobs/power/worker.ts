@@ -19,6 +19,11 @@ export type ChunkResult = { tally: PowerTally; longestCalibrationDelay: number |
 // the current run's simulators, one per scenario (the assumed truth and each stress truth)
 let current: { key: string; simulators: Map<number, PowerSimulator> } | null = null;
 
+/** Answers once the thread has loaded this module: a queue worker process starts each thread's load before it takes chunks. */
+export function loaded(): true {
+  return true;
+}
+
 /** Runs replicates [from, to) of the task's scenario and returns their tally. */
 export function runChunk(task: ChunkTask): ChunkResult {
   if (!current || current.key !== task.key) current = { key: task.key, simulators: new Map() };
