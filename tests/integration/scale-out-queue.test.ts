@@ -186,6 +186,31 @@ describe('calibration estimates shared between worker processes', () => {
     }
   });
 
+  it('travel while the chunks run, so a thread finds another process\'s estimate mid-chunk', async () => {
+    const redis = new Redis(testRedisUrl(), { maxRetriesPerRequest: null });
+    const [first, second] = [new EstimateExchange(redis), new EstimateExchange(redis)];
+    const runKey = `exchange-running-${Date.now()}`;
+    const [key] = estimateKeys(runKey, [scenario]);
+    try {
+      const ofFirst: ChunkTask = { key: runKey, index: 0, scenario, from: 0, to: 10 };
+      const ofSecond: ChunkTask = { ...ofFirst, from: 10, to: 20 };
+      await Promise.all([first.beforeChunk(runKey, ofFirst), second.beforeChunk(runKey, ofSecond)]);
+      const stopFirst = first.whileRunning(runKey, ofFirst);
+      const stopSecond = second.whileRunning(runKey, ofSecond);
+      // the first process's thread estimates a vector while both chunks run
+      new SharedEstimates(ofFirst.estimates!).store(0, 0b1011, 0.0125, false, false);
+      const theirs = new SharedEstimates(ofSecond.estimates!);
+      await expect.poll(() => theirs.find(0, 0b1011), { timeout: 5_000, interval: 10 }).toBeGreaterThanOrEqual(0);
+      expect(theirs.rateAt(theirs.find(0, 0b1011))).toBe(0.0125);
+      expect(await stopFirst()).toEqual({ taken: 0, added: 1 });
+      expect(await stopSecond()).toEqual({ taken: 1, added: 0 });
+      expect(await first.afterChunk(runKey, ofFirst)).toBe(0); // nothing left for the chunk's end
+    } finally {
+      await redis.del(key);
+      await redis.quit();
+    }
+  });
+
   it('are not kept for a design without re-estimated calibration answers', async () => {
     const redis = new Redis(testRedisUrl(), { maxRetriesPerRequest: null });
     try {

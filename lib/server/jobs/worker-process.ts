@@ -34,16 +34,20 @@ const exchange = new EstimateExchange(redis);
 
 /**
  * The processor of one queue: runs a chunk on `pool` unless its run was cancelled; a cancel
- * mid-chunk stops the thread's task. A power chunk first takes the estimates other processes have
- * added to its run, and adds its own before its result is stored.
+ * mid-chunk stops the thread's task. A power chunk takes the estimates other processes have added
+ * to its run before it starts and while it runs, and adds its own while it runs and before its
+ * result is stored.
  */
 function processorFor(job: QueueJob, pool: Piscina) {
   return async (queued: Job<QueuedChunk<unknown>>): Promise<'done' | 'cancelled'> => {
     const { runKey, chunk, task } = queued.data;
     const keys = runKeys(runKey);
     if ((await redis!.exists(keys.cancel)) || (await redis!.hexists(keys.results, String(chunk)))) return 'cancelled';
-    const taken = job === 'power' ? await exchange.beforeChunk(runKey, task as ChunkTask) : 0;
+    const power = job === 'power';
+    let taken = power ? await exchange.beforeChunk(runKey, task as ChunkTask) : 0;
     if (flags.verbose) log(`${job} chunk ${chunk} of ${runKey} started`);
+    const sharing = power ? exchange.whileRunning(runKey, task as ChunkTask) : null;
+    let added = 0;
     const abort = new AbortController();
     const watch = setInterval(() => {
       redis!.exists(keys.cancel).then(
@@ -63,8 +67,11 @@ function processorFor(job: QueueJob, pool: Piscina) {
       throw error;
     } finally {
       clearInterval(watch);
+      const during = await sharing?.();
+      taken += during?.taken ?? 0;
+      added += during?.added ?? 0;
     }
-    const added = job === 'power' ? await exchange.afterChunk(runKey, task as ChunkTask) : 0;
+    if (power) added += await exchange.afterChunk(runKey, task as ChunkTask);
     // first write wins: a chunk retried after its worker died is not stored (or counted) twice
     // and the chunk's number is announced to the process waiting for the run
     await redis!
@@ -74,7 +81,7 @@ function processorFor(job: QueueJob, pool: Piscina) {
       .rpush(keys.done, String(chunk))
       .expire(keys.done, RUN_KEYS_TTL_S)
       .exec();
-    if (flags.verbose) log(`${job} chunk ${chunk} of ${runKey} done` + (job === 'power' ? ` (calibration estimates: ${taken} taken from other workers, ${added} estimated here)` : ''));
+    if (flags.verbose) log(`${job} chunk ${chunk} of ${runKey} done` + (power ? ` (calibration estimates: ${taken} taken from other workers, ${added} estimated here)` : ''));
     return 'done';
   };
 }

@@ -17,17 +17,26 @@ export function estimateKeys(runKey: string, scenarios: readonly PowerScenario[]
 }
 
 /** What a worker process keeps of one design of one run: its threads' table and how far it has read and written the run's list. */
-type Held = { runKey: string; table: SharedEstimates; buffer: SharedArrayBuffer; read: number; exported: number };
+type Held = { runKey: string; table: SharedEstimates; buffer: SharedArrayBuffer; read: number; exported: number; waitMs: number };
 
 /** Runs whose tables a worker process keeps (a table is about 9 MB); the oldest goes first. */
 const RUNS_KEPT = 2;
 
 /**
+ * The wait before the first exchange while a run's chunks run (ms), doubled after each: most new
+ * response vectors are met in a run's first chunks, so exchanges come often at its start and ever
+ * more seldom after (an exchange costs this process and Redis some work however little it moves).
+ */
+const FIRST_EXCHANGE_MS = 50;
+
+/**
  * The calibration estimates of a power run, shared by the worker processes that take its chunks
  * (`npm run worker`, on any machine that reaches the Redis). Within a process, the chunk's threads
  * share one table (SharedEstimates), as in an in-process run. Between processes the table travels
- * through a Redis list per run and design, at chunk boundaries: before a chunk the process stores
- * what the others have added since it last looked, and after it adds what its own threads estimated.
+ * through a Redis list per run and design: before a chunk the process stores what the others have
+ * added since it last looked, after it adds what its own threads estimated, and while it runs it
+ * does both, often at the start of a run (its first chunks meet most new response vectors, which
+ * every process would otherwise estimate for itself) and ever more seldom after.
  * An estimate depends only on the response vector and the design, so where it was computed changes
  * nothing in the tallies; sharing only saves estimating the same vector again in every process.
  */
@@ -71,6 +80,43 @@ export class EstimateExchange {
     return count;
   }
 
+  /**
+   * Exchanges estimates while a chunk runs: what this process's threads have estimated so far goes
+   * out, and what the others have added comes in, where the running thread finds it at once. The
+   * waits between exchanges belong to the run (FIRST_EXCHANGE_MS, doubled after each exchange) and
+   * carry over to its next chunks. Call the returned function when the chunk ends: it stops the
+   * exchanges, waits for one under way, and returns how many estimates came in and went out. A failed
+   * exchange is skipped (the chunk's last catches up): sharing saves time, it is never needed.
+   */
+  whileRunning(runKey: string, task: ChunkTask): () => Promise<{ taken: number; added: number }> {
+    const counts = { taken: 0, added: 0 };
+    if (!sharesEstimates(task.scenario)) return async () => counts;
+    const entry = this.entry(runKey, runKeys(runKey).estimates(designTag(task.scenario)));
+    let stopped = false;
+    let underway: Promise<void> = Promise.resolve();
+    let timer: NodeJS.Timeout;
+    const next = () => {
+      timer = setTimeout(() => {
+        entry.waitMs *= 2;
+        underway = (async () => {
+          counts.added += await this.afterChunk(runKey, task);
+          counts.taken += await this.beforeChunk(runKey, task);
+        })()
+          .catch(() => {})
+          .finally(() => {
+            if (!stopped) next();
+          });
+      }, entry.waitMs);
+    };
+    next();
+    return async () => {
+      stopped = true;
+      clearTimeout(timer);
+      await underway;
+      return counts;
+    };
+  }
+
   private entry(runKey: string, key: string): Held {
     let entry = this.held.get(key);
     if (!entry) {
@@ -79,7 +125,7 @@ export class EstimateExchange {
         for (const [other, held] of this.held) if (held.runKey === runs[0]) this.held.delete(other);
       }
       const buffer = sharedEstimateBuffer();
-      entry = { runKey, table: new SharedEstimates(buffer), buffer, read: 0, exported: 0 };
+      entry = { runKey, table: new SharedEstimates(buffer), buffer, read: 0, exported: 0, waitMs: FIRST_EXCHANGE_MS };
       this.held.set(key, entry);
     }
     return entry;
