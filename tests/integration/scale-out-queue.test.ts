@@ -153,15 +153,25 @@ describe('power runs on the shared queue', () => {
   }, 120_000);
 });
 
+type TwoProcesses = { redis: Redis; first: EstimateExchange; second: EstimateExchange; runKey: string; key: string; ofFirst: ChunkTask; ofSecond: ChunkTask };
+
+/** Runs `body` with the exchanges of two worker processes and a chunk of one run for each; the run's list goes afterwards. */
+async function withTwoProcesses(name: string, body: (two: TwoProcesses) => Promise<void>): Promise<void> {
+  const redis = new Redis(testRedisUrl(), { maxRetriesPerRequest: null });
+  const runKey = `${name}-${Date.now()}`;
+  const [key] = estimateKeys(runKey, [scenario]);
+  const ofFirst: ChunkTask = { key: runKey, index: 0, scenario, from: 0, to: 10 };
+  try {
+    await body({ redis, first: new EstimateExchange(redis), second: new EstimateExchange(redis), runKey, key, ofFirst, ofSecond: { ...ofFirst, from: 10, to: 20 } });
+  } finally {
+    await redis.del(key);
+    await redis.quit();
+  }
+}
+
 describe('calibration estimates shared between worker processes', () => {
-  it('reach another process through the run\'s list, once each, and never come back to the process that added them', async () => {
-    const redis = new Redis(testRedisUrl(), { maxRetriesPerRequest: null });
-    const [first, second] = [new EstimateExchange(redis), new EstimateExchange(redis)];
-    const runKey = `exchange-test-${Date.now()}`;
-    const [key] = estimateKeys(runKey, [scenario]);
-    try {
-      const ofFirst: ChunkTask = { key: runKey, index: 0, scenario, from: 0, to: 10 };
-      const ofSecond: ChunkTask = { ...ofFirst, from: 10, to: 20 };
+  it('reach another process through the run\'s list, once each, and never come back to the process that added them', () =>
+    withTwoProcesses('exchange-test', async ({ redis, first, second, runKey, key, ofFirst, ofSecond }) => {
       expect(await first.beforeChunk(runKey, ofFirst)).toBe(0);
       expect(ofFirst.estimates).toBeInstanceOf(SharedArrayBuffer);
       // a thread of the first process estimates two response vectors
@@ -180,20 +190,10 @@ describe('calibration estimates shared between worker processes', () => {
       expect(await second.afterChunk(runKey, ofSecond)).toBe(0); // taken, not estimated there: not added again
       expect(await second.beforeChunk(runKey, ofSecond)).toBe(0);
       expect(await first.beforeChunk(runKey, ofFirst)).toBe(0);
-    } finally {
-      await redis.del(key);
-      await redis.quit();
-    }
-  });
+    }));
 
-  it('travel while the chunks run, so a thread finds another process\'s estimate mid-chunk', async () => {
-    const redis = new Redis(testRedisUrl(), { maxRetriesPerRequest: null });
-    const [first, second] = [new EstimateExchange(redis), new EstimateExchange(redis)];
-    const runKey = `exchange-running-${Date.now()}`;
-    const [key] = estimateKeys(runKey, [scenario]);
-    try {
-      const ofFirst: ChunkTask = { key: runKey, index: 0, scenario, from: 0, to: 10 };
-      const ofSecond: ChunkTask = { ...ofFirst, from: 10, to: 20 };
+  it('travel while the chunks run, so a thread finds another process\'s estimate mid-chunk', () =>
+    withTwoProcesses('exchange-running', async ({ first, second, runKey, ofFirst, ofSecond }) => {
       await Promise.all([first.beforeChunk(runKey, ofFirst), second.beforeChunk(runKey, ofSecond)]);
       const stopFirst = first.whileRunning(runKey, ofFirst);
       const stopSecond = second.whileRunning(runKey, ofSecond);
@@ -205,11 +205,7 @@ describe('calibration estimates shared between worker processes', () => {
       expect(await stopFirst()).toEqual({ taken: 0, added: 1 });
       expect(await stopSecond()).toEqual({ taken: 1, added: 0 });
       expect(await first.afterChunk(runKey, ofFirst)).toBe(0); // nothing left for the chunk's end
-    } finally {
-      await redis.del(key);
-      await redis.quit();
-    }
-  });
+    }));
 
   it('are not kept for a design without re-estimated calibration answers', async () => {
     const redis = new Redis(testRedisUrl(), { maxRetriesPerRequest: null });
