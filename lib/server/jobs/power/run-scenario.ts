@@ -31,16 +31,26 @@ export function defaultWorkerCount(): number {
   return threadCount(powerEnv().POWER_WORKERS);
 }
 
+/** Replicates at the end of a run that go in quarter-size chunks: four chunks' worth. */
+const TAIL_CHUNKS = 4;
+
 /**
  * The chunks of a run, scenario by scenario, in replicate order. The same split serves the
- * in-process pool and the queue, so both merge the same pieces.
+ * in-process pool and the queue, so both merge the same pieces. Without `chunkSize`, a run's last
+ * TAIL_CHUNKS chunks' worth of replicates go in chunks a quarter of the size: threads and workers
+ * that finish early wait for a small last chunk rather than a whole one.
  */
 export function splitIntoChunks(scenarios: readonly PowerScenario[], chunkSize?: number): Chunk[] {
   const chunks: Chunk[] = [];
   scenarios.forEach((scenario, index) => {
     const total = scenario.replications;
     const size = chunkSize ?? Math.min(250, Math.max(10, Math.ceil(total / 40)));
-    for (let from = 0; from < total; from += size) chunks.push({ index, from, to: Math.min(total, from + size) });
+    const tail = chunkSize === undefined && index === scenarios.length - 1 ? Math.max(0, total - TAIL_CHUNKS * size) : total;
+    for (let from = 0; from < total; ) {
+      const to = from < tail ? Math.min(tail, from + size) : Math.min(total, from + Math.ceil(size / 4));
+      chunks.push({ index, from, to });
+      from = to;
+    }
   });
   return chunks;
 }
