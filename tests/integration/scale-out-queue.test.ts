@@ -190,6 +190,9 @@ describe('calibration estimates shared between worker processes', () => {
       expect(await second.afterChunk(runKey, ofSecond)).toBe(0); // taken, not estimated there: not added again
       expect(await second.beforeChunk(runKey, ofSecond)).toBe(0);
       expect(await first.beforeChunk(runKey, ofFirst)).toBe(0);
+      // an item that is not an export (someone else's write to the list) is skipped, not fatal to the chunk
+      await redis.rpush(key, Buffer.from('not an export'));
+      expect(await second.beforeChunk(runKey, ofSecond)).toBe(0);
     }));
 
   it('travel while the chunks run, so a thread finds another process\'s estimate mid-chunk', () =>

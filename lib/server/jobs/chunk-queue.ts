@@ -14,8 +14,8 @@ export type QueuedChunk<Task> = { runKey: string; chunk: number; task: Task };
  * Where a run's chunk results, cancel flag and first error live in Redis. Results are a hash
  * keyed by chunk number and written with HSETNX, so a chunk done twice (its first worker died
  * after computing it) is stored once; with each result its chunk number goes on the run's `done`
- * list, on which the process that started the run waits. A power run's calibration estimates, which its worker
- * processes share, are a list per design (power/estimate-exchange.ts).
+ * list, on which the process that started the run waits. A power run's calibration estimates,
+ * which its worker processes share, are a list per design (power/estimate-exchange.ts).
  */
 export function runKeys(runKey: string) {
   const base = `switchback:run:${runKey}`;

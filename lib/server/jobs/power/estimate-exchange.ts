@@ -49,7 +49,8 @@ export class EstimateExchange {
 
   /**
    * Gives the chunk its design's table (in the task, for its thread) after storing the other
-   * processes' latest estimates in it; returns how many of those were new here.
+   * processes' latest estimates in it; returns how many of those were new here. An item of the
+   * list that is not a valid export is skipped.
    */
   async beforeChunk(runKey: string, task: ChunkTask): Promise<number> {
     if (!sharesEstimates(task.scenario)) return 0;
@@ -62,7 +63,11 @@ export class EstimateExchange {
     let added = 0;
     for (const item of items) {
       if (item.subarray(0, this.origin.length).equals(this.origin)) continue;
-      added += entry.table.importEntries(item.subarray(this.origin.length));
+      try {
+        added += entry.table.importEntries(item.subarray(this.origin.length));
+      } catch {
+        // not what exportEntries writes: its estimates are computed here instead
+      }
     }
     return added;
   }
