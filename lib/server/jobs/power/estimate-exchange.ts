@@ -28,6 +28,8 @@ const RUNS_KEPT = 2;
  * more seldom after (an exchange costs this process and Redis some work however little it moves).
  */
 const FIRST_EXCHANGE_MS = 50;
+/** The longest wait between exchanges while chunks run (ms). */
+const LONGEST_EXCHANGE_WAIT_MS = 60_000;
 
 /**
  * The calibration estimates of a power run, shared by the worker processes that take its chunks
@@ -88,8 +90,8 @@ export class EstimateExchange {
   /**
    * Exchanges estimates while a chunk runs: what this process's threads have estimated so far goes
    * out, and what the others have added comes in, where the running thread finds it at once. The
-   * waits between exchanges belong to the run (FIRST_EXCHANGE_MS, doubled after each exchange) and
-   * carry over to its next chunks. Call the returned function when the chunk ends: it stops the
+   * waits between exchanges belong to the run (FIRST_EXCHANGE_MS, doubled after each exchange up to
+   * LONGEST_EXCHANGE_WAIT_MS) and carry over to its next chunks. Call the returned function when the chunk ends: it stops the
    * exchanges, waits for one under way, and returns how many estimates came in and went out. A failed
    * exchange is skipped (the chunk's last catches up): sharing saves time, it is never needed.
    */
@@ -102,7 +104,7 @@ export class EstimateExchange {
     let timer: NodeJS.Timeout;
     const next = () => {
       timer = setTimeout(() => {
-        entry.waitMs *= 2;
+        entry.waitMs = Math.min(2 * entry.waitMs, LONGEST_EXCHANGE_WAIT_MS);
         underway = (async () => {
           counts.added += await this.afterChunk(runKey, task);
           counts.taken += await this.beforeChunk(runKey, task);
