@@ -103,7 +103,7 @@ export async function runScaleBench(): Promise<void> {
     const same = JSON.stringify(one.outcome) === JSON.stringify(two.outcome);
     const ceiling = await machineCeiling();
     console.log(`  1 worker process:  ${one.seconds.toFixed(1)} s (${one.cpu.toFixed(1)} CPU-seconds)`);
-    console.log(`  2 worker processes: ${two.seconds.toFixed(1)} s (${two.cpu.toFixed(1)} CPU-seconds between them: both estimate the response vectors they meet in their first chunks, then share what each estimated through Redis)`);
+    console.log(`  2 worker processes: ${two.seconds.toFixed(1)} s (${two.cpu.toFixed(1)} CPU-seconds between them: they share their calibration estimates through Redis, so only a vector both meet before either has shared it is estimated twice)`);
     console.log(`  ratio ${(one.seconds / two.seconds).toFixed(2)} (target ≥ 1.8 on an otherwise idle 2-core machine); identical tallies: ${same ? 'yes' : 'NO'}`);
     console.log(`  this machine's own ratio for two CPU-bound processes (a plain arithmetic loop): ${ceiling.toFixed(2)}`);
     console.log(`  load average at the start: ${load.toFixed(2)} on ${os.availableParallelism()} cores, ${os.loadavg()[0].toFixed(2)} at the end`);

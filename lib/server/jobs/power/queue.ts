@@ -23,7 +23,8 @@ export type QueueRunOptions = Omit<RunScenarioOptions, 'workers'> & {
  * tally under its chunk number. This process only reads progress, and merges the tallies in
  * chunk order when all are in, so the outcome equals the in-process run's for the same seed,
  * whatever the number and speed of workers. The workers share their calibration estimates through
- * the run's lists (EstimateExchange), which go with its results when the run ends. A stop cancels the run on every worker (null).
+ * the run's lists (EstimateExchange), which go with its results when the run ends. A stop cancels
+ * the run on every worker (null).
  */
 export async function runScenariosOnQueue(scenarios: readonly PowerScenario[], options: QueueRunOptions = {}): Promise<ScenariosOutcome> {
   const chunks = splitIntoChunks(scenarios, options.chunkSize);
