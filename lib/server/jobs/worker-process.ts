@@ -42,9 +42,15 @@ function processorFor(job: QueueJob, pool: Piscina) {
   return async (queued: Job<QueuedChunk<unknown>>): Promise<'done' | 'cancelled'> => {
     const { runKey, chunk, task } = queued.data;
     const keys = runKeys(runKey);
-    if ((await redis!.exists(keys.cancel)) || (await redis!.hexists(keys.results, String(chunk)))) return 'cancelled';
     const power = job === 'power';
-    let taken = power ? await exchange.beforeChunk(runKey, task as ChunkTask) : 0;
+    // in one round trip: the run's cancel flag, a result already stored, and the estimates other processes added
+    const [cancelled, stored, fromOthers] = await Promise.all([
+      redis!.exists(keys.cancel),
+      redis!.hexists(keys.results, String(chunk)),
+      power ? exchange.beforeChunk(runKey, task as ChunkTask) : 0,
+    ]);
+    if (cancelled || stored) return 'cancelled';
+    let taken = fromOthers;
     if (flags.verbose) log(`${job} chunk ${chunk} of ${runKey} started`);
     const sharing = power ? exchange.whileRunning(runKey, task as ChunkTask) : null;
     let added = 0;
