@@ -99,9 +99,10 @@ function solveOne(input: PairInput): boolean {
 }
 
 /**
- * Unchecked solves of elements 0…n − 1 (inputs and model already validated) into `o`, NaN in all
- * four outputs for an empty zone or d = 0. One loop per model around the same kernels the single
- * solve runs, so both entry points agree to the last bit and each loop stays monomorphic.
+ * Solves of elements 0…n − 1 (model and arrays already validated) into `o`, NaN in all four
+ * outputs for an empty zone or d = 0. One loop per model around the same kernels the single solve
+ * runs, so both entry points agree to the last bit and each loop stays monomorphic; the closed
+ * forms of the hyperbolic and exponential models run in rounds of two passes (nonEmptyOfRound).
  */
 export function solveRange(
   id: ModelId,
@@ -115,21 +116,27 @@ export function solveRange(
   n: number,
   fail: (i: number) => never,
 ): void {
-  // each element is checked as it is read (the single solve's comparisons; NaN fails each), so the
-  // inputs are read once: a bad element stops the loop with the outputs before it already written
+  // each element is checked as it is read (the single solve's comparisons; NaN fails each): a bad
+  // element stops the loop with the outputs before it already written
   switch (id) {
     case 'hyperbolic':
-      for (let i = 0; i < n; i++) {
-        const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
-        if (!(xi > 0 && xi < 1 && di >= 0 && di < Infinity && ki > 0 && ki < Infinity && Ki > 0 && Ki < Infinity)) fail(i);
-        if (!(di !== 0 && hyperbolicOptimum(xi, di, ki, Ki, o, i))) empty(o, i);
+      for (let start = 0; start < n; start += ROUND) {
+        const count = nonEmptyOfRound(true, x, d, k, K, o, start, Math.min(n, start + ROUND));
+        for (let j = 0; j < count; j++) {
+          const i = roundIndices[j];
+          hyperbolicOptimum(x[i], d[i], k[i], K[i], o, i);
+        }
+        if (roundFailure >= 0) fail(roundFailure);
       }
       return;
     case 'exponential':
-      for (let i = 0; i < n; i++) {
-        const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
-        if (!(xi > 0 && xi < 1 && di >= 0 && di < Infinity && ki > 0 && ki < Infinity && Ki > 0 && Ki < Infinity)) fail(i);
-        if (!(di !== 0 && exponentialOptimum(xi, di, ki, Ki, o, i))) empty(o, i);
+      for (let start = 0; start < n; start += ROUND) {
+        const count = nonEmptyOfRound(false, x, d, k, K, o, start, Math.min(n, start + ROUND));
+        for (let j = 0; j < count; j++) {
+          const i = roundIndices[j];
+          exponentialOptimum(x[i], d[i], k[i], K[i], o, i);
+        }
+        if (roundFailure >= 0) fail(roundFailure);
       }
       return;
     case 'quasi-hyperbolic': {
@@ -161,6 +168,41 @@ export function solveRange(
         if (!(di !== 0 && numericalInto(id, s, xi, di, ki, Ki, o, i))) empty(o, i);
       }
   }
+}
+
+/** Elements per round of the closed-form loops: a round's inputs are still in the first-level cache when its non-empty elements are solved. */
+const ROUND = 512;
+/** The indices of a round's non-empty elements (module scratch: solves run one at a time). */
+const roundIndices = new Int32Array(ROUND);
+/** The first bad element of the last round, or −1. */
+let roundFailure = -1;
+
+/**
+ * The first pass of a round of the hyperbolic or exponential loop: checks elements start…end − 1,
+ * writes NaN in their outputs, and lists in roundIndices those whose zone is not empty, without a
+ * branch on emptiness (about half of all random rate pairs give an empty zone, so a branch on it
+ * would be mispredicted about every other element). Stops at a bad element (roundFailure), so the
+ * elements before it are solved before the error is thrown. Returns how many were listed.
+ */
+function nonEmptyOfRound(hyperbolic: boolean, x: Float64Array, d: Float64Array, k: Float64Array, K: Float64Array, o: OptimumArrays, start: number, end: number): number {
+  const { lower, upper, lateDelay, gapProduct } = o;
+  roundFailure = -1;
+  let count = 0;
+  for (let i = start; i < end; i++) {
+    const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
+    if (!(xi > 0 && xi < 1 && di >= 0 && di < Infinity && ki > 0 && ki < Infinity && Ki > 0 && Ki < Infinity)) {
+      roundFailure = i;
+      break;
+    }
+    lower[i] = NaN;
+    upper[i] = NaN;
+    lateDelay[i] = NaN;
+    gapProduct[i] = NaN;
+    roundIndices[count] = i;
+    // the emptiness tests of hyperbolicOptimum and exponentialOptimum
+    count += +(di !== 0 && (hyperbolic ? (ki * di) / xi > Ki * di : ki * di > Ki * di));
+  }
+  return count;
 }
 
 function empty(o: OptimumArrays, i: number): void {

@@ -34,10 +34,10 @@ const OUTPUTS = ['lower', 'upper', 'lateDelay', 'gapProduct'] as const;
  * four outputs where optimiseLateDelay returns null (empty zone, or d = 0).
  *
  * The model and the arrays' types and lengths are checked once; each element is checked as it is
- * read, with the single solve's comparisons, so the inputs are read once and a bad element stops
- * the batch with an error naming its index and field (outputs before it are already written). No
- * object is made per element. With `out` the results are written
- * into the caller's arrays (reuse them across calls to avoid allocation).
+ * read, with the single solve's comparisons, and a bad element stops the batch with an error naming
+ * its index and field (outputs before it are already written). No object is made per element. With
+ * `out` the results are written into the caller's arrays (reuse them across calls to avoid
+ * allocation).
  *
  * @param model the discount model and its shape parameters (as for optimiseLateDelay)
  * @param input four Float64Arrays of equal length

@@ -120,6 +120,23 @@ describe('optimiseLateDelayBatch', () => {
     expect(() => optimiseLateDelayBatch({ id: 'hyperboloid', sensitivity: 0.5 }, both)).toThrow('ratio[20] must be');
   });
 
+  it('has written every output before a bad element when it stops, and none after it, whatever the model', () => {
+    const input = sweep(9, 1500);
+    input.kSmall[1100] = -1; // past the first thousand elements, so the loops have run over many before it
+    for (const model of models) {
+      const out = { lower: new Float64Array(1500).fill(-7), upper: new Float64Array(1500), lateDelay: new Float64Array(1500), gapProduct: new Float64Array(1500).fill(-7) };
+      expect(() => optimiseLateDelayBatch(model, input, out)).toThrow('kSmall[1100] must be');
+      for (let i = 0; i < 1500; i++) {
+        if (i >= 1100) {
+          expect([out.lower[i], out.gapProduct[i]], `${model.id} #${i}`).toEqual([-7, -7]);
+          continue;
+        }
+        const one = optimiseLateDelay({ model, ratio: input.ratio[i], soonDelay: input.soonDelay[i], kSmall: input.kSmall[i], kLarge: input.kLarge[i] });
+        expect([out.lower[i], out.upper[i], out.lateDelay[i], out.gapProduct[i]], `${model.id} #${i}`).toEqual(one === null ? [NaN, NaN, NaN, NaN] : [one.lower, one.upper, one.lateDelay, one.gapProduct]);
+      }
+    }
+  }, 120_000);
+
   it('refuses a bad model, arrays of another type or length, and output arrays that are too short', () => {
     const input = sweep(9, 10);
     const field = (f: () => unknown) => {
