@@ -8,7 +8,7 @@ import { fileURLToPath } from 'node:url';
 import { parseArgs } from 'node:util';
 import { readEnvFile, startDatabase, stopDatabase } from './mariadb.mjs';
 import { demoAccounts, demoGroup } from '../db/seeders/demo-accounts.mjs';
-import { SERVER_NODE_OPTIONS, spawnNode, spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
+import { serverArgs, spawnNode, spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const { values: options } = parseArgs({ options: { dev: { type: 'boolean', default: false } } });
@@ -120,7 +120,7 @@ async function main() {
     log(`$ npx ${args.join(' ')}`);
     child = spawnNpx(args, { env });
   } else {
-    const args = [...SERVER_NODE_OPTIONS, 'scripts/serve.mjs', '-H', '127.0.0.1', '-p', port];
+    const args = serverArgs(port);
     log(`$ node ${args.join(' ')}`);
     child = spawnNode(args, { env, cwd: ROOT });
   }

@@ -67,12 +67,16 @@ export function spawnNpx(args, { env = process.env, stdio = 'inherit', cwd } = {
 }
 
 /**
- * Node options of the production server (scripts/serve.mjs). Each session-API request allocates a
- * few kB of short-lived objects (the parsed body, the reply's JSON); a young generation of 32 MB
- * semi-spaces instead of Node's default 16 MB halves how often they are collected: under
- * `npm run bench:api` the server's time in the garbage collector fell from 1.7 s to 1.2 s.
+ * The node arguments of the production server (scripts/serve.mjs, Next plus the probe-items API
+ * answered directly) on 127.0.0.1:`port`, as `npm start` and `npm test` run it. Each session-API
+ * request allocates a few kB of short-lived objects (the parsed body, the reply's JSON); a young
+ * generation of 32 MB semi-spaces instead of Node's default 16 MB halves how often they are
+ * collected: under `npm run bench:api` the server's time in the garbage collector fell from 1.7 s
+ * to 1.2 s.
  */
-export const SERVER_NODE_OPTIONS = ['--max-semi-space-size=32'];
+export function serverArgs(port) {
+  return ['--max-semi-space-size=32', 'scripts/serve.mjs', '-H', '127.0.0.1', '-p', String(port)];
+}
 
 /** Spawns `node <args>` with this Node binary, in its own process group like spawnNpx. */
 export function spawnNode(args, { env = process.env, stdio = 'inherit', cwd } = {}) {

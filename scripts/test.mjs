@@ -16,7 +16,7 @@ import { parseArgs } from 'node:util';
 import { startDatabase, stopDatabase } from './mariadb.mjs';
 import { startRedis, stopRedis } from './redis.mjs';
 import { closingLines, countTests } from './test-report.mjs';
-import { ensureChromium, SERVER_NODE_OPTIONS, spawnNode, spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
+import { ensureChromium, serverArgs, spawnNode, spawnNpx, startLocalServices, stopChild, waitForExit, waitForHttp } from './system.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const ARTIFACTS = path.join(ROOT, 'tests', 'artifacts');
@@ -160,7 +160,7 @@ async function main({ mode, extra }) {
         mkdirSync(ARTIFACTS, { recursive: true });
         const out = openSync(SERVER_LOG, 'w');
         // The production server (Next plus the probe-items API answered directly), as `npm start` runs it.
-        server = spawnNode([...SERVER_NODE_OPTIONS, 'scripts/serve.mjs', '-H', '127.0.0.1', '-p', port], { env, stdio: ['ignore', out, out], cwd: ROOT });
+        server = spawnNode(serverArgs(port), { env, stdio: ['ignore', out, out], cwd: ROOT });
         closeSync(out);
         say(`server output: ${path.relative(ROOT, SERVER_LOG)}`);
         try {
