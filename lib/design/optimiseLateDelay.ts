@@ -1,3 +1,4 @@
+import * as elementary from './elementary';
 import { numericalOptimum, type NumericalModelId } from './numericalOptimum';
 import { checkPairInput } from './validate';
 import type { LateDelayOptimum, ModelId, PairInput } from './types';
@@ -102,7 +103,8 @@ function solveOne(input: PairInput): boolean {
  * Solves of elements 0…n − 1 (model and arrays already validated) into `o`, NaN in all four
  * outputs for an empty zone or d = 0. One loop per model around the same kernels the single solve
  * runs, so both entry points agree to the last bit and each loop stays monomorphic; the closed
- * forms of the hyperbolic and exponential models run in rounds of two passes (nonEmptyOfRound).
+ * forms of the hyperbolic and exponential models run in rounds of passes (nonEmptyOfRound,
+ * exponentialRange).
  */
 export function solveRange(
   id: ModelId,
@@ -121,7 +123,7 @@ export function solveRange(
   switch (id) {
     case 'hyperbolic':
       for (let start = 0; start < n; start += ROUND) {
-        const count = nonEmptyOfRound(true, x, d, k, K, o, start, Math.min(n, start + ROUND));
+        const count = nonEmptyOfRound(x, d, k, K, o, start, Math.min(n, start + ROUND));
         for (let j = 0; j < count; j++) {
           const i = roundIndices[j];
           hyperbolicOptimum(x[i], d[i], k[i], K[i], o, i);
@@ -130,14 +132,7 @@ export function solveRange(
       }
       return;
     case 'exponential':
-      for (let start = 0; start < n; start += ROUND) {
-        const count = nonEmptyOfRound(false, x, d, k, K, o, start, Math.min(n, start + ROUND));
-        for (let j = 0; j < count; j++) {
-          const i = roundIndices[j];
-          exponentialOptimum(x[i], d[i], k[i], K[i], o, i);
-        }
-        if (roundFailure >= 0) fail(roundFailure);
-      }
+      exponentialRange(x, d, k, K, o, n, fail);
       return;
     case 'quasi-hyperbolic': {
       // ln β is one number for the whole batch; ln x, which the emptiness test needs for every
@@ -155,7 +150,7 @@ export function solveRange(
         }
         if (xi !== lastRatio) {
           lastRatio = xi;
-          lnR = -Math.log(xi);
+          lnR = -logOf(xi, highWord(xi));
         }
         if (!presentBiasInto(lnR, lnBeta, xi, di, ki, Ki, beta, o, i)) empty(o, i);
       }
@@ -170,21 +165,45 @@ export function solveRange(
   }
 }
 
-/** Elements per round of the closed-form loops: a round's inputs are still in the first-level cache when its non-empty elements are solved. */
+/** Elements per round of the hyperbolic loop: a round's inputs are still in the first-level cache when its non-empty elements are solved. */
 const ROUND = 512;
+/**
+ * Elements per round of the exponential loop, whose passes read and write this module's scratch
+ * (16 KB an array): the four block copies out per round are calls, cheapest per element at this
+ * size (measured: rounds of 512 were slower, of 4,096 no faster).
+ */
+const EXPONENTIAL_ROUND = 2048;
 /** The indices of a round's non-empty elements (module scratch: solves run one at a time). */
-const roundIndices = new Int32Array(ROUND);
+const roundIndices = new Int32Array(Math.max(ROUND, EXPONENTIAL_ROUND));
 /** The first bad element of the last round, or −1. */
 let roundFailure = -1;
+// The table routines as constants of this module: the compiler folds a module's own constants into
+// the loops that use them, while it looks an imported binding up again on every pass of a loop.
+const { expm1Of, expOf, HIGH_WORD, highWord, lnHalfOnePlus, logOf } = elementary;
+/** An exponential round's listed inputs, in list order, and the ratio's 32-bit words. */
+const roundX = new Float64Array(EXPONENTIAL_ROUND);
+const roundXWords = new Uint32Array(roundX.buffer);
+const roundD = new Float64Array(EXPONENTIAL_ROUND);
+const roundK = new Float64Array(EXPONENTIAL_ROUND);
+const roundKLarge = new Float64Array(EXPONENTIAL_ROUND);
+/** Per listed element of an exponential round: m = e^((K − k)d) − 1, ln(1 + m/2) and e^(−Kd). */
+const roundM = new Float64Array(EXPONENTIAL_ROUND);
+const roundLnHalf = new Float64Array(EXPONENTIAL_ROUND);
+const roundFar = new Float64Array(EXPONENTIAL_ROUND);
+/** An exponential round's outputs, by place in the round (NaN where the zone is empty). */
+const roundLower = new Float64Array(EXPONENTIAL_ROUND);
+const roundUpper = new Float64Array(EXPONENTIAL_ROUND);
+const roundLate = new Float64Array(EXPONENTIAL_ROUND);
+const roundGap = new Float64Array(EXPONENTIAL_ROUND);
 
 /**
- * The first pass of a round of the hyperbolic or exponential loop: checks elements start…end − 1,
+ * The first pass of a round of the hyperbolic loop: checks elements start…end − 1,
  * writes NaN in their outputs, and lists in roundIndices those whose zone is not empty, without a
  * branch on emptiness (about half of all random rate pairs give an empty zone, so a branch on it
  * would be mispredicted about every other element). Stops at a bad element (roundFailure), so the
  * elements before it are solved before the error is thrown. Returns how many were listed.
  */
-function nonEmptyOfRound(hyperbolic: boolean, x: Float64Array, d: Float64Array, k: Float64Array, K: Float64Array, o: OptimumArrays, start: number, end: number): number {
+function nonEmptyOfRound(x: Float64Array, d: Float64Array, k: Float64Array, K: Float64Array, o: OptimumArrays, start: number, end: number): number {
   const { lower, upper, lateDelay, gapProduct } = o;
   roundFailure = -1;
   let count = 0;
@@ -199,8 +218,8 @@ function nonEmptyOfRound(hyperbolic: boolean, x: Float64Array, d: Float64Array, 
     lateDelay[i] = NaN;
     gapProduct[i] = NaN;
     roundIndices[count] = i;
-    // the emptiness tests of hyperbolicOptimum and exponentialOptimum
-    count += +(di !== 0 && (hyperbolic ? (ki * di) / xi > Ki * di : ki * di > Ki * di));
+    // the emptiness test of hyperbolicOptimum
+    count += +(di !== 0 && (ki * di) / xi > Ki * di);
   }
   return count;
 }
@@ -247,25 +266,109 @@ function hyperbolicOptimum(x: number, d: number, k: number, K: number, o: Optimu
 }
 
 /**
- * The β = 1 case of presentBiasOptimum, to the last bit, with emptiness (k·d > K·d) tested before
- * any logarithm: about half of all random rate pairs give an empty zone, and each Math.log,
- * expm1, log1p or exp is a library call costing more than the validation and arithmetic of a
- * whole hyperbolic solve.
+ * The β = 1 case of presentBiasOptimum, with emptiness (k·d > K·d) tested before anything else (about
+ * half of all random rate pairs give an empty zone) and e^t, e^t − 1 and the logarithms taken by the
+ * table routines of elementary.ts: Math.log, expm1, log1p and exp are each a library call costing
+ * more than the arithmetic of a whole hyperbolic solve. With m = e^y − 1, y = (K − k)d < 0 (no
+ * cancellation near the emptiness boundary), D* − D_lower = −ln(1 + m/2)/K. The batch runs the same
+ * steps in the same order (exponentialGaps, exponentialStore), so both agree to the last bit.
  */
 function exponentialOptimum(x: number, d: number, k: number, K: number, o: OptimumArrays, i: number): boolean {
   const kd = k * d;
   if (!(kd > K * d)) return false;
-  const lnR = -Math.log(x);
-  const lower = d + lnR / K;
-  const upper = (kd + lnR) / K;
-  // m = e^y − 1 with y = (K − k)d < 0: no cancellation near the emptiness boundary
-  const m = Math.expm1((K - k) * d);
-  const lateDelay = lower - Math.log1p(0.5 * m) / K;
-  return store(o, i, lower, upper, lateDelay, 0.25 * x * x * Math.exp(-K * d) * m * m);
+  const m = expm1Of((K - k) * d);
+  const lnHalf = lnHalfOnePlus(m);
+  const far = expOf(-K * d);
+  const lnR = -logOf(x, highWord(x));
+  const perK = 1 / K;
+  const lower = d + lnR * perK;
+  return store(o, i, lower, (kd + lnR) * perK, lower - lnHalf * perK, 0.25 * x * x * far * m * m);
+}
+
+/**
+ * The exponential case of solveRange, in rounds of EXPONENTIAL_ROUND elements and three passes of
+ * exponentialOptimum's steps: the checks, the emptiness test and a copy of each non-empty element's
+ * inputs to this module's scratch (listExponentialRound); the exponentials (exponentialGaps); the
+ * logarithm of the ratio and the outputs (exponentialStore). Each pass is a loop of its own, so the
+ * compiler keeps its table code inline, and every pass after the first reads and writes this
+ * module's own arrays, which compiled code reaches far more cheaply than the caller's. The round's
+ * outputs are then copied out in four block copies (up to a bad element, which is thrown for after).
+ */
+function exponentialRange(x: Float64Array, d: Float64Array, k: Float64Array, K: Float64Array, o: OptimumArrays, n: number, fail: (i: number) => never): void {
+  for (let start = 0; start < n; start += EXPONENTIAL_ROUND) {
+    const end = Math.min(n, start + EXPONENTIAL_ROUND);
+    const count = listExponentialRound(x, d, k, K, start, end);
+    exponentialGaps(count);
+    exponentialStore(count);
+    const done = (roundFailure >= 0 ? roundFailure : end) - start;
+    o.lower.set(roundLower.subarray(0, done), start);
+    o.upper.set(roundUpper.subarray(0, done), start);
+    o.lateDelay.set(roundLate.subarray(0, done), start);
+    o.gapProduct.set(roundGap.subarray(0, done), start);
+    if (roundFailure >= 0) fail(roundFailure);
+  }
+}
+
+/**
+ * The first pass of an exponential round: checks elements start…end − 1 (stopping at a bad one,
+ * roundFailure), writes NaN in their places of the round's outputs, and lists those whose zone is
+ * not empty without a branch on emptiness (see nonEmptyOfRound), with copies of their inputs in
+ * list order. Returns how many were listed.
+ */
+function listExponentialRound(x: Float64Array, d: Float64Array, k: Float64Array, K: Float64Array, start: number, end: number): number {
+  roundFailure = -1;
+  let count = 0;
+  for (let i = start; i < end; i++) {
+    const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
+    // the single solve's test with fewer branches: d, k, K are finite iff a quarter of their sum is
+    // (three quarters of the largest double is finite), and NaN fails every comparison
+    if (!(xi > 0 && xi < 1 && di >= 0 && ki > 0 && Ki > 0 && 0.25 * di + 0.25 * ki + 0.25 * Ki < Infinity)) {
+      roundFailure = i;
+      break;
+    }
+    roundLower[i - start] = NaN;
+    roundUpper[i - start] = NaN;
+    roundLate[i - start] = NaN;
+    roundGap[i - start] = NaN;
+    roundIndices[count] = i - start;
+    roundX[count] = xi;
+    roundD[count] = di;
+    roundK[count] = ki;
+    roundKLarge[count] = Ki;
+    // the emptiness test of exponentialOptimum (d = 0 fails it too: 0 > 0 is false)
+    count += +(ki * di > Ki * di);
+  }
+  return count;
+}
+
+/** Per listed element j of a round: m, ln(1 + m/2) and e^(−Kd) of exponentialOptimum into the round's scratch. */
+function exponentialGaps(count: number): void {
+  for (let j = 0; j < count; j++) {
+    const d = roundD[j], K = roundKLarge[j];
+    const m = expm1Of((K - roundK[j]) * d);
+    roundM[j] = m;
+    roundLnHalf[j] = lnHalfOnePlus(m);
+    roundFar[j] = expOf(-K * d);
+  }
+}
+
+/** Per listed element j of a round: ln x and the four outputs of exponentialOptimum, from the round's scratch. */
+function exponentialStore(count: number): void {
+  for (let j = 0; j < count; j++) {
+    const i = roundIndices[j];
+    const x = roundX[j], d = roundD[j], m = roundM[j];
+    const lnR = -logOf(x, roundXWords[2 * j + HIGH_WORD]);
+    const perK = 1 / roundKLarge[j];
+    const lo = d + lnR * perK;
+    roundLower[i] = lo;
+    roundUpper[i] = (roundK[j] * d + lnR) * perK;
+    roundLate[i] = lo - roundLnHalf[j] * perK;
+    roundGap[i] = 0.25 * x * x * roundFar[j] * m * m;
+  }
 }
 
 function presentBiasOptimum(x: number, d: number, k: number, K: number, beta: number, o: OptimumArrays, i: number): boolean {
-  return presentBiasInto(-Math.log(x), Math.log(beta), x, d, k, K, beta, o, i);
+  return presentBiasInto(-logOf(x, highWord(x)), Math.log(beta), x, d, k, K, beta, o, i);
 }
 
 /** presentBiasOptimum given lnR = −ln x and ln β, which the batch takes once per ratio and once per batch. */
@@ -274,16 +377,18 @@ function presentBiasInto(lnR: number, lnBeta: number, x: number, d: number, k: n
   // zone width is (k·d + ln r − a − K·d)/K; its sign is tested on the rates (as in reversalZone), not on rounded bounds
   const span = a > 0 ? k * d - lnBeta : k * d + lnR;
   if (!(span > K * d)) return false;
-  const lower = d + a / K;
-  const upper = (k * d + lnR) / K;
+  const perK = 1 / K;
+  const lower = d + a * perK;
+  const upper = (k * d + lnR) * perK;
   // y = ln β + (K − k)d; the vertex is D* = d + [ln 2 + ln β + ln r − ln(1 + e^y)]/K
   const y = lnBeta + (K - k) * d;
   if (a > 0) {
     // β > x, so non-emptiness forces y < 0. D* − D_lower = −ln(1 + expm1(y)/2)/K has no
-    // cancellation, and at the vertex A = x·e^(−Kd)·(1 − e^y)/2 and B = x·(1 − e^y)/2.
-    const m = Math.expm1(y);
-    const lateDelay = lower - Math.log1p(0.5 * m) / K;
-    return store(o, i, lower, upper, lateDelay, 0.25 * x * x * Math.exp(-K * d) * m * m);
+    // cancellation, and at the vertex A = x·e^(−Kd)·(1 − e^y)/2 and B = x·(1 − e^y)/2. The same
+    // steps as exponentialOptimum, so β = 1 gives the exponential optimum to the last bit.
+    const m = expm1Of(y);
+    const lateDelay = lower - lnHalfOnePlus(m) * perK;
+    return store(o, i, lower, upper, lateDelay, 0.25 * x * x * expOf(-K * d) * m * m);
   }
   const log1pEy = y > 0 ? y + Math.log1p(Math.exp(-y)) : Math.log1p(Math.exp(y));
   // the zone starts at d; C's supremum at d⁺ is not a pair, so the late delay keeps a step after d

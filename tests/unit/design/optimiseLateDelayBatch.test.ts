@@ -120,6 +120,45 @@ describe('optimiseLateDelayBatch', () => {
     expect(() => optimiseLateDelayBatch({ id: 'hyperboloid', sensitivity: 0.5 }, both)).toThrow('ratio[20] must be');
   });
 
+  it('refuses in the exponential path exactly what the single solve refuses, and solves the extreme finite inputs it accepts', () => {
+    // the exponential loop tests finiteness as one sum; these are the edges of that test
+    const edges: [number, number, number, number][] = [
+      [0.5, 1e308, 1e308, 1e308],
+      [0.5, 1.7976931348623157e308, 1e-300, 1.7976931348623157e308],
+      [5e-324, 10, 0.2, 0.1],
+      [1 - 2 ** -53, 10, 0.2, 0.1],
+      [0.3, 5e-324, 1e300, 1e-300],
+      [0.3, 0, 0.2, 0.1],
+      [0.3, -0, 0.2, 0.1],
+    ];
+    const bad: [number, number, number, number, string][] = [
+      [0.5, Infinity, 0.1, 0.05, 'soonDelay[0]'],
+      [0.5, 10, Infinity, 0.05, 'kSmall[0]'],
+      [0.5, 10, 0.1, -Infinity, 'kLarge[0]'],
+      [0.5, -1e-300, 0.1, 0.05, 'soonDelay[0]'],
+      [0.5, 10, -0, 0.05, 'kSmall[0]'],
+      [0.5, NaN, 0.1, 0.05, 'soonDelay[0]'],
+      [1, 10, 0.1, 0.05, 'ratio[0]'],
+    ];
+    const one = (v: number) => Float64Array.of(v);
+    for (const [x, d, k, K] of edges) {
+      const out = optimiseLateDelayBatch({ id: 'exponential' }, { ratio: one(x), soonDelay: one(d), kSmall: one(k), kLarge: one(K) });
+      const single = optimiseLateDelay({ model: { id: 'exponential' }, ratio: x, soonDelay: d, kSmall: k, kLarge: K });
+      expect([out.lower[0], out.upper[0], out.lateDelay[0], out.gapProduct[0]], `${x} ${d} ${k} ${K}`).toEqual(single === null ? [NaN, NaN, NaN, NaN] : [single.lower, single.upper, single.lateDelay, single.gapProduct]);
+    }
+    for (const [x, d, k, K, field] of bad) {
+      expect(() => optimiseLateDelay({ model: { id: 'exponential' }, ratio: x, soonDelay: d, kSmall: k, kLarge: K }), field).toThrow(DesignInputError);
+      let error: unknown = null;
+      try {
+        optimiseLateDelayBatch({ id: 'exponential' }, { ratio: one(x), soonDelay: one(d), kSmall: one(k), kLarge: one(K) });
+      } catch (caught) {
+        error = caught;
+      }
+      expect(error, field).toBeInstanceOf(DesignInputError);
+      expect((error as DesignInputError).field).toBe(field);
+    }
+  });
+
   it('has written every output before a bad element when it stops, and none after it, whatever the model', () => {
     const input = sweep(9, 1500);
     input.kSmall[1100] = -1; // past the first thousand elements, so the loops have run over many before it
