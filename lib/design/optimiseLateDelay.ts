@@ -186,10 +186,6 @@ const roundXWords = new Uint32Array(roundX.buffer);
 const roundD = new Float64Array(EXPONENTIAL_ROUND);
 const roundK = new Float64Array(EXPONENTIAL_ROUND);
 const roundKLarge = new Float64Array(EXPONENTIAL_ROUND);
-/** Per listed element of an exponential round: m = e^((K − k)d) − 1, ln(1 + m/2) and e^(−Kd). */
-const roundM = new Float64Array(EXPONENTIAL_ROUND);
-const roundLnHalf = new Float64Array(EXPONENTIAL_ROUND);
-const roundFar = new Float64Array(EXPONENTIAL_ROUND);
 /** An exponential round's outputs, by place in the round (NaN where the zone is empty). */
 const roundLower = new Float64Array(EXPONENTIAL_ROUND);
 const roundUpper = new Float64Array(EXPONENTIAL_ROUND);
@@ -271,7 +267,7 @@ function hyperbolicOptimum(x: number, d: number, k: number, K: number, o: Optimu
  * table routines of elementary.ts: Math.log, expm1, log1p and exp are each a library call costing
  * more than the arithmetic of a whole hyperbolic solve. With m = e^y − 1, y = (K − k)d < 0 (no
  * cancellation near the emptiness boundary), D* − D_lower = −ln(1 + m/2)/K. The batch runs the same
- * steps in the same order (exponentialGaps, exponentialStore), so both agree to the last bit.
+ * steps (solveListedExponential), so both agree to the last bit.
  */
 function exponentialOptimum(x: number, d: number, k: number, K: number, o: OptimumArrays, i: number): boolean {
   const kd = k * d;
@@ -286,20 +282,19 @@ function exponentialOptimum(x: number, d: number, k: number, K: number, o: Optim
 }
 
 /**
- * The exponential case of solveRange, in rounds of EXPONENTIAL_ROUND elements and three passes of
- * exponentialOptimum's steps: the checks, the emptiness test and a copy of each non-empty element's
- * inputs to this module's scratch (listExponentialRound); the exponentials (exponentialGaps); the
- * logarithm of the ratio and the outputs (exponentialStore). Each pass is a loop of its own, so the
- * compiler keeps its table code inline, and every pass after the first reads and writes this
- * module's own arrays, which compiled code reaches far more cheaply than the caller's. The round's
- * outputs are then copied out in four block copies (up to a bad element, which is thrown for after).
+ * The exponential case of solveRange, in rounds of EXPONENTIAL_ROUND elements and two passes: the
+ * checks, the emptiness test and a copy of each non-empty element's inputs to this module's scratch
+ * (listExponentialRound), then exponentialOptimum's steps for the listed elements
+ * (solveListedExponential). Every pass after the first reads and writes only this module's own
+ * arrays, which compiled code reaches far more cheaply than the caller's, and keeps the table
+ * routines inline. The round's outputs are then copied out in four block copies (up to a bad
+ * element, which is thrown for after them).
  */
 function exponentialRange(x: Float64Array, d: Float64Array, k: Float64Array, K: Float64Array, o: OptimumArrays, n: number, fail: (i: number) => never): void {
   for (let start = 0; start < n; start += EXPONENTIAL_ROUND) {
     const end = Math.min(n, start + EXPONENTIAL_ROUND);
     const count = listExponentialRound(x, d, k, K, start, end);
-    exponentialGaps(count);
-    exponentialStore(count);
+    solveListedExponential(count);
     const done = (roundFailure >= 0 ? roundFailure : end) - start;
     o.lower.set(roundLower.subarray(0, done), start);
     o.upper.set(roundUpper.subarray(0, done), start);
@@ -341,29 +336,21 @@ function listExponentialRound(x: Float64Array, d: Float64Array, k: Float64Array,
   return count;
 }
 
-/** Per listed element j of a round: m, ln(1 + m/2) and e^(−Kd) of exponentialOptimum into the round's scratch. */
-function exponentialGaps(count: number): void {
-  for (let j = 0; j < count; j++) {
-    const d = roundD[j], K = roundKLarge[j];
-    const m = expm1Of((K - roundK[j]) * d);
-    roundM[j] = m;
-    roundLnHalf[j] = lnHalfOnePlus(m);
-    roundFar[j] = expOf(-K * d);
-  }
-}
-
-/** Per listed element j of a round: ln x and the four outputs of exponentialOptimum, from the round's scratch. */
-function exponentialStore(count: number): void {
+/** The second pass of an exponential round: exponentialOptimum's steps for each listed element, from and into the round's scratch. */
+function solveListedExponential(count: number): void {
   for (let j = 0; j < count; j++) {
     const i = roundIndices[j];
-    const x = roundX[j], d = roundD[j], m = roundM[j];
+    const x = roundX[j], d = roundD[j], k = roundK[j], K = roundKLarge[j];
+    const m = expm1Of((K - k) * d);
+    const lnHalf = lnHalfOnePlus(m);
+    const far = expOf(-K * d);
     const lnR = -logOf(x, roundXWords[2 * j + HIGH_WORD]);
-    const perK = 1 / roundKLarge[j];
+    const perK = 1 / K;
     const lo = d + lnR * perK;
     roundLower[i] = lo;
-    roundUpper[i] = (roundK[j] * d + lnR) * perK;
-    roundLate[i] = lo - roundLnHalf[j] * perK;
-    roundGap[i] = 0.25 * x * x * roundFar[j] * m * m;
+    roundUpper[i] = (k * d + lnR) * perK;
+    roundLate[i] = lo - lnHalf * perK;
+    roundGap[i] = 0.25 * x * x * far * m * m;
   }
 }
 
