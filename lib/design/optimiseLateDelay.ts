@@ -336,15 +336,24 @@ function listExponentialRound(x: Float64Array, d: Float64Array, k: Float64Array,
   return count;
 }
 
-/** The second pass of an exponential round: exponentialOptimum's steps for each listed element, from and into the round's scratch. */
+/**
+ * The second pass of an exponential round: exponentialOptimum's steps for each listed element, from
+ * and into the round's scratch. ln x is taken again only when the ratio changes (callers batch one
+ * ratio over many rate pairs): the same doubles, with one logarithm per run of a ratio.
+ */
 function solveListedExponential(count: number): void {
+  let lastRatio = NaN;
+  let lnR = NaN;
   for (let j = 0; j < count; j++) {
     const i = roundIndices[j];
     const x = roundX[j], d = roundD[j], k = roundK[j], K = roundKLarge[j];
     const m = expm1Of((K - k) * d);
     const lnHalf = lnHalfOnePlus(m);
     const far = expOf(-K * d);
-    const lnR = -logOf(x, roundXWords[2 * j + HIGH_WORD]);
+    if (x !== lastRatio) {
+      lastRatio = x;
+      lnR = -logOf(x, roundXWords[2 * j + HIGH_WORD]);
+    }
     const perK = 1 / K;
     const lo = d + lnR * perK;
     roundLower[i] = lo;
