@@ -82,6 +82,9 @@ export function expm1Of(t: number): number {
 
 /**
  * e^t for any real t, within about a unit in the last place (see expm1Of for the reduction).
+ * The reduction is written out here again on purpose: shared through a helper, it put the
+ * exponential batch's loop over the compiler's inlining budget, and one routine was called instead
+ * of inlined (measured 66–70 → 50–63 × 10^6 solves/s).
  *
  * @example expOf(1) // 2.718281828459045
  */
