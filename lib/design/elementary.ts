@@ -13,6 +13,8 @@ import * as tables from './elementaryTables';
  * rest from its Taylor polynomial, which at |r| ≤ 1/512 is exact to far below a unit in the last place.
  * Arguments outside the range the reduction covers exactly (results that are subnormal or overflow,
  * subnormal or non-finite inputs) go to Math, so every double has a defined, accurate answer.
+ * scripts/generate-exponential-kernel.mjs writes the same routines out in WebAssembly for the
+ * exponential batch: change both together (the batch tests compare them to the last bit).
  */
 
 // Module-level copies of the generated tables: the compiler folds a module's own constants into the
@@ -42,9 +44,9 @@ const STEP = 1 / STEPS;
 const LN2_HI = LOG_HI[STEPS];
 const LN2_LO = LOG_LO[STEPS];
 /** 1/(1 + j/256), j = 0…256, the nearest doubles: the reduced argument's relative error stays at one rounding. */
-const INVERSE_POINT = Float64Array.from({ length: STEPS + 1 }, (_, j) => 1 / (1 + j * STEP));
+export const INVERSE_POINT = Float64Array.from({ length: STEPS + 1 }, (_, j) => 1 / (1 + j * STEP));
 /** 1 − j/256 = 2 − (1 + j/256), exact. */
-const POINT_FROM_TWO = Float64Array.from({ length: STEPS + 1 }, (_, j) => 1 - j * STEP);
+export const POINT_FROM_TWO = Float64Array.from({ length: STEPS + 1 }, (_, j) => 1 - j * STEP);
 
 const view = new Float64Array(1);
 const words = new Uint32Array(view.buffer);

@@ -1,4 +1,5 @@
 import * as elementary from './elementary';
+import { KERNEL_ROUND, loadExponentialKernel } from './exponentialKernel';
 import { numericalOptimum, type NumericalModelId } from './numericalOptimum';
 import { checkPairInput } from './validate';
 import type { LateDelayOptimum, ModelId, PairInput } from './types';
@@ -168,29 +169,52 @@ export function solveRange(
 /** Elements per round of the hyperbolic loop: a round's inputs are still in the first-level cache when its non-empty elements are solved. */
 const ROUND = 512;
 /**
- * Elements per round of the exponential loop, whose passes read and write this module's scratch
- * (16 KB an array): the four block copies out per round are calls, cheapest per element at this
- * size (measured: rounds of 512 were slower, of 4,096 no faster).
+ * Elements per round of the exponential loop (2,048, the size of the WebAssembly kernel's arrays),
+ * whose passes read and write the round's scratch (16 KB an array): the four block copies out per
+ * round are calls, cheapest per element at this size (measured: rounds of 512 were slower, of 4,096
+ * no faster).
  */
-const EXPONENTIAL_ROUND = 2048;
+const EXPONENTIAL_ROUND = KERNEL_ROUND;
 /** The indices of a round's non-empty elements (module scratch: solves run one at a time). */
-const roundIndices = new Int32Array(Math.max(ROUND, EXPONENTIAL_ROUND));
+const roundIndices = new Int32Array(ROUND);
 /** The first bad element of the last round, or −1. */
 let roundFailure = -1;
 // The table routines as constants of this module: the compiler folds a module's own constants into
 // the loops that use them, while it looks an imported binding up again on every pass of a loop.
 const { expm1Of, expOf, HIGH_WORD, highWord, lnHalfOnePlus, logOf } = elementary;
-/** An exponential round's listed inputs, in list order, and the ratio's 32-bit words. */
-const roundX = new Float64Array(EXPONENTIAL_ROUND);
-const roundXWords = new Uint32Array(roundX.buffer);
-const roundD = new Float64Array(EXPONENTIAL_ROUND);
-const roundK = new Float64Array(EXPONENTIAL_ROUND);
-const roundKLarge = new Float64Array(EXPONENTIAL_ROUND);
+/**
+ * The exponential batch's second pass in WebAssembly where it loads (Node), else null; its arrays
+ * are the round's scratch below, so the first pass fills them in place for either second pass.
+ */
+const kernel = loadExponentialKernel();
+let kernelInUse = kernel !== null;
+/** An exponential round's listed inputs, in list order, each listed element's place, and the ratio's 32-bit words. */
+const roundX = kernel?.x ?? new Float64Array(EXPONENTIAL_ROUND + 8);
+const roundXWords = new Uint32Array(roundX.buffer, roundX.byteOffset, 2 * roundX.length);
+const roundD = kernel?.d ?? new Float64Array(EXPONENTIAL_ROUND + 8);
+const roundK = kernel?.k ?? new Float64Array(EXPONENTIAL_ROUND + 8);
+const roundKLarge = kernel?.K ?? new Float64Array(EXPONENTIAL_ROUND + 8);
+const roundPlaces = kernel?.index ?? new Int32Array(EXPONENTIAL_ROUND + 8);
 /** An exponential round's outputs, by place in the round (NaN where the zone is empty). */
-const roundLower = new Float64Array(EXPONENTIAL_ROUND);
-const roundUpper = new Float64Array(EXPONENTIAL_ROUND);
-const roundLate = new Float64Array(EXPONENTIAL_ROUND);
-const roundGap = new Float64Array(EXPONENTIAL_ROUND);
+const roundLower = kernel?.lower ?? new Float64Array(EXPONENTIAL_ROUND + 8);
+const roundUpper = kernel?.upper ?? new Float64Array(EXPONENTIAL_ROUND + 8);
+const roundLate = kernel?.lateDelay ?? new Float64Array(EXPONENTIAL_ROUND + 8);
+const roundGap = kernel?.gapProduct ?? new Float64Array(EXPONENTIAL_ROUND + 8);
+const roundOutputs: OptimumArrays = { lower: roundLower, upper: roundUpper, lateDelay: roundLate, gapProduct: roundGap };
+/** The non-empty elements of a round whose arguments lie outside the tables' range (solved one by one), and how many. */
+const roundSlow = new Int32Array(EXPONENTIAL_ROUND);
+let roundSlowCount = 0;
+
+/**
+ * Whether exponential batches run their second pass in WebAssembly where it loads (the default) or
+ * in JavaScript. Both give the same doubles; the tests switch it to check the JavaScript path in Node.
+ *
+ * @returns whether the WebAssembly pass is loaded in this process
+ */
+export function setExponentialKernelInUse(use: boolean): boolean {
+  kernelInUse = use && kernel !== null;
+  return kernel !== null;
+}
 
 /**
  * The first pass of a round of the hyperbolic loop: checks elements start…end − 1,
@@ -283,18 +307,36 @@ function exponentialOptimum(x: number, d: number, k: number, K: number, o: Optim
 
 /**
  * The exponential case of solveRange, in rounds of EXPONENTIAL_ROUND elements and two passes: the
- * checks, the emptiness test and a copy of each non-empty element's inputs to this module's scratch
- * (listExponentialRound), then exponentialOptimum's steps for the listed elements
- * (solveListedExponential). Every pass after the first reads and writes only this module's own
- * arrays, which compiled code reaches far more cheaply than the caller's, and keeps the table
- * routines inline. The round's outputs are then copied out in four block copies (up to a bad
- * element, which is thrown for after them).
+ * checks, the emptiness test and a copy of each non-empty element's inputs to the round's scratch
+ * (listExponentialRound), then exponentialOptimum's steps for the listed elements, two at a time in
+ * WebAssembly where it loads (exponentialKernel.ts, Node) or one at a time in JavaScript
+ * (solveListedExponential). The second pass reads and writes only the round's scratch, which
+ * compiled code reaches far more cheaply than the caller's arrays, and keeps the table routines
+ * inline. The few non-empty elements whose arguments lie outside the tables' range are solved one
+ * by one (exponentialOptimum, with the Math fallbacks). The round's outputs are then copied out in
+ * four block copies (up to a bad element, which is thrown for after them).
  */
 function exponentialRange(x: Float64Array, d: Float64Array, k: Float64Array, K: Float64Array, o: OptimumArrays, n: number, fail: (i: number) => never): void {
   for (let start = 0; start < n; start += EXPONENTIAL_ROUND) {
     const end = Math.min(n, start + EXPONENTIAL_ROUND);
     const count = listExponentialRound(x, d, k, K, start, end);
-    solveListedExponential(count);
+    if (kernel !== null && kernelInUse) {
+      if (count & 1) {
+        // an odd count is padded with a copy of the last listed element, written to a spare place
+        roundX[count] = roundX[count - 1];
+        roundD[count] = roundD[count - 1];
+        roundK[count] = roundK[count - 1];
+        roundKLarge[count] = roundKLarge[count - 1];
+        roundPlaces[count] = EXPONENTIAL_ROUND + 1;
+      }
+      kernel.solve(count + (count & 1));
+    } else {
+      solveListedExponential(count);
+    }
+    for (let s = 0; s < roundSlowCount; s++) {
+      const i = roundSlow[s];
+      exponentialOptimum(x[start + i], d[start + i], k[start + i], K[start + i], roundOutputs, i);
+    }
     const done = (roundFailure >= 0 ? roundFailure : end) - start;
     o.lower.set(roundLower.subarray(0, done), start);
     o.upper.set(roundUpper.subarray(0, done), start);
@@ -313,6 +355,7 @@ function exponentialRange(x: Float64Array, d: Float64Array, k: Float64Array, K: 
 function listExponentialRound(x: Float64Array, d: Float64Array, k: Float64Array, K: Float64Array, start: number, end: number): number {
   roundFailure = -1;
   let count = 0;
+  let slow = 0;
   for (let i = start; i < end; i++) {
     const xi = x[i], di = d[i], ki = k[i], Ki = K[i];
     // the single solve's test with fewer branches: d, k, K are finite iff a quarter of their sum is
@@ -325,14 +368,20 @@ function listExponentialRound(x: Float64Array, d: Float64Array, k: Float64Array,
     roundUpper[i - start] = NaN;
     roundLate[i - start] = NaN;
     roundGap[i - start] = NaN;
-    roundIndices[count] = i - start;
+    roundPlaces[count] = i - start;
     roundX[count] = xi;
     roundD[count] = di;
     roundK[count] = ki;
     roundKLarge[count] = Ki;
-    // the emptiness test of exponentialOptimum (d = 0 fails it too: 0 > 0 is false)
-    count += +(ki * di > Ki * di);
+    roundSlow[slow] = i - start;
+    // the emptiness test of exponentialOptimum (d = 0 fails it too: 0 > 0 is false), and whether the
+    // tables take every argument (e^t for t ≥ −708, ln x for a normal x) or the Math fallbacks are needed
+    const nonEmpty = +(ki * di > Ki * di);
+    const tabled = +((Ki - ki) * di >= -708 && -Ki * di >= -708 && xi >= 2.2250738585072014e-308);
+    count += nonEmpty & tabled;
+    slow += nonEmpty & (1 - tabled);
   }
+  roundSlowCount = slow;
   return count;
 }
 
@@ -347,7 +396,7 @@ function solveListedExponential(count: number): void {
   let lastRatio = NaN;
   let lnR = NaN;
   for (let j = 0; j < count; j++) {
-    const i = roundIndices[j];
+    const i = roundPlaces[j];
     const x = roundX[j], d = roundD[j], k = roundK[j], K = roundKLarge[j];
     const m = expm1Of((K - k) * d);
     const lnHalf = lnHalfOnePlus(m);

@@ -1,5 +1,8 @@
-import { describe, expect, it } from 'vitest';
+import { readFileSync } from 'node:fs';
+import { afterEach, describe, expect, it } from 'vitest';
 import { createRandom, DesignInputError, MODEL_IDS, optimiseLateDelay, optimiseLateDelayBatch, type ModelSpec } from '@/lib/design';
+import { setExponentialKernelInUse } from '@/lib/design/optimiseLateDelay';
+import { assembleExponentialKernel, kernelModuleText } from '../../../scripts/generate-exponential-kernel.mjs';
 
 const models: ModelSpec[] = MODEL_IDS.flatMap((id): ModelSpec[] => {
   if (id === 'hyperboloid' || id === 'power-delay' || id === 'exponential-power') return [0.3, 1, 2.5].map((sensitivity) => ({ id, sensitivity }));
@@ -194,5 +197,52 @@ describe('optimiseLateDelayBatch', () => {
     const short = { lower: new Float64Array(10), upper: new Float64Array(9), lateDelay: new Float64Array(10), gapProduct: new Float64Array(10) };
     expect(field(() => optimiseLateDelayBatch({ id: 'hyperbolic' }, input, short))).toBe('out.upper');
     expect(field(() => optimiseLateDelayBatch({ id: 'hyperbolic' }, null as unknown as typeof input))).toBe('input');
+  });
+});
+
+describe('the exponential batch in WebAssembly and in JavaScript', () => {
+  afterEach(() => {
+    setExponentialKernelInUse(true);
+  });
+
+  it('loads the WebAssembly pass in Node, and both passes give the single solve\'s doubles to the last bit over a seeded sweep', () => {
+    // the sweep reaches e^t below −708 and subnormal ratios, which both passes hand to the single solve
+    const input = sweep(44, 6000);
+    input.ratio[17] = 5e-324;
+    input.ratio[18] = 2e-310;
+    expect(setExponentialKernelInUse(true)).toBe(true);
+    const wasm = optimiseLateDelayBatch({ id: 'exponential' }, input);
+    setExponentialKernelInUse(false);
+    const js = optimiseLateDelayBatch({ id: 'exponential' }, input);
+    let solved = 0;
+    for (let i = 0; i < input.ratio.length; i++) {
+      const one = optimiseLateDelay({ model: { id: 'exponential' }, ratio: input.ratio[i], soonDelay: input.soonDelay[i], kSmall: input.kSmall[i], kLarge: input.kLarge[i] });
+      const want = one === null ? [NaN, NaN, NaN, NaN] : [one.lower, one.upper, one.lateDelay, one.gapProduct];
+      if (one !== null) solved++;
+      // toEqual compares with Object.is: the same double, to the last bit
+      expect([wasm.lower[i], wasm.upper[i], wasm.lateDelay[i], wasm.gapProduct[i]], `WebAssembly #${i}`).toEqual(want);
+      expect([js.lower[i], js.upper[i], js.lateDelay[i], js.gapProduct[i]], `JavaScript #${i}`).toEqual(want);
+    }
+    expect(solved).toBeGreaterThan(1000);
+  }, 60_000);
+
+  it('stops at a bad element with every output before it written, in both passes, across round boundaries', () => {
+    const input = sweep(45, 5000);
+    input.kLarge[4500] = NaN; // in the third round of 2,048
+    for (const use of [true, false]) {
+      setExponentialKernelInUse(use);
+      const out = { lower: new Float64Array(5000).fill(-7), upper: new Float64Array(5000), lateDelay: new Float64Array(5000), gapProduct: new Float64Array(5000) };
+      expect(() => optimiseLateDelayBatch({ id: 'exponential' }, input, out)).toThrow('kLarge[4500] must be');
+      for (const i of [0, 2047, 2048, 4095, 4096, 4499]) {
+        const one = optimiseLateDelay({ model: { id: 'exponential' }, ratio: input.ratio[i], soonDelay: input.soonDelay[i], kSmall: input.kSmall[i], kLarge: input.kLarge[i] });
+        expect(out.lower[i], `${use} #${i}`).toBe(one === null ? NaN : one.lower);
+      }
+      expect(Array.from(out.lower.subarray(4500))).toEqual(Array(500).fill(-7));
+    }
+  });
+
+  it('runs the module that scripts/generate-exponential-kernel.mjs assembles from its text (regenerate after changing either)', async () => {
+    const bytes = await assembleExponentialKernel();
+    expect(readFileSync('lib/design/exponentialKernel.wasm.ts', 'utf8')).toBe(kernelModuleText(bytes));
   });
 });
